@@ -1,0 +1,136 @@
+//! The one error type of the crate.
+//!
+//! Every failure is a named, fieldless variant, so the C ABI can map each one to a stable
+//! status code and a static message. Sections group the variants by the module that
+//! raises them first; a variant may be raised by later modules too.
+
+use core::fmt;
+
+/// Everything that can go wrong in `bandtemp`.
+///
+/// Fieldless and `Copy`, so it costs nothing to return from firmware code paths.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+#[non_exhaustive]
+pub enum Error {
+    // ---- general inputs -------------------------------------------------------------------
+    /// An input was NaN or infinite.
+    NonFinite,
+    /// A required pointer was null (C ABI only).
+    NullPointer,
+
+    // ---- planck: spectral laws ------------------------------------------------------------
+    /// A temperature was zero or negative (kelvin are absolute).
+    TemperatureNotPositive,
+    /// A wavelength was zero or negative.
+    WavelengthNotPositive,
+    /// A product lambda*T was zero or negative.
+    LambdaTNotPositive,
+    /// A computed radiance is too small to be a normal double (it underflows).
+    RadianceUnderflow,
+    /// A computed radiance is too large to be represented (it overflows).
+    RadianceOverflow,
+    /// A detector kind outside its declared values (C ABI only).
+    InvalidDetector,
+
+    // ---- band: band integrals and inversion -------------------------------------------------
+    /// A band with `lo_um >= hi_um`, or a non-positive edge.
+    InvalidBand,
+    /// A spectral table with fewer than two points.
+    TableTooShort,
+    /// A spectral table whose two arrays differ in length.
+    TableLengthMismatch,
+    /// A spectral table whose wavelengths are not strictly increasing and positive.
+    TableNotIncreasing,
+    /// A spectral table with a negative value.
+    TableValueNegative,
+    /// The response table does not overlap the band, or is zero over the overlap.
+    BandEmpty,
+    /// A radiance that is zero or negative where a positive one is required.
+    RadianceNotPositive,
+    /// A positive radiance below the normal double range (subnormal): too imprecise to invert.
+    RadianceSubnormal,
+    /// A radiance that no temperature in the solver's range produces.
+    RadianceOutOfRange,
+    /// An iterative solver did not converge.
+    NotConverged,
+    // ---- scene ---------------------------------------------------------------------------------
+
+    // ---- calibration ---------------------------------------------------------------------------
+
+    // ---- uncertainty and ratio -------------------------------------------------------------------
+
+    // ---- atmosphere ---------------------------------------------------------------------------
+
+    // ---- frame --------------------------------------------------------------------------------
+}
+
+impl Error {
+    /// A short, static, human-readable message for this error.
+    #[must_use]
+    pub const fn message(self) -> &'static str {
+        match self {
+            // general
+            Error::NonFinite => "an input is NaN or infinite",
+            Error::NullPointer => "a required pointer is null",
+            // planck
+            Error::TemperatureNotPositive => "temperature must be positive (kelvin)",
+            Error::WavelengthNotPositive => "wavelength must be positive (micrometres)",
+            Error::LambdaTNotPositive => "lambda*T must be positive (um*K)",
+            Error::RadianceUnderflow => "the radiance underflows the normal double range",
+            Error::RadianceOverflow => "the radiance overflows the double range",
+            Error::InvalidDetector => "detector kind is not energy (0) or photon (1)",
+            // band
+            Error::InvalidBand => "band edges must satisfy 0 < lo_um < hi_um",
+            Error::TableTooShort => "a spectral table needs at least two points",
+            Error::TableLengthMismatch => "spectral table arrays differ in length",
+            Error::TableNotIncreasing => {
+                "spectral table wavelengths must be positive and strictly increasing"
+            }
+            Error::TableValueNegative => "spectral table values must not be negative",
+            Error::BandEmpty => "the response is zero over the band (no overlap or all zero)",
+            Error::RadianceNotPositive => "radiance must be positive",
+            Error::RadianceSubnormal => "radiance is subnormal: too small to invert precisely",
+            Error::RadianceOutOfRange => "no temperature in the solver range gives this radiance",
+            Error::NotConverged => "the iterative solver did not converge",
+            // scene
+
+            // calibration
+
+            // uncertainty and ratio
+
+            // atmosphere
+
+            // frame
+        }
+    }
+}
+
+impl fmt::Display for Error {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(self.message())
+    }
+}
+
+#[cfg(feature = "std")]
+impl std::error::Error for Error {}
+
+/// The crate's result type.
+pub type Result<T> = core::result::Result<T, Error>;
+
+/// Checks that `value` is finite.
+pub(crate) fn finite(value: f64) -> Result<f64> {
+    if value.is_finite() {
+        Ok(value)
+    } else {
+        Err(Error::NonFinite)
+    }
+}
+
+/// Checks that a temperature is finite and positive.
+pub(crate) fn check_temperature_k(temperature_k: f64) -> Result<f64> {
+    if finite(temperature_k)? > 0.0 {
+        Ok(temperature_k)
+    } else {
+        Err(Error::TemperatureNotPositive)
+    }
+}

@@ -1,0 +1,53 @@
+//! # bandtemp
+//!
+//! Band-integrated radiation thermometry: turn the band-limited signal of an infrared
+//! thermometer or thermal imager into the true temperature of a real surface.
+//!
+//! Layers, one direction only: [`constants`] -> [`planck`] (spectral laws) -> [`band`]
+//! (band integrals and their inversion) -> scene, calibration, uncertainty, ratio,
+//! atmosphere, frame -> ffi (the C ABI).
+//!
+//! Units: kelvin (`_k`), micrometres (`_um`), um*K (`_umk`); spectral radiance in
+//! W m^-2 sr^-1 um^-1; band radiance in W m^-2 sr^-1 (energy detectors) or
+//! photons s^-1 m^-2 sr^-1 (photon detectors). Constants are CODATA 2018.
+//!
+//! The core is `no_std`, allocates nothing and does not panic on any input: every bad
+//! input is a named [`Error`].
+//!
+//! ```
+//! use bandtemp::band::Band;
+//! use bandtemp::planck::Detector;
+//!
+//! // A rectangular 8-14 um band seen by a microbolometer (an energy detector).
+//! let band = Band::rectangular(8.0, 14.0, Detector::Energy)?;
+//! let radiance = band.radiance(300.0)?; // W m^-2 sr^-1
+//! let temperature_k = band.temperature(radiance)?;
+//! assert!((temperature_k - 300.0).abs() < 1e-9);
+//! # Ok::<(), bandtemp::Error>(())
+//! ```
+#![no_std]
+#![deny(unsafe_code)]
+#![deny(missing_docs)]
+#![warn(clippy::pedantic)]
+// Allowed pedantic lints, with the reason:
+// - `many_single_char_names`, `similar_names`: physics formulas read best with their
+//   textbook symbols (x, t, m, c1, c2).
+#![allow(clippy::many_single_char_names, clippy::similar_names)]
+// - `float_cmp`: exact comparisons are deliberate where they appear (a solver hitting its
+//   target exactly, sentinel zeros).
+#![allow(clippy::float_cmp)]
+// - `doc_markdown`: docs carry formulas in plain text (L_band, x_a, c1L); backticks on
+//   every symbol would make them harder to read.
+#![allow(clippy::doc_markdown)]
+// - `module_name_repetitions`: `band::Band` is the clearest name.
+#![allow(clippy::module_name_repetitions)]
+
+#[cfg(feature = "std")]
+extern crate std;
+
+pub mod band;
+pub mod constants;
+mod error;
+pub mod planck;
+
+pub use error::{Error, Result};
