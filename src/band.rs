@@ -546,3 +546,45 @@ where
     }
     Err(Error::NotConverged)
 }
+
+/// A monotone curve from temperature to signal: a blackbody's band radiance, or an
+/// instrument's calibration curve in its own signal units.
+///
+/// The measurement equation ([`crate::scene`]) and the frame converter work over any such
+/// curve, so the same correction applies to exact band radiance and to a fitted
+/// calibration.
+pub trait SignalCurve {
+    /// Signal of a blackbody at `temperature_k`, and its temperature derivative (per K).
+    ///
+    /// # Errors
+    /// Implementation-defined; [`Error::TemperatureNotPositive`] and [`Error::NonFinite`]
+    /// for bad temperatures, [`Error::RadianceUnderflow`] / [`Error::RadianceOverflow`]
+    /// where the signal cannot be represented.
+    fn signal_and_derivative(&self, temperature_k: f64) -> Result<(f64, f64)>;
+
+    /// Signal of a blackbody at `temperature_k`.
+    ///
+    /// # Errors
+    /// As [`SignalCurve::signal_and_derivative`].
+    fn signal(&self, temperature_k: f64) -> Result<f64> {
+        self.signal_and_derivative(temperature_k)
+            .map(|(signal, _)| signal)
+    }
+
+    /// Blackbody temperature whose signal equals `signal` (the apparent temperature), K.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::RadianceNotPositive`], [`Error::RadianceSubnormal`],
+    /// [`Error::RadianceOutOfRange`], [`Error::NotConverged`] or implementation-defined.
+    fn temperature(&self, signal: f64) -> Result<f64>;
+}
+
+impl SignalCurve for Band<'_> {
+    fn signal_and_derivative(&self, temperature_k: f64) -> Result<(f64, f64)> {
+        self.radiance_and_derivative(temperature_k)
+    }
+
+    fn temperature(&self, signal: f64) -> Result<f64> {
+        Band::temperature(self, signal)
+    }
+}

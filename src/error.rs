@@ -54,9 +54,26 @@ pub enum Error {
     /// An iterative solver did not converge.
     NotConverged,
     // ---- scene ---------------------------------------------------------------------------------
+    /// Emissivity outside (0, 1].
+    EmissivityOutOfRange,
+    /// Atmosphere transmittance outside (0, 1].
+    AtmosphereTransmittanceOutOfRange,
+    /// Window transmittance outside (0, 1].
+    WindowTransmittanceOutOfRange,
+    /// Window reflectance outside [0, 1).
+    WindowReflectanceOutOfRange,
+    /// Window transmittance + reflectance above 1.
+    WindowSumExceedsOne,
+    /// The signal is at or below what reflections, air and window alone give: the object
+    /// cannot be resolved against its background.
+    SignalBelowBackground,
 
     // ---- calibration ---------------------------------------------------------------------------
-
+    /// Calibration parameters out of their domain (A <= 0 or C <= 0 for Sakuma-Hattori).
+    CalibrationParameterInvalid,
+    /// A temperature or signal outside where the calibration curve is defined
+    /// (A T + B <= 0 for Sakuma-Hattori, or an inverse that is not a positive temperature).
+    CalibrationOutOfDomain,
     // ---- uncertainty and ratio -------------------------------------------------------------------
 
     // ---- atmosphere ---------------------------------------------------------------------------
@@ -93,9 +110,20 @@ impl Error {
             Error::RadianceOutOfRange => "no temperature in the solver range gives this radiance",
             Error::NotConverged => "the iterative solver did not converge",
             // scene
+            Error::EmissivityOutOfRange => "emissivity must be in (0, 1]",
+            Error::AtmosphereTransmittanceOutOfRange => {
+                "atmosphere transmittance must be in (0, 1]"
+            }
+            Error::WindowTransmittanceOutOfRange => "window transmittance must be in (0, 1]",
+            Error::WindowReflectanceOutOfRange => "window reflectance must be in [0, 1)",
+            Error::WindowSumExceedsOne => "window transmittance + reflectance must not exceed 1",
+            Error::SignalBelowBackground => {
+                "signal at or below the background: the object cannot be resolved"
+            }
 
             // calibration
-
+            Error::CalibrationParameterInvalid => "calibration parameters out of their domain",
+            Error::CalibrationOutOfDomain => "outside the domain of the calibration curve",
             // uncertainty and ratio
 
             // atmosphere

@@ -39,6 +39,9 @@
 // - `doc_markdown`: docs carry formulas in plain text (L_band, x_a, c1L); backticks on
 //   every symbol would make them harder to read.
 #![allow(clippy::doc_markdown)]
+// - `neg_cmp_op_on_partial_ord`: `!(x > 0.0)` is the deliberate idiom that also rejects
+//   NaN; `x <= 0.0` would let NaN through.
+#![allow(clippy::neg_cmp_op_on_partial_ord)]
 // - `module_name_repetitions`: `band::Band` is the clearest name.
 #![allow(clippy::module_name_repetitions)]
 
@@ -46,8 +49,10 @@
 extern crate std;
 
 pub mod band;
+pub mod calibration;
 pub mod constants;
 mod error;
 pub mod planck;
+pub mod scene;
 
 pub use error::{Error, Result};
