@@ -17,6 +17,9 @@ pub enum Error {
     NonFinite,
     /// A required pointer was null (C ABI only).
     NullPointer,
+    /// A pointer misaligned for its type, or a buffer length no buffer in memory can have
+    /// (C ABI only).
+    InvalidBuffer,
 
     // ---- planck: spectral laws ------------------------------------------------------------
     /// A temperature was zero or negative (kelvin are absolute).
@@ -89,6 +92,7 @@ impl Error {
             // general
             Error::NonFinite => "an input is NaN or infinite",
             Error::NullPointer => "a required pointer is null",
+            Error::InvalidBuffer => "a pointer is misaligned or a buffer length is impossible",
             // planck
             Error::TemperatureNotPositive => "temperature must be positive (kelvin)",
             Error::WavelengthNotPositive => "wavelength must be positive (micrometres)",

@@ -52,6 +52,7 @@ pub mod band;
 pub mod calibration;
 pub mod constants;
 mod error;
+pub mod ffi;
 pub mod planck;
 pub mod scene;
 

@@ -1,0 +1,172 @@
+//! The C ABI: a thin skin over the Rust API. No physics lives here.
+//!
+//! Every function returns a [`bt_status`] (`BT_STATUS_OK` = 0, nonzero = a named error,
+//! [`bt_status_message`] gives its text) and writes its results through trailing
+//! out-pointers, which are written only on success: on error the caller's out values are
+//! left untouched. The header `include/bandtemp.h` is generated from these sources by
+//! cbindgen (`cbindgen.toml`); `tests/ffi_header.rs` fails when the checked-in header
+//! differs from a fresh generation.
+//!
+//! # What the caller must guarantee
+//! Every non-null pointer points to memory valid for reads (inputs) or writes (outputs) of
+//! its type for the duration of the call, and a table pointer to at least `response_len`
+//! doubles. Null pointers, misaligned pointers and impossible lengths are detected and
+//! answered with a status (`BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`); a
+//! dangling pointer or a short buffer cannot be detected and is the caller's bug.
+//! Functions are reentrant and thread-safe: nothing is global, nothing allocates.
+//!
+//! # Values are validated, never trusted
+//! NaN, infinities and out-of-domain values are errors. C enum fields (`bt_band.detector`)
+//! are read as integers and validated, so a detector of 7 is `BT_STATUS_INVALID_DETECTOR`,
+//! not undefined behaviour. [`bt_status_message`] takes its status as an `int` for the
+//! same reason. A success never delivers NaN or infinity: every result is checked once
+//! more at the boundary (NaN becomes `BT_STATUS_NON_FINITE`, an infinity
+//! `BT_STATUS_RADIANCE_OVERFLOW`), whatever path the core took.
+//!
+//! # No panic crosses the boundary
+//! 1. By construction: the exports check every pointer with an early return, build slices
+//!    only after null, alignment and length checks (a length of 0 accepts a null pointer),
+//!    and use no `unwrap`, `expect`, indexing, `assert!` or `unreachable!`; the lints
+//!    below deny them in this module, and the core they call reports every bad input as
+//!    an [`Error`](crate::Error).
+//! 2. By test: `tests/ffi_proptest.rs` drives every export and the Rust entry points behind
+//!    them with arbitrary f64 bit patterns; `tests/c/ffi_test.c` drives every export with
+//!    hostile input from C and C++, under AddressSanitizer and UndefinedBehaviorSanitizer.
+//! 3. By configuration: the release profile sets `panic = "abort"`, so even a panic that
+//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.82) a
+//!    panic reaching an `extern "C"` function aborts in every profile instead of
+//!    unwinding into C.
+#![allow(unsafe_code)]
+#![deny(unsafe_op_in_unsafe_fn)]
+#![deny(
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::panic,
+    clippy::indexing_slicing,
+    clippy::unreachable,
+    clippy::todo,
+    clippy::unimplemented,
+    clippy::undocumented_unsafe_blocks
+)]
+// The C ABI names (`bt_status`, `bt_band`) are the contract: lower snake case, `bt_`
+// prefix, as DESIGN.md fixes them.
+#![allow(non_camel_case_types)]
+
+// Declared in the order the header lists them (cbindgen follows this order).
+mod status;
+// Spectral laws.
+mod planck;
+// Bands: integrals and inversion.
+mod band;
+// The measurement equation.
+mod scene;
+// Calibration curves.
+mod calibration;
+
+pub use band::{
+    bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
+};
+pub use calibration::{
+    bt_sakuma_hattori, bt_sakuma_hattori_object_temperature, bt_sakuma_hattori_sensor_signal,
+    bt_sakuma_hattori_signal, bt_sakuma_hattori_temperature,
+};
+pub use planck::{
+    bt_blackbody_fraction, bt_peak_wavelength_um, bt_spectral_photon_radiance,
+    bt_spectral_radiance, bt_total_radiance,
+};
+pub use scene::{
+    bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,
+    bt_sensor_radiance,
+};
+pub use status::{
+    bt_status, bt_status_message, bt_version, BT_VERSION_MAJOR, BT_VERSION_MINOR, BT_VERSION_PATCH,
+};
+
+use crate::error::{Error, Result};
+
+/// Checks a pointer from the caller: non-null and aligned for `T`.
+fn check_ptr<T>(ptr: *const T) -> Result<()> {
+    if ptr.is_null() {
+        Err(Error::NullPointer)
+    } else if !ptr.is_aligned() {
+        Err(Error::InvalidBuffer)
+    } else {
+        Ok(())
+    }
+}
+
+/// Reads a plain-data input struct (every bit pattern of it valid: doubles only).
+///
+/// # Safety
+/// `ptr` is null or valid for reads of a `T`.
+unsafe fn read_input<T: Copy>(ptr: *const T) -> Result<T> {
+    check_ptr(ptr)?;
+    // SAFETY: non-null and aligned (checked), valid for reads (caller); `T` is only
+    // instantiated with structs of doubles, for which every bit pattern is valid.
+    Ok(unsafe { ptr.read() })
+}
+
+/// A slice of `len` doubles at `ptr`; `len == 0` gives the empty slice whatever `ptr` is.
+///
+/// # Errors
+/// [`Error::NullPointer`]; [`Error::InvalidBuffer`] for a misaligned pointer or a length
+/// whose byte size exceeds `isize::MAX` or wraps the address space.
+///
+/// # Safety
+/// For `len > 0`, a non-null `ptr` is valid for reads of `len` doubles that nobody
+/// writes during the call.
+unsafe fn slice_from_c<'a>(ptr: *const f64, len: usize) -> Result<&'a [f64]> {
+    if len == 0 {
+        return Ok(&[]);
+    }
+    check_ptr(ptr)?;
+    let bytes = len
+        .checked_mul(core::mem::size_of::<f64>())
+        .filter(|&bytes| bytes <= isize::MAX.unsigned_abs())
+        .ok_or(Error::InvalidBuffer)?;
+    if (ptr as usize).checked_add(bytes).is_none() {
+        return Err(Error::InvalidBuffer);
+    }
+    // SAFETY: non-null and aligned (checked); the byte size fits isize and does not wrap
+    // (checked); validity for reads of `len` doubles is the caller's guarantee.
+    Ok(unsafe { core::slice::from_raw_parts(ptr, len) })
+}
+
+/// A value an export hands to C: checked once more at the boundary.
+trait Output: Sized {
+    /// The value itself when every number in it is finite. The core already reports
+    /// every non-finite result as a named error; this is the boundary's guarantee that a
+    /// `BT_STATUS_OK` never delivers NaN or infinity even if a core path misses one (NaN
+    /// becomes [`Error::NonFinite`], an infinity [`Error::RadianceOverflow`]).
+    fn finite(self) -> Result<Self>;
+}
+
+impl Output for f64 {
+    fn finite(self) -> Result<f64> {
+        if self.is_finite() {
+            Ok(self)
+        } else if self.is_nan() {
+            Err(Error::NonFinite)
+        } else {
+            Err(Error::RadianceOverflow)
+        }
+    }
+}
+
+/// Checks `out`, runs `compute`, and writes its value through `out` only on success.
+///
+/// # Safety
+/// `out` is null or valid for writes of a `T`.
+unsafe fn deliver<T: Output>(out: *mut T, compute: impl FnOnce() -> Result<T>) -> bt_status {
+    if let Err(error) = check_ptr(out.cast_const()) {
+        return error.into();
+    }
+    match compute().and_then(Output::finite) {
+        Ok(value) => {
+            // SAFETY: non-null and aligned (checked), valid for writes (caller).
+            unsafe { out.write(value) };
+            bt_status::Ok
+        }
+        Err(error) => error.into(),
+    }
+}

@@ -1,0 +1,218 @@
+//! Status codes, their messages, and the library version.
+
+use crate::error::Error;
+use core::ffi::{c_char, c_int};
+
+/// Major version of the library this header belongs to (Cargo.toml's; `tests/ffi_header.rs`
+/// checks that they agree).
+pub const BT_VERSION_MAJOR: u32 = 0;
+/// Minor version of the library this header belongs to.
+pub const BT_VERSION_MINOR: u32 = 1;
+/// Patch version of the library this header belongs to.
+pub const BT_VERSION_PATCH: u32 = 0;
+
+/// What a `bt_` function reports: `BT_STATUS_OK` (0) or the named reason it failed.
+///
+/// Values are explicit and never reused: a retired status keeps its number unused. They
+/// are grouped by the layer that raises them first (1-99 general and C ABI, 100 planck,
+/// 200 band, 300 scene, 400 calibration, 500 uncertainty and ratio, 600 atmosphere,
+/// 700 frame), so that layers can add codes independently.
+#[repr(C)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub enum bt_status {
+    /// Success: the out-pointers hold the results.
+    Ok = 0,
+
+    // ---- general inputs and the C ABI --------------------------------------------------
+    /// An input was NaN or infinite.
+    NonFinite = 1,
+    /// A required pointer was null.
+    NullPointer = 2,
+    /// A pointer was misaligned for its type, or a buffer length was impossible.
+    InvalidBuffer = 3,
+
+    // ---- planck: spectral laws ----------------------------------------------------------
+    /// A temperature was zero or negative (kelvin are absolute).
+    TemperatureNotPositive = 100,
+    /// A wavelength was zero or negative.
+    WavelengthNotPositive = 101,
+    /// A product lambda*T was zero or negative.
+    LambdaTNotPositive = 102,
+    /// A computed radiance is below the normal double range (it underflows).
+    RadianceUnderflow = 103,
+    /// A computed radiance is above the double range (it overflows).
+    RadianceOverflow = 104,
+    /// A detector kind other than `BT_DETECTOR_ENERGY` (0) or `BT_DETECTOR_PHOTON` (1).
+    InvalidDetector = 105,
+
+    // ---- band: band integrals and inversion ----------------------------------------------
+    /// A band without 0 < lo_um < hi_um.
+    InvalidBand = 200,
+    /// A response table with fewer than two points.
+    TableTooShort = 201,
+    /// A response table whose two arrays differ in length.
+    TableLengthMismatch = 202,
+    /// A response table whose wavelengths are not positive and strictly increasing.
+    TableNotIncreasing = 203,
+    /// A response table with a negative value.
+    TableValueNegative = 204,
+    /// The response does not overlap the band, or is zero over the overlap.
+    BandEmpty = 205,
+    /// A radiance that is zero or negative where a positive one is required.
+    RadianceNotPositive = 206,
+    /// A positive radiance below the normal double range: too imprecise to invert.
+    RadianceSubnormal = 207,
+    /// A radiance that no temperature in the solver's range (0.1 K to 1e6 K) produces.
+    RadianceOutOfRange = 208,
+    /// The iterative solver did not converge.
+    NotConverged = 209,
+
+    // ---- scene: the measurement equation ---------------------------------------------------
+    /// Emissivity outside (0, 1].
+    EmissivityOutOfRange = 300,
+    /// Atmosphere transmittance outside (0, 1].
+    AtmosphereTransmittanceOutOfRange = 301,
+    /// Window transmittance outside (0, 1].
+    WindowTransmittanceOutOfRange = 302,
+    /// Window reflectance outside [0, 1).
+    WindowReflectanceOutOfRange = 303,
+    /// Window transmittance + reflectance above 1.
+    WindowSumExceedsOne = 304,
+    /// The signal is at or below what reflections, air and window alone give: the object
+    /// cannot be resolved against its background.
+    SignalBelowBackground = 305,
+
+    // ---- calibration -----------------------------------------------------------------------
+    /// Calibration parameters out of their domain (Sakuma-Hattori: A <= 0 or C <= 0).
+    CalibrationParameterInvalid = 400,
+    /// A temperature or signal outside where the calibration curve is defined.
+    CalibrationOutOfDomain = 401,
+}
+
+/// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
+/// exhaustive: a new `Error` variant does not compile until it has a status, a status
+/// needs its `Error`), and the NUL-terminated message of every status, taken at compile
+/// time from [`Error::message`].
+macro_rules! status_table {
+    ($($variant:ident),* $(,)?) => {
+        impl From<Error> for bt_status {
+            fn from(error: Error) -> bt_status {
+                match error {
+                    $(Error::$variant => bt_status::$variant,)*
+                }
+            }
+        }
+
+        impl bt_status {
+            /// Every status, `Ok` first.
+            pub const ALL: &'static [bt_status] = &[bt_status::Ok, $(bt_status::$variant),*];
+
+            /// The error this status reports; `None` for `Ok`.
+            #[must_use]
+            pub const fn error(self) -> Option<Error> {
+                match self {
+                    bt_status::Ok => None,
+                    $(bt_status::$variant => Some(Error::$variant),)*
+                }
+            }
+
+            /// The status's message as a static NUL-terminated string: "ok", or the
+            /// message of the error.
+            fn message_ptr(self) -> *const c_char {
+                match self {
+                    bt_status::Ok => c"ok".as_ptr(),
+                    $(bt_status::$variant => {
+                        const TEXT: &str = Error::$variant.message();
+                        static BYTES: [u8; TEXT.len() + 1] = nul_terminated(TEXT);
+                        BYTES.as_ptr().cast::<c_char>()
+                    })*
+                }
+            }
+        }
+    };
+}
+
+status_table!(
+    NonFinite,
+    NullPointer,
+    InvalidBuffer,
+    TemperatureNotPositive,
+    WavelengthNotPositive,
+    LambdaTNotPositive,
+    RadianceUnderflow,
+    RadianceOverflow,
+    InvalidDetector,
+    InvalidBand,
+    TableTooShort,
+    TableLengthMismatch,
+    TableNotIncreasing,
+    TableValueNegative,
+    BandEmpty,
+    RadianceNotPositive,
+    RadianceSubnormal,
+    RadianceOutOfRange,
+    NotConverged,
+    EmissivityOutOfRange,
+    AtmosphereTransmittanceOutOfRange,
+    WindowTransmittanceOutOfRange,
+    WindowReflectanceOutOfRange,
+    WindowSumExceedsOne,
+    SignalBelowBackground,
+    CalibrationParameterInvalid,
+    CalibrationOutOfDomain,
+);
+
+impl bt_status {
+    /// The status with this numeric value, if there is one.
+    #[must_use]
+    pub fn from_raw(raw: c_int) -> Option<bt_status> {
+        bt_status::ALL
+            .iter()
+            .copied()
+            .find(|&status| status as c_int == raw)
+    }
+}
+
+/// `text` followed by a NUL, in an array of exactly `N` = `text.len() + 1` bytes.
+///
+/// Evaluated only in `static` initialisers (at compile time). Cannot fail: an interior NUL
+/// would become '?', a short array truncates (neither happens: `tests/ffi_status.rs` checks
+/// every message against [`Error::message`]).
+const fn nul_terminated<const N: usize>(text: &str) -> [u8; N] {
+    let bytes = text.as_bytes();
+    let mut out = [0u8; N];
+    let mut i = 0;
+    while i + 1 < N && i < bytes.len() {
+        // In bounds: i < N - 1 and i < bytes.len() (a compile-time evaluation in any case).
+        #[allow(clippy::indexing_slicing)]
+        {
+            out[i] = if bytes[i] == 0 { b'?' } else { bytes[i] };
+        }
+        i += 1;
+    }
+    out
+}
+
+/// A static, NUL-terminated, human-readable message for a status value: "ok" for
+/// `BT_STATUS_OK`, "unknown status" for a value that is no `bt_status`.
+///
+/// Takes the status as an `int` so that any value a C caller passes is defined behaviour
+/// (pass a `bt_status`; it converts implicitly). Never returns NULL; the string is static:
+/// do not free it.
+#[no_mangle]
+pub extern "C" fn bt_status_message(status: c_int) -> *const c_char {
+    match bt_status::from_raw(status) {
+        Some(status) => status.message_ptr(),
+        None => c"unknown status".as_ptr(),
+    }
+}
+
+/// The library version as a static NUL-terminated string, "MAJOR.MINOR.PATCH" (equal to
+/// `BT_VERSION_MAJOR`.`BT_VERSION_MINOR`.`BT_VERSION_PATCH` of the header it was built
+/// with). Never returns NULL; do not free it.
+#[no_mangle]
+pub extern "C" fn bt_version() -> *const c_char {
+    concat!(env!("CARGO_PKG_VERSION"), "\0")
+        .as_ptr()
+        .cast::<c_char>()
+}

@@ -1,0 +1,666 @@
+/*
+ * The bandtemp C ABI tested from C (C99) and C++ (C++17): the same file compiles as both.
+ * Run by tests/ffi_c.rs, which builds it with -Wall -Wextra -Werror -pedantic against
+ * include/bandtemp.h and the staticlib, also under -fsanitize=address,undefined.
+ *
+ * Two kinds of checks:
+ *  - values against independent references computed here: Planck's law from the CODATA 2018
+ *    exact constants h, c, k, band integrals by composite Simpson quadrature, the
+ *    measurement equation written out, the Sakuma-Hattori closed forms, and blackbody
+ *    fractions from mpmath (polylog closed form, 40 digits; the command is beside them);
+ *  - hostile input to every function (NULL, NaN, +-inf, 0, -0, negative, huge, subnormal,
+ *    empty and reversed bands, unsorted or broken response tables, impossible lengths, a
+ *    detector of 7): the call must return a named status, leave its out values untouched
+ *    on error, and give a finite value on success. Any crash fails the run.
+ *
+ * Prints "N passed, N failed" last; exits nonzero on any failure.
+ */
+#include "bandtemp.h"
+
+#include <float.h>
+#include <math.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <string.h>
+
+/* ---- the harness ----------------------------------------------------------------------- */
+
+static unsigned long passed = 0;
+static unsigned long failed = 0;
+
+static void check(int ok, const char *what, int line) {
+    if (ok) {
+        passed++;
+    } else {
+        failed++;
+        printf("FAIL (line %d): %s\n", line, what);
+    }
+}
+#define CHECK(cond) check((cond) ? 1 : 0, #cond, __LINE__)
+
+/* The value every out variable holds before a call; it must survive every error. */
+static const double SENTINEL = -12345.678;
+
+static int untouched(double value) { return memcmp(&value, &SENTINEL, sizeof value) == 0; }
+
+static int known_status(bt_status status) {
+    const char *message = bt_status_message(status);
+    return message != NULL && strcmp(message, "unknown status") != 0 && message[0] != '\0';
+}
+
+/* Any input: success with a finite value, or a named error with the out value untouched. */
+static void expect_sane(bt_status status, double out, const char *what, int line) {
+    int ok = status == BT_STATUS_OK ? (isfinite(out) ? 1 : 0)
+                                    : untouched(out) && known_status(status);
+    if (!ok) {
+        printf("  status %d (%s), out %.17g\n", (int)status, bt_status_message(status), out);
+    }
+    check(ok, what, line);
+}
+
+/* A given status; on success also a finite value, on error the out value untouched. */
+static void expect_status(bt_status got, bt_status want, double out, const char *what,
+                          int line) {
+    int ok = got == want &&
+             (want == BT_STATUS_OK ? (isfinite(out) ? 1 : 0) : untouched(out));
+    if (!ok) {
+        printf("  got %d (%s), want %d (%s), out %.17g\n", (int)got, bt_status_message(got),
+               (int)want, bt_status_message(want), out);
+    }
+    check(ok, what, line);
+}
+
+/* Success and |out - want| <= rel * |want|. */
+static void expect_near(bt_status got, double out, double want, double rel, const char *what,
+                        int line) {
+    int ok = got == BT_STATUS_OK && fabs(out - want) <= rel * fabs(want);
+    if (!ok) {
+        printf("  status %d (%s), out %.17g, want %.17g, rel err %.3g > %.3g\n", (int)got,
+               bt_status_message(got), out, want, fabs(out - want) / fabs(want), rel);
+    }
+    check(ok, what, line);
+}
+
+/* `out` is a double in scope; each macro resets it to the sentinel first. */
+#define EXPECT(want, call)                                                                     \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        out = SENTINEL;                                                                        \
+        status_ = (call);                                                                      \
+        expect_status(status_, (want), out, #call, __LINE__);                                  \
+    } while (0)
+#define EXPECT_NEAR(call, want, rel)                                                           \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        out = SENTINEL;                                                                        \
+        status_ = (call);                                                                      \
+        expect_near(status_, out, (want), (rel), #call, __LINE__);                             \
+    } while (0)
+#define EXPECT_SANE(call)                                                                      \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        out = SENTINEL;                                                                        \
+        status_ = (call);                                                                      \
+        expect_sane(status_, out, #call, __LINE__);                                            \
+    } while (0)
+
+/* Subnormal doubles (DBL_TRUE_MIN is C11). */
+#define SUBNORMAL_MIN 4.9406564584124654e-324
+#define SUBNORMAL_BIG 2.0e-310
+
+/* Hostile scalars, and the same with valid values mixed in: every argument of every
+ * function is driven through ARGS. */
+static const double ARGS[] = {
+    NAN,           -NAN,           INFINITY, -INFINITY, 0.0,     -0.0,    -1.0,   -DBL_MAX,
+    DBL_MAX,       DBL_MIN,        -DBL_MIN, SUBNORMAL_MIN,     -SUBNORMAL_MIN,   SUBNORMAL_BIG,
+    1e-300,        1e300,          1e-9,     1e9,       0.5,     0.95,    1.0,    1.5,
+    3.0,           8.0,            14.0,     300.0,     1000.0,  5000.0,  1e6,    2e6,
+};
+#define N_ARGS (sizeof ARGS / sizeof ARGS[0])
+
+/* Where lambda*T of a band edge and a temperature falls below about 3e-99 um K,
+ * x = c2/(lambda T) exceeds about 5e102, the core's series tails turn NaN (x^3 overflows
+ * while e^-x underflows), and it falls back to a 1e6-panel quadrature (about 1 s per call
+ * in a debug build) that reports BT_STATUS_NON_FINITE where a value exists. Reported as a
+ * core defect; until it is fixed the exhaustive loops skip such edges and temperatures
+ * (ARGS holds nothing between 1e-290 and 1e-9, so this test is exact for ARGS) and
+ * test_core_overflow_edges() calls those paths once each. */
+static int slow_in_core(double value) { return value > 0.0 && value < 1e-290; }
+
+/* ---- independent references ------------------------------------------------------------ */
+
+/* CODATA 2018 exact constants (SI). */
+static const double H_J_S = 6.62607015e-34;
+static const double C_M_S = 299792458.0;
+static const double K_J_K = 1.380649e-23;
+/* pi (M_PI is not C99). */
+#define M_PI_REF 3.14159265358979323846
+
+/* Planck's law, W m^-2 sr^-1 um^-1: 2 h c^2 / lambda^5 / (exp(h c / (lambda k T)) - 1). */
+static double planck(double wavelength_um, double temperature_k) {
+    double wavelength_m = wavelength_um * 1e-6;
+    double x = H_J_S * C_M_S / (wavelength_m * K_J_K * temperature_k);
+    return 2.0 * H_J_S * C_M_S * C_M_S / pow(wavelength_m, 5.0) / expm1(x) * 1e-6;
+}
+
+/* Photon spectral radiance, photons s^-1 m^-2 sr^-1 um^-1: L lambda / (h c). */
+static double planck_photon(double wavelength_um, double temperature_k) {
+    return planck(wavelength_um, temperature_k) * wavelength_um * 1e-6 / (H_J_S * C_M_S);
+}
+
+/* Composite Simpson rule of r(lambda) * L(lambda, T) over [lo, hi] with r linear from
+ * r_lo to r_hi (r = 1 for a rectangular band). 4000 panels: error far below 1e-11. */
+static double simpson(double lo_um, double hi_um, double r_lo, double r_hi, double t_k,
+                      int photon) {
+    const int n = 4000;
+    double step = (hi_um - lo_um) / n;
+    double sum = 0.0;
+    int i;
+    for (i = 0; i <= n; i++) {
+        double wl = lo_um + i * step;
+        double r = r_lo + (r_hi - r_lo) * (double)i / n;
+        double f = r * (photon ? planck_photon(wl, t_k) : planck(wl, t_k));
+        double weight = (i == 0 || i == n) ? 1.0 : (i % 2 ? 4.0 : 2.0);
+        sum += weight * f;
+    }
+    return sum * step / 3.0;
+}
+
+static double band_ref(double lo_um, double hi_um, double t_k, int photon) {
+    return simpson(lo_um, hi_um, 1.0, 1.0, t_k, photon);
+}
+
+/* The triangle response used below: 0 at 8 um, 1 at 11 um, 0 at 14 um. */
+static double triangle_ref(double t_k) {
+    return simpson(8.0, 11.0, 0.0, 1.0, t_k, 0) + simpson(11.0, 14.0, 1.0, 0.0, t_k, 0);
+}
+
+/* ---- band helpers ------------------------------------------------------------------------ */
+
+static bt_band rectangular(double lo_um, double hi_um, bt_detector detector) {
+    bt_band band = {lo_um, hi_um, detector, NULL, NULL, 0};
+    return band;
+}
+
+static bt_band tabulated(double lo_um, double hi_um, const double *wl, const double *r,
+                         size_t n) {
+    bt_band band = {lo_um, hi_um, BT_DETECTOR_ENERGY, wl, r, n};
+    return band;
+}
+
+/* Stores a raw integer in the detector field as C code holding an out-of-range enum value
+ * would (memcpy, so that the C++ build has no out-of-range enum conversion either). */
+static void set_raw_detector(bt_band *band, unsigned int value) {
+    if (sizeof band->detector == sizeof(unsigned int)) {
+        memcpy(&band->detector, &value, sizeof band->detector);
+    } else if (sizeof band->detector == sizeof(unsigned short)) {
+        unsigned short narrow = (unsigned short)value;
+        memcpy(&band->detector, &narrow, sizeof band->detector);
+    } else {
+        unsigned char narrow = (unsigned char)value;
+        memcpy(&band->detector, &narrow, sizeof band->detector);
+    }
+}
+
+static bt_scene plain_scene(void) {
+    bt_scene scene = {0.95, 293.15, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    return scene;
+}
+
+static bt_scene full_scene(void) {
+    bt_scene scene = {0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0};
+    return scene;
+}
+
+/* Measurement equation written out from DESIGN.md, over any L values. */
+static double measurement(const bt_scene *s, double l_object, double l_reflected,
+                          double l_atm, double l_window_reflected, double l_window) {
+    double tw = s->window_transmittance, rw = s->window_reflectance;
+    double ta = s->atm_transmittance, e = s->emissivity;
+    return tw * (ta * (e * l_object + (1.0 - e) * l_reflected) + (1.0 - ta) * l_atm) +
+           rw * l_window_reflected + (1.0 - tw - rw) * l_window;
+}
+
+static double sakuma_hattori(const bt_sakuma_hattori *p, double t_k) {
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    return p->c / expm1(c2_umk / (p->a_um * t_k + p->b_umk));
+}
+
+/* ---- version and status -------------------------------------------------------------- */
+
+static void test_version_and_status(void) {
+    char expected[64];
+    int status;
+    sprintf(expected, "%d.%d.%d", BT_VERSION_MAJOR, BT_VERSION_MINOR, BT_VERSION_PATCH);
+    CHECK(bt_version() != NULL);
+    CHECK(strcmp(bt_version(), expected) == 0);
+    CHECK(BT_STATUS_OK == 0);
+    CHECK(BT_DETECTOR_ENERGY == 0 && BT_DETECTOR_PHOTON == 1);
+    CHECK(strcmp(bt_status_message(BT_STATUS_OK), "ok") == 0);
+    CHECK(strcmp(bt_status_message(BT_STATUS_NULL_POINTER), "a required pointer is null") ==
+          0);
+    CHECK(strcmp(bt_status_message(BT_STATUS_INVALID_DETECTOR),
+                 "detector kind is not energy (0) or photon (1)") == 0);
+    /* Every int has a message; values that are no status say so. */
+    for (status = -3; status < 1000; status++) {
+        const char *message = bt_status_message(status);
+        CHECK(message != NULL && message[0] != '\0');
+    }
+    CHECK(strcmp(bt_status_message(-1), "unknown status") == 0);
+    CHECK(strcmp(bt_status_message(7), "unknown status") == 0);
+    CHECK(strcmp(bt_status_message(INT32_MAX), "unknown status") == 0);
+    CHECK(strcmp(bt_status_message(INT32_MIN), "unknown status") == 0);
+    /* Pinned values (part of the ABI). */
+    CHECK(BT_STATUS_NON_FINITE == 1 && BT_STATUS_NULL_POINTER == 2);
+    CHECK(BT_STATUS_INVALID_BUFFER == 3 && BT_STATUS_TEMPERATURE_NOT_POSITIVE == 100);
+    CHECK(BT_STATUS_INVALID_DETECTOR == 105 && BT_STATUS_INVALID_BAND == 200);
+    CHECK(BT_STATUS_SIGNAL_BELOW_BACKGROUND == 305 &&
+          BT_STATUS_CALIBRATION_OUT_OF_DOMAIN == 401);
+}
+
+/* ---- spectral laws ------------------------------------------------------------------- */
+
+static void test_planck(void) {
+    double out;
+    size_t i, j;
+    /* Values against Planck's law computed here from the CODATA constants. */
+    EXPECT_NEAR(bt_spectral_radiance(10.0, 300.0, &out), planck(10.0, 300.0), 1e-12);
+    EXPECT_NEAR(bt_spectral_radiance(0.5, 5778.0, &out), planck(0.5, 5778.0), 1e-12);
+    EXPECT_NEAR(bt_spectral_radiance(3.9, 1000.0, &out), planck(3.9, 1000.0), 1e-12);
+    EXPECT_NEAR(bt_spectral_photon_radiance(4.0, 500.0, &out), planck_photon(4.0, 500.0),
+                1e-12);
+    EXPECT_NEAR(bt_total_radiance(300.0, &out), 5.670374419e-8 * pow(300.0, 4) / M_PI_REF,
+                1e-9);
+    EXPECT_NEAR(bt_peak_wavelength_um(5000.0, &out), 2897.771955 / 5000.0, 1e-9);
+    /* Blackbody fractions from mpmath, 40 digits:
+     * F = 15/pi^4 (x^3 Li1(e^-x) + 3x^2 Li2 + 6x Li3 + 6 Li4), x = c2/(lambda T). */
+    EXPECT_NEAR(bt_blackbody_fraction(2897.771955, &out), 0.25005454678069198748, 1e-13);
+    EXPECT_NEAR(bt_blackbody_fraction(1000.0, &out), 0.00032076978404488972166, 1e-12);
+    EXPECT_NEAR(bt_blackbody_fraction(5000.0, &out), 0.63372587191591024588, 1e-13);
+    EXPECT_NEAR(bt_blackbody_fraction(10000.0, &out), 0.91415697092801560679, 1e-13);
+    EXPECT_NEAR(bt_blackbody_fraction(100000.0, &out), 0.99985521024712409703, 1e-13);
+
+    /* Named errors. */
+    EXPECT(BT_STATUS_NON_FINITE, bt_spectral_radiance(NAN, 300.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_spectral_radiance(10.0, INFINITY, &out));
+    EXPECT(BT_STATUS_WAVELENGTH_NOT_POSITIVE, bt_spectral_radiance(0.0, 300.0, &out));
+    EXPECT(BT_STATUS_WAVELENGTH_NOT_POSITIVE, bt_spectral_radiance(-1.0, 300.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, bt_spectral_radiance(10.0, -0.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_UNDERFLOW, bt_spectral_radiance(0.1, 10.0, &out));
+    EXPECT(BT_STATUS_LAMBDA_T_NOT_POSITIVE, bt_blackbody_fraction(0.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_blackbody_fraction(-INFINITY, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, bt_total_radiance(-5.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_OVERFLOW, bt_peak_wavelength_um(SUBNORMAL_MIN, &out));
+    CHECK(bt_spectral_radiance(10.0, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_spectral_photon_radiance(10.0, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_blackbody_fraction(1000.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_peak_wavelength_um(1000.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_total_radiance(1000.0, NULL) == BT_STATUS_NULL_POINTER);
+
+    /* Every pair of hostile and valid arguments. */
+    for (i = 0; i < N_ARGS; i++) {
+        EXPECT_SANE(bt_blackbody_fraction(ARGS[i], &out));
+        if (bt_blackbody_fraction(ARGS[i], &out) == BT_STATUS_OK) {
+            CHECK(out >= 0.0 && out <= 1.0);
+        }
+        EXPECT_SANE(bt_peak_wavelength_um(ARGS[i], &out));
+        EXPECT_SANE(bt_total_radiance(ARGS[i], &out));
+        for (j = 0; j < N_ARGS; j++) {
+            EXPECT_SANE(bt_spectral_radiance(ARGS[i], ARGS[j], &out));
+            EXPECT_SANE(bt_spectral_photon_radiance(ARGS[i], ARGS[j], &out));
+        }
+    }
+}
+
+/* ---- bands --------------------------------------------------------------------------- */
+
+static void test_band_values(void) {
+    double out;
+    static const double wl[] = {8.0, 11.0, 14.0};
+    static const double r[] = {0.0, 1.0, 0.0};
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band mwir = rectangular(3.0, 5.0, BT_DETECTOR_PHOTON);
+    bt_band nir = rectangular(0.9, 1.1, BT_DETECTOR_ENERGY);
+    bt_band triangle = tabulated(7.0, 15.0, wl, r, 3);
+    double temperatures[] = {250.0, 300.0, 500.0, 1000.0, 1500.0};
+    size_t i;
+
+    for (i = 0; i < sizeof temperatures / sizeof temperatures[0]; i++) {
+        double t = temperatures[i];
+        double l_lwir = band_ref(8.0, 14.0, t, 0);
+        double l_mwir = band_ref(3.0, 5.0, t, 1);
+        double l_triangle = triangle_ref(t);
+        double derivative = (band_ref(8.0, 14.0, t + 0.01, 0) -
+                             band_ref(8.0, 14.0, t - 0.01, 0)) / 0.02;
+        EXPECT_NEAR(bt_band_radiance(&lwir, t, &out), l_lwir, 1e-11);
+        EXPECT_NEAR(bt_band_radiance(&mwir, t, &out), l_mwir, 1e-11);
+        EXPECT_NEAR(bt_band_radiance(&triangle, t, &out), l_triangle, 1e-10);
+        EXPECT_NEAR(bt_band_radiance_derivative(&lwir, t, &out), derivative, 1e-7);
+        /* Inversion of the independent radiance. */
+        EXPECT_NEAR(bt_band_temperature(&lwir, l_lwir, &out), t, 1e-10);
+        EXPECT_NEAR(bt_band_temperature(&mwir, l_mwir, &out), t, 1e-10);
+        EXPECT_NEAR(bt_band_temperature(&triangle, l_triangle, &out), t, 1e-9);
+    }
+    EXPECT_NEAR(bt_band_radiance(&nir, 1500.0, &out), band_ref(0.9, 1.1, 1500.0, 0), 1e-11);
+    /* A table that overhangs the band is integrated over the overlap only: here the band
+     * is [11, 20] and the table ends at 14, so only the falling half counts. */
+    triangle.lo_um = 11.0;
+    triangle.hi_um = 20.0;
+    EXPECT_NEAR(bt_band_radiance(&triangle, 300.0, &out),
+                simpson(11.0, 14.0, 1.0, 0.0, 300.0, 0), 1e-10);
+}
+
+static void test_band_hostile(void) {
+    double out;
+    size_t i, j;
+    static const double wl[] = {8.0, 11.0, 14.0};
+    static const double r[] = {0.0, 1.0, 0.0};
+    static const double unsorted[] = {8.0, 14.0, 11.0};
+    static const double duplicate[] = {8.0, 11.0, 11.0};
+    static const double negative_wl[] = {-8.0, 11.0, 14.0};
+    static const double negative_r[] = {0.5, -1.0, 0.5};
+    static const double zero_r[] = {0.0, 0.0, 0.0};
+    static const double far_wl[] = {100.0, 110.0, 120.0};
+    static const double nan_r[] = {0.0, NAN, 0.0};
+    static const double inf_wl[] = {8.0, INFINITY, 14.0};
+    bt_band good = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band band;
+    bt_scene scene = plain_scene();
+    bt_sakuma_hattori sh = {10.0, 50.0, 1e4};
+
+    /* NULL band, NULL out. */
+    EXPECT(BT_STATUS_NULL_POINTER, bt_band_radiance(NULL, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_band_radiance_derivative(NULL, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_band_temperature(NULL, 40.0, &out));
+    CHECK(bt_band_radiance(&good, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_band_radiance_derivative(&good, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_band_temperature(&good, 40.0, NULL) == BT_STATUS_NULL_POINTER);
+
+    /* Empty and reversed bands, bad edges. */
+    band = rectangular(10.0, 10.0, BT_DETECTOR_ENERGY);
+    EXPECT(BT_STATUS_INVALID_BAND, bt_band_radiance(&band, 300.0, &out));
+    band = rectangular(14.0, 8.0, BT_DETECTOR_ENERGY);
+    EXPECT(BT_STATUS_INVALID_BAND, bt_band_radiance(&band, 300.0, &out));
+    EXPECT(BT_STATUS_INVALID_BAND, bt_band_temperature(&band, 40.0, &out));
+    band = rectangular(0.0, 8.0, BT_DETECTOR_ENERGY);
+    EXPECT(BT_STATUS_INVALID_BAND, bt_band_radiance(&band, 300.0, &out));
+    band = rectangular(NAN, 8.0, BT_DETECTOR_ENERGY);
+    EXPECT(BT_STATUS_NON_FINITE, bt_band_radiance(&band, 300.0, &out));
+    band = rectangular(8.0, INFINITY, BT_DETECTOR_ENERGY);
+    EXPECT(BT_STATUS_NON_FINITE, bt_band_radiance(&band, 300.0, &out));
+
+    /* Detector values outside the enum: read as integers, rejected. */
+    band = good;
+    set_raw_detector(&band, 7);
+    EXPECT(BT_STATUS_INVALID_DETECTOR, bt_band_radiance(&band, 300.0, &out));
+    EXPECT(BT_STATUS_INVALID_DETECTOR, bt_band_temperature(&band, 40.0, &out));
+    EXPECT(BT_STATUS_INVALID_DETECTOR, bt_sensor_radiance(&band, &scene, 300.0, &out));
+    set_raw_detector(&band, 2);
+    EXPECT(BT_STATUS_INVALID_DETECTOR, bt_band_radiance(&band, 300.0, &out));
+    set_raw_detector(&band, 0xFFFFFFFFu);
+    EXPECT(BT_STATUS_INVALID_DETECTOR, bt_band_radiance(&band, 300.0, &out));
+    set_raw_detector(&band, 1);
+    EXPECT(BT_STATUS_OK, bt_band_radiance(&band, 300.0, &out));
+
+    /* Response tables. */
+    band = tabulated(8.0, 14.0, NULL, r, 3);
+    EXPECT(BT_STATUS_NULL_POINTER, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, NULL, 3);
+    EXPECT(BT_STATUS_NULL_POINTER, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, NULL, NULL, 0); /* rectangular: NULL allowed with length 0 */
+    EXPECT_NEAR(bt_band_radiance(&band, 300.0, &out), band_ref(8.0, 14.0, 300.0, 0), 1e-11);
+    band = tabulated(8.0, 14.0, wl, r, 0); /* length 0 ignores the pointers */
+    EXPECT(BT_STATUS_OK, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, r, 1);
+    EXPECT(BT_STATUS_TABLE_TOO_SHORT, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, unsorted, r, 3);
+    EXPECT(BT_STATUS_TABLE_NOT_INCREASING, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, duplicate, r, 3);
+    EXPECT(BT_STATUS_TABLE_NOT_INCREASING, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, negative_wl, r, 3);
+    EXPECT(BT_STATUS_TABLE_NOT_INCREASING, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, negative_r, 3);
+    EXPECT(BT_STATUS_TABLE_VALUE_NEGATIVE, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, zero_r, 3);
+    EXPECT(BT_STATUS_BAND_EMPTY, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, far_wl, r, 3);
+    EXPECT(BT_STATUS_BAND_EMPTY, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, nan_r, 3);
+    EXPECT(BT_STATUS_NON_FINITE, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, inf_wl, r, 3);
+    EXPECT(BT_STATUS_NON_FINITE, bt_band_radiance(&band, 300.0, &out));
+    /* Impossible lengths are caught before any read. */
+    band = tabulated(8.0, 14.0, wl, r, SIZE_MAX);
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, r, SIZE_MAX / 8 + 1);
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_band_radiance(&band, 300.0, &out));
+    band = tabulated(8.0, 14.0, wl, r, SIZE_MAX / 2);
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_band_temperature(&band, 40.0, &out));
+
+    /* Inversion errors. */
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE, bt_band_temperature(&good, 0.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE, bt_band_temperature(&good, -1.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_SUBNORMAL, bt_band_temperature(&good, SUBNORMAL_MIN, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_band_temperature(&good, NAN, &out));
+    EXPECT(BT_STATUS_RADIANCE_OUT_OF_RANGE, bt_band_temperature(&good, 1e300, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, bt_band_radiance(&good, 0.0, &out));
+
+    /* Every hostile edge pair, detector and argument. */
+    for (i = 0; i < N_ARGS; i++) {
+        for (j = 0; j < N_ARGS && !slow_in_core(ARGS[i]); j++) {
+            band = rectangular(ARGS[i], ARGS[j], BT_DETECTOR_ENERGY);
+            EXPECT_SANE(bt_band_radiance(&band, 300.0, &out));
+            band.detector = BT_DETECTOR_PHOTON;
+            EXPECT_SANE(bt_band_radiance_derivative(&band, 1000.0, &out));
+            EXPECT_SANE(bt_band_temperature(&band, 1.0, &out));
+        }
+        EXPECT_SANE(bt_band_temperature(&good, ARGS[i], &out));
+        if (slow_in_core(ARGS[i])) {
+            continue;
+        }
+        EXPECT_SANE(bt_band_radiance(&good, ARGS[i], &out));
+        EXPECT_SANE(bt_band_radiance_derivative(&good, ARGS[i], &out));
+        EXPECT_SANE(bt_sakuma_hattori_signal(&sh, ARGS[i], &out));
+    }
+    /* Hostile values inside a table, in each slot of both arrays. */
+    for (i = 0; i < N_ARGS; i++) {
+        size_t slot;
+        for (slot = 0; slot < 3; slot++) {
+            double table_wl[3] = {8.0, 11.0, 14.0};
+            double table_r[3] = {0.2, 1.0, 0.2};
+            table_wl[slot] = ARGS[i];
+            band = tabulated(7.0, 15.0, table_wl, table_r, 3);
+            EXPECT_SANE(bt_band_radiance(&band, 300.0, &out));
+            EXPECT_SANE(bt_band_temperature(&band, 20.0, &out));
+            table_wl[slot] = wl[slot];
+            table_r[slot] = ARGS[i];
+            band = tabulated(7.0, 15.0, table_wl, table_r, 3);
+            EXPECT_SANE(bt_band_radiance(&band, 300.0, &out));
+            EXPECT_SANE(bt_band_temperature(&band, 20.0, &out));
+        }
+    }
+}
+
+/* ---- the measurement equation -------------------------------------------------------- */
+
+static void test_scene(void) {
+    double out;
+    size_t i, field;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene();
+    double t = 400.0;
+    double s_ref = measurement(&scene, band_ref(8.0, 14.0, t, 0),
+                               band_ref(8.0, 14.0, scene.reflected_k, 0),
+                               band_ref(8.0, 14.0, scene.atm_k, 0),
+                               band_ref(8.0, 14.0, scene.window_reflected_k, 0),
+                               band_ref(8.0, 14.0, scene.window_k, 0));
+    double apparent;
+
+    EXPECT_NEAR(bt_sensor_radiance(&lwir, &scene, t, &out), s_ref, 1e-11);
+    EXPECT_NEAR(bt_object_temperature(&lwir, &scene, s_ref, &out), t, 1e-10);
+    /* Apparent temperature: the blackbody temperature of the sensor radiance. */
+    EXPECT(BT_STATUS_OK, bt_apparent_temperature(&lwir, &scene, t, &out));
+    apparent = out;
+    EXPECT_NEAR(bt_band_radiance(&lwir, apparent, &out), s_ref, 1e-11);
+    EXPECT_NEAR(bt_object_temperature_from_apparent(&lwir, &scene, apparent, &out), t, 1e-10);
+    /* A blackbody in a transparent scene: object = apparent. */
+    scene = plain_scene();
+    scene.emissivity = 1.0;
+    EXPECT_NEAR(bt_object_temperature_from_apparent(&lwir, &scene, 321.0, &out), 321.0, 1e-12);
+
+    /* Named errors. */
+    scene = full_scene();
+    EXPECT(BT_STATUS_NULL_POINTER, bt_sensor_radiance(NULL, &scene, t, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_sensor_radiance(&lwir, NULL, t, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_object_temperature(&lwir, NULL, s_ref, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_object_temperature(NULL, &scene, s_ref, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_object_temperature_from_apparent(&lwir, NULL, t, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_apparent_temperature(NULL, &scene, t, &out));
+    CHECK(bt_sensor_radiance(&lwir, &scene, t, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_object_temperature(&lwir, &scene, s_ref, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_object_temperature_from_apparent(&lwir, &scene, t, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_apparent_temperature(&lwir, &scene, t, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_SIGNAL_BELOW_BACKGROUND,
+           bt_object_temperature(&lwir, &scene, 1.0, &out));
+    scene.emissivity = 0.0;
+    EXPECT(BT_STATUS_EMISSIVITY_OUT_OF_RANGE, bt_sensor_radiance(&lwir, &scene, t, &out));
+    scene.emissivity = 1.5;
+    EXPECT(BT_STATUS_EMISSIVITY_OUT_OF_RANGE, bt_object_temperature(&lwir, &scene, 50.0, &out));
+    scene = full_scene();
+    scene.atm_transmittance = 0.0;
+    EXPECT(BT_STATUS_ATMOSPHERE_TRANSMITTANCE_OUT_OF_RANGE,
+           bt_sensor_radiance(&lwir, &scene, t, &out));
+    scene = full_scene();
+    scene.window_transmittance = 1.01;
+    EXPECT(BT_STATUS_WINDOW_TRANSMITTANCE_OUT_OF_RANGE,
+           bt_sensor_radiance(&lwir, &scene, t, &out));
+    scene = full_scene();
+    scene.window_reflectance = 1.0;
+    EXPECT(BT_STATUS_WINDOW_REFLECTANCE_OUT_OF_RANGE,
+           bt_sensor_radiance(&lwir, &scene, t, &out));
+    scene = full_scene();
+    scene.window_transmittance = 0.9;
+    scene.window_reflectance = 0.2;
+    EXPECT(BT_STATUS_WINDOW_SUM_EXCEEDS_ONE, bt_sensor_radiance(&lwir, &scene, t, &out));
+    scene = full_scene();
+    scene.window_k = -1.0;
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, bt_sensor_radiance(&lwir, &scene, t, &out));
+    scene = full_scene();
+    scene.reflected_k = NAN;
+    EXPECT(BT_STATUS_NON_FINITE, bt_sensor_radiance(&lwir, &scene, t, &out));
+
+    /* Every field of the scene, and the scalar argument, through every hostile value. */
+    for (i = 0; i < N_ARGS; i++) {
+        if (slow_in_core(ARGS[i])) {
+            continue;
+        }
+        for (field = 0; field < 8; field++) {
+            double *fields[8];
+            scene = full_scene();
+            fields[0] = &scene.emissivity;
+            fields[1] = &scene.reflected_k;
+            fields[2] = &scene.atm_transmittance;
+            fields[3] = &scene.atm_k;
+            fields[4] = &scene.window_transmittance;
+            fields[5] = &scene.window_reflectance;
+            fields[6] = &scene.window_k;
+            fields[7] = &scene.window_reflected_k;
+            *fields[field] = ARGS[i];
+            EXPECT_SANE(bt_sensor_radiance(&lwir, &scene, t, &out));
+            EXPECT_SANE(bt_object_temperature(&lwir, &scene, s_ref, &out));
+            EXPECT_SANE(bt_object_temperature_from_apparent(&lwir, &scene, 350.0, &out));
+            EXPECT_SANE(bt_apparent_temperature(&lwir, &scene, t, &out));
+        }
+        scene = full_scene();
+        EXPECT_SANE(bt_sensor_radiance(&lwir, &scene, ARGS[i], &out));
+        EXPECT_SANE(bt_object_temperature(&lwir, &scene, ARGS[i], &out));
+        EXPECT_SANE(bt_object_temperature_from_apparent(&lwir, &scene, ARGS[i], &out));
+        EXPECT_SANE(bt_apparent_temperature(&lwir, &scene, ARGS[i], &out));
+    }
+}
+
+/* ---- Sakuma-Hattori ------------------------------------------------------------------ */
+
+static void test_sakuma_hattori(void) {
+    double out;
+    size_t i, j, k;
+    bt_sakuma_hattori p = {10.6, 35.0, 2.5e4}; /* invented: an 8-14 um instrument */
+    bt_scene scene = full_scene();
+    double temperatures[] = {250.0, 300.0, 600.0, 1200.0};
+
+    for (i = 0; i < sizeof temperatures / sizeof temperatures[0]; i++) {
+        double t = temperatures[i];
+        double s = sakuma_hattori(&p, t);
+        double s_scene =
+            measurement(&scene, s, sakuma_hattori(&p, scene.reflected_k),
+                        sakuma_hattori(&p, scene.atm_k), sakuma_hattori(&p, scene.window_reflected_k),
+                        sakuma_hattori(&p, scene.window_k));
+        EXPECT_NEAR(bt_sakuma_hattori_signal(&p, t, &out), s, 1e-13);
+        EXPECT_NEAR(bt_sakuma_hattori_temperature(&p, s, &out), t, 1e-12);
+        EXPECT_NEAR(bt_sakuma_hattori_sensor_signal(&p, &scene, t, &out), s_scene, 1e-12);
+        EXPECT_NEAR(bt_sakuma_hattori_object_temperature(&p, &scene, s_scene, &out), t, 1e-11);
+    }
+
+    EXPECT(BT_STATUS_NULL_POINTER, bt_sakuma_hattori_signal(NULL, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_sakuma_hattori_temperature(NULL, 1.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_sakuma_hattori_sensor_signal(&p, NULL, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_sakuma_hattori_object_temperature(NULL, &scene, 1.0, &out));
+    CHECK(bt_sakuma_hattori_signal(&p, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_sakuma_hattori_temperature(&p, 1.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_sakuma_hattori_sensor_signal(&p, &scene, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_sakuma_hattori_object_temperature(&p, &scene, 1.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    p.a_um = 0.0;
+    EXPECT(BT_STATUS_CALIBRATION_PARAMETER_INVALID, bt_sakuma_hattori_signal(&p, 300.0, &out));
+    p.a_um = 10.6;
+    p.c = -1.0;
+    EXPECT(BT_STATUS_CALIBRATION_PARAMETER_INVALID,
+           bt_sakuma_hattori_temperature(&p, 1.0, &out));
+    p.c = 2.5e4;
+    p.b_umk = -5000.0;
+    EXPECT(BT_STATUS_CALIBRATION_OUT_OF_DOMAIN, bt_sakuma_hattori_signal(&p, 300.0, &out));
+    p.b_umk = NAN;
+    EXPECT(BT_STATUS_NON_FINITE, bt_sakuma_hattori_signal(&p, 300.0, &out));
+    p.b_umk = 35.0;
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE, bt_sakuma_hattori_temperature(&p, 0.0, &out));
+
+    /* Every combination of hostile parameters with hostile arguments. */
+    for (i = 0; i < N_ARGS; i++) {
+        for (j = 0; j < N_ARGS; j++) {
+            for (k = 0; k < N_ARGS; k += 3) {
+                bt_sakuma_hattori q = {ARGS[i], ARGS[j], ARGS[k]};
+                EXPECT_SANE(bt_sakuma_hattori_signal(&q, 300.0, &out));
+                EXPECT_SANE(bt_sakuma_hattori_temperature(&q, ARGS[(i + j + k) % N_ARGS], &out));
+            }
+        }
+        EXPECT_SANE(bt_sakuma_hattori_temperature(&p, ARGS[i], &out));
+        EXPECT_SANE(bt_sakuma_hattori_sensor_signal(&p, &scene, ARGS[i], &out));
+        EXPECT_SANE(bt_sakuma_hattori_object_temperature(&p, &scene, ARGS[i], &out));
+    }
+}
+
+/* The values the loops skip (see slow_in_core), once each: a named status or a value,
+ * never a crash. */
+static void test_core_overflow_edges(void) {
+    double out;
+    bt_band band = rectangular(DBL_MIN, 8.0, BT_DETECTOR_ENERGY);
+    bt_band good = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene();
+    EXPECT_SANE(bt_band_radiance(&band, 300.0, &out));
+    EXPECT_SANE(bt_band_radiance(&good, SUBNORMAL_MIN, &out));
+    scene.reflected_k = DBL_MIN;
+    EXPECT_SANE(bt_sensor_radiance(&good, &scene, 300.0, &out));
+}
+
+int main(void) {
+    test_version_and_status();
+    test_planck();
+    test_band_values();
+    test_band_hostile();
+    test_scene();
+    test_sakuma_hattori();
+    test_core_overflow_edges();
+    printf("%lu passed, %lu failed\n", passed, failed);
+    return failed == 0 ? 0 : 1;
+}

@@ -1,0 +1,248 @@
+//! The C ABI from the outside: `tests/c/ffi_test.c` compiled with the system C compiler
+//! (C99, `-Wall -Wextra -Werror -pedantic`) and as C++17 against `include/bandtemp.h` and
+//! the staticlib, then run; again under AddressSanitizer + UndefinedBehaviorSanitizer where
+//! the compiler supports them; and the README example (`tests/c/readme_example.c`).
+//!
+//! The compilers are `$CC` and `$CXX` (default `cc` and `c++`). The staticlib is built by
+//! the test itself (`cargo build --lib` into a target directory of its own, so that it
+//! never waits on the outer build's lock and is never stale).
+
+use std::path::{Path, PathBuf};
+use std::process::Command;
+use std::sync::OnceLock;
+
+fn root() -> &'static Path {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn scratch() -> PathBuf {
+    let dir = Path::new(env!("CARGO_TARGET_TMPDIR")).join("ffi_c");
+    std::fs::create_dir_all(&dir).expect("create the scratch directory");
+    dir
+}
+
+/// Builds the debug staticlib once per test run and returns its directory.
+fn library_dir() -> &'static Path {
+    static DIR: OnceLock<PathBuf> = OnceLock::new();
+    DIR.get_or_init(|| {
+        let target_dir = scratch().join("target");
+        let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".to_owned());
+        let status = Command::new(cargo)
+            .args(["build", "--lib", "--quiet", "--manifest-path"])
+            .arg(root().join("Cargo.toml"))
+            .arg("--target-dir")
+            .arg(&target_dir)
+            .status()
+            .expect("run cargo build --lib");
+        assert!(status.success(), "cargo build --lib failed");
+        let dir = target_dir.join("debug");
+        assert!(
+            dir.join("libbandtemp.a").is_file(),
+            "no libbandtemp.a in {}",
+            dir.display()
+        );
+        dir
+    })
+}
+
+/// Native libraries the Rust staticlib needs on this platform
+/// (`cargo rustc --lib --crate-type staticlib -- --print native-static-libs`).
+fn native_libs() -> &'static [&'static str] {
+    if cfg!(target_os = "macos") {
+        &["-lSystem", "-lc", "-lm"]
+    } else {
+        &[
+            "-lgcc_s",
+            "-lutil",
+            "-lrt",
+            "-lpthread",
+            "-lm",
+            "-ldl",
+            "-lc",
+        ]
+    }
+}
+
+fn compiler(var: &str, default: &str) -> String {
+    std::env::var(var).unwrap_or_else(|_| default.to_owned())
+}
+
+const WARNINGS: &[&str] = &["-Wall", "-Wextra", "-Werror", "-pedantic"];
+
+/// Compiles `source` with `compiler` and `flags`, links the staticlib, and returns the
+/// executable. Panics with the compiler's output on failure.
+fn build(compiler: &str, flags: &[&str], source: &str, name: &str) -> PathBuf {
+    let exe = scratch().join(name);
+    let output = Command::new(compiler)
+        .args(flags)
+        .args(WARNINGS)
+        .arg("-I")
+        .arg(root().join("include"))
+        .arg(root().join(source))
+        .arg("-o")
+        .arg(&exe)
+        // Ends any `-x c++`: the archive is linker input, not source.
+        .args(["-x", "none"])
+        .arg(library_dir().join("libbandtemp.a"))
+        .args(native_libs())
+        .output()
+        .unwrap_or_else(|e| panic!("cannot run the compiler `{compiler}`: {e} (set CC/CXX)"));
+    assert!(
+        output.status.success(),
+        "`{compiler} {}` failed on {source}:\n{}{}",
+        flags.join(" "),
+        String::from_utf8_lossy(&output.stdout),
+        String::from_utf8_lossy(&output.stderr)
+    );
+    exe
+}
+
+/// Runs an executable and returns its stdout; panics with its output unless it exits 0.
+fn run(exe: &Path) -> String {
+    let output = Command::new(exe)
+        .env("ASAN_OPTIONS", "detect_leaks=1:abort_on_error=1")
+        .env("UBSAN_OPTIONS", "print_stacktrace=1:halt_on_error=1")
+        .output()
+        .unwrap_or_else(|e| panic!("cannot run {}: {e}", exe.display()));
+    let stdout = String::from_utf8_lossy(&output.stdout).into_owned();
+    let stderr = String::from_utf8_lossy(&output.stderr);
+    assert!(
+        output.status.success(),
+        "{} failed ({}):\n{stdout}{stderr}",
+        exe.display(),
+        output.status
+    );
+    print!("{stdout}");
+    stdout
+}
+
+/// The C test program's closing line, "N passed, 0 failed", with N above a floor that
+/// proves it ran its checks.
+fn assert_summary(stdout: &str) {
+    let summary = stdout
+        .lines()
+        .rev()
+        .find(|line| line.contains(" passed, "))
+        .expect("the C test prints 'N passed, N failed'");
+    let mut words = summary.split_whitespace();
+    let passed: u32 = words.next().and_then(|w| w.parse().ok()).unwrap_or(0);
+    assert!(
+        summary.ends_with(" passed, 0 failed"),
+        "C checks failed: {summary}"
+    );
+    assert!(passed > 1000, "too few C checks ran: {summary}");
+}
+
+#[test]
+fn c99_program_passes() {
+    let cc = compiler("CC", "cc");
+    let exe = build(
+        &cc,
+        &["-std=c99", "-O1"],
+        "tests/c/ffi_test.c",
+        "ffi_test_c99",
+    );
+    assert_summary(&run(&exe));
+}
+
+#[test]
+fn cpp17_program_passes() {
+    let cxx = compiler("CXX", "c++");
+    let exe = build(
+        &cxx,
+        &["-x", "c++", "-std=c++17", "-O1"],
+        "tests/c/ffi_test.c",
+        "ffi_test_cpp17",
+    );
+    assert_summary(&run(&exe));
+}
+
+/// Whether `compiler` can build and run a program with `flags` (sanitizers need runtime
+/// support that some systems and containers lack).
+fn supports(compiler: &str, flags: &[&str]) -> bool {
+    let dir = scratch();
+    let source = dir.join("probe.c");
+    let exe = dir.join("probe");
+    std::fs::write(&source, "int main(void) { return 0; }\n").expect("write probe.c");
+    let built = Command::new(compiler)
+        .args(flags)
+        .arg(&source)
+        .arg("-o")
+        .arg(&exe)
+        .output()
+        .is_ok_and(|o| o.status.success());
+    built
+        && Command::new(&exe)
+            .output()
+            .is_ok_and(|o| o.status.success())
+}
+
+#[test]
+fn c99_program_passes_under_address_and_undefined_sanitizers() {
+    let cc = compiler("CC", "cc");
+    let sanitize = [
+        "-fsanitize=address,undefined",
+        "-fno-sanitize-recover=all",
+        "-fno-omit-frame-pointer",
+    ];
+    if !supports(&cc, &sanitize) {
+        println!("note: `{cc}` cannot build and run with {sanitize:?} here; sanitizer run skipped");
+        return;
+    }
+    let mut flags = vec!["-std=c99", "-O1", "-g"];
+    flags.extend(sanitize);
+    let exe = build(&cc, &flags, "tests/c/ffi_test.c", "ffi_test_asan");
+    assert_summary(&run(&exe));
+}
+
+#[test]
+fn cpp17_program_passes_under_address_and_undefined_sanitizers() {
+    let cxx = compiler("CXX", "c++");
+    let sanitize = [
+        "-fsanitize=address,undefined",
+        "-fno-sanitize-recover=all",
+        "-fno-omit-frame-pointer",
+    ];
+    if !supports(&cxx, &sanitize) {
+        println!(
+            "note: `{cxx}` cannot build and run with {sanitize:?} here; sanitizer run skipped"
+        );
+        return;
+    }
+    let mut flags = vec!["-x", "c++", "-std=c++17", "-O1", "-g"];
+    flags.extend(sanitize);
+    let exe = build(&cxx, &flags, "tests/c/ffi_test.c", "ffi_test_cpp_asan");
+    assert_summary(&run(&exe));
+}
+
+/// The README's C example compiles as written (C99 and C++17) and prints the object
+/// temperature. Expected value: 360.000 K, the temperature whose measurement-equation
+/// signal the example passes in (computed independently with scipy.integrate.quad over
+/// Planck's law with scipy.constants, see the comment in readme_example.c).
+#[test]
+fn readme_example_compiles_and_runs() {
+    let cc = compiler("CC", "cc");
+    let cxx = compiler("CXX", "c++");
+    for (exe, name) in [
+        (
+            build(&cc, &["-std=c99"], "tests/c/readme_example.c", "readme_c99"),
+            "C99",
+        ),
+        (
+            build(
+                &cxx,
+                &["-x", "c++", "-std=c++17"],
+                "tests/c/readme_example.c",
+                "readme_cpp17",
+            ),
+            "C++17",
+        ),
+    ] {
+        let stdout = run(&exe);
+        assert_eq!(
+            stdout.trim(),
+            "object: 360.000 K",
+            "README example ({name})"
+        );
+    }
+}

@@ -1,0 +1,555 @@
+//! Every export of the C ABI, and the Rust entry points behind it, driven with arbitrary
+//! f64 bit patterns (plus the edge values NaN, +-inf, +-0, subnormals, the double range's
+//! ends, and physical magnitudes): no panic, and every result either a valid value or a
+//! named error. The exports must also agree with the Rust API they wrap, write their out
+//! values only on success, and answer bad pointers with a status.
+
+use bandtemp::band::{Band, SignalCurve, SpectralTable};
+use bandtemp::calibration::SakumaHattori;
+use bandtemp::ffi::*;
+use bandtemp::planck::{self, Detector};
+use bandtemp::scene::Scene;
+use bandtemp::Error;
+use core::ffi::c_int;
+use core::mem::{offset_of, size_of};
+use proptest::prelude::*;
+
+/// The value out variables hold before a call; it must survive every error.
+const SENTINEL: f64 = -12345.678;
+
+/// Edge values every argument is also drawn from.
+const SPECIAL: &[f64] = &[
+    f64::NAN,
+    f64::INFINITY,
+    f64::NEG_INFINITY,
+    0.0,
+    -0.0,
+    -1.0,
+    f64::MAX,
+    f64::MIN,
+    f64::MIN_POSITIVE,
+    -f64::MIN_POSITIVE,
+    5e-324,
+    -5e-324,
+    2e-310,
+    f64::EPSILON,
+    1e-300,
+    1e300,
+    0.5,
+    1.0,
+    8.0,
+    14.0,
+    300.0,
+    1000.0,
+    1e6,
+];
+
+/// Arbitrary bit patterns, edge values, and magnitudes from 1e-3 to 1e7.
+fn any_f64() -> impl Strategy<Value = f64> {
+    prop_oneof![
+        3 => any::<u64>().prop_map(f64::from_bits),
+        2 => prop::sample::select(SPECIAL),
+        3 => (-3.0f64..7.0).prop_map(|e| 10f64.powf(e)),
+    ]
+}
+
+/// As [`any_f64`] with positive values below 1e-45 negated, for band edges and the
+/// temperatures of band integrals. Where lambda*T falls below about 3e-99 um K,
+/// x = c2/(lambda T) exceeds about 5e102, the core's series tails turn NaN (x^3 overflows
+/// while e^-x underflows), and it falls back to a 1e6-panel quadrature: about 1 s per call
+/// in a debug build, ending in BT_STATUS_NON_FINITE where a value exists (reported as a
+/// core defect). Two factors of at least 1e-45 keep lambda*T above 1e-90;
+/// `slow_core_paths_answer_with_a_status` and the C test still call those paths.
+fn band_f64() -> impl Strategy<Value = f64> {
+    any_f64().prop_map(|x| if x > 0.0 && x < 1e-45 { -x } else { x })
+}
+
+/// Small tables of arbitrary values, and increasing ones (sorted, so that some are valid).
+fn table() -> impl Strategy<Value = (Vec<f64>, Vec<f64>)> {
+    let len = 0usize..6;
+    len.prop_flat_map(|n| {
+        (
+            prop::collection::vec(band_f64(), n),
+            prop::collection::vec(any_f64(), n),
+            any::<bool>(),
+        )
+    })
+    .prop_map(|(mut wl, r, sort)| {
+        if sort {
+            wl.sort_by(f64::total_cmp);
+        }
+        (wl, r)
+    })
+}
+
+/// An export's (status, out) agrees with the Rust result it wraps: the same status and
+/// value on success (with a finite value), the same error and an untouched out value on
+/// failure. The boundary also refuses non-finite successes of the core: those must come
+/// back as NonFinite (NaN) or RadianceOverflow (infinity).
+fn agrees(status: bt_status, out: f64, rust: Result<f64, Error>) -> Result<(), TestCaseError> {
+    match rust {
+        Ok(value) if value.is_finite() => {
+            prop_assert_eq!(status, bt_status::Ok);
+            prop_assert_eq!(out.to_bits(), value.to_bits());
+        }
+        Ok(value) => {
+            let want = if value.is_nan() {
+                bt_status::NonFinite
+            } else {
+                bt_status::RadianceOverflow
+            };
+            prop_assert_eq!(status, want);
+            prop_assert_eq!(out.to_bits(), SENTINEL.to_bits());
+        }
+        Err(error) => {
+            prop_assert_eq!(status, bt_status::from(error));
+            prop_assert_ne!(status, bt_status::Ok);
+            prop_assert!(!error.message().is_empty());
+            prop_assert_eq!(out.to_bits(), SENTINEL.to_bits());
+        }
+    }
+    Ok(())
+}
+
+/// A Rust result is a valid value (finite, and inside `range`) or a named error.
+fn valid_or_named(
+    result: Result<f64, Error>,
+    range: core::ops::RangeInclusive<f64>,
+) -> Result<(), TestCaseError> {
+    match result {
+        Ok(value) => prop_assert!(
+            value.is_finite() && range.contains(&value),
+            "value {value} outside {range:?}"
+        ),
+        Err(error) => prop_assert_ne!(bt_status::from(error), bt_status::Ok),
+    }
+    Ok(())
+}
+
+fn rect_band(lo_um: f64, hi_um: f64, detector: bt_detector) -> bt_band {
+    bt_band {
+        lo_um,
+        hi_um,
+        detector,
+        response_um: core::ptr::null(),
+        response: core::ptr::null(),
+        response_len: 0,
+    }
+}
+
+fn c_scene(f: [f64; 8]) -> bt_scene {
+    bt_scene {
+        emissivity: f[0],
+        reflected_k: f[1],
+        atm_transmittance: f[2],
+        atm_k: f[3],
+        window_transmittance: f[4],
+        window_reflectance: f[5],
+        window_k: f[6],
+        window_reflected_k: f[7],
+    }
+}
+
+fn rust_scene(s: &bt_scene) -> Result<Scene, Error> {
+    Scene::new(s.emissivity, s.reflected_k)?
+        .with_atmosphere(s.atm_transmittance, s.atm_k)?
+        .with_window(
+            s.window_transmittance,
+            s.window_reflectance,
+            s.window_k,
+            s.window_reflected_k,
+        )
+}
+
+/// A scene drawn near valid values with one field replaced by an arbitrary value, or all
+/// fields arbitrary.
+fn scene_fields() -> impl Strategy<Value = [f64; 8]> {
+    let valid = [0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0];
+    prop_oneof![
+        (0usize..8, band_f64()).prop_map(move |(i, x)| {
+            let mut f = valid;
+            if let Some(slot) = f.get_mut(i) {
+                *slot = x;
+            }
+            f
+        }),
+        prop::array::uniform8(band_f64()),
+        Just(valid),
+    ]
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 512, ..ProptestConfig::default() })]
+
+    #[test]
+    fn spectral_laws(wl in any_f64(), t in any_f64(), lt in any_f64()) {
+        let mut out = SENTINEL;
+        let s = unsafe { bt_spectral_radiance(wl, t, &mut out) };
+        agrees(s, out, planck::spectral_radiance(wl, t))?;
+        valid_or_named(planck::spectral_radiance(wl, t), 0.0..=f64::MAX)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_spectral_photon_radiance(wl, t, &mut out) };
+        agrees(s, out, planck::spectral_photon_radiance(wl, t))?;
+        valid_or_named(planck::spectral_photon_radiance(wl, t), 0.0..=f64::MAX)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_blackbody_fraction(lt, &mut out) };
+        agrees(s, out, planck::blackbody_fraction(lt))?;
+        if s == bt_status::Ok {
+            prop_assert!((0.0..=1.0).contains(&out));
+        }
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_total_radiance(t, &mut out) };
+        agrees(s, out, planck::total_radiance(t))?;
+        valid_or_named(planck::total_radiance(t), 0.0..=f64::MAX)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_peak_wavelength_um(t, &mut out) };
+        agrees(s, out, planck::peak_wavelength_um(t))?;
+    }
+
+    #[test]
+    fn detector_from_any_integer(raw in any::<u32>()) {
+        let detector = Detector::from_raw(raw);
+        prop_assert_eq!(detector.is_ok(), raw <= 1);
+    }
+
+    #[test]
+    fn rectangular_bands(
+        lo in band_f64(), hi in band_f64(), t in band_f64(), radiance in any_f64(),
+        photon in any::<bool>(),
+    ) {
+        let (c_detector, detector) = if photon {
+            (bt_detector::Photon, Detector::Photon)
+        } else {
+            (bt_detector::Energy, Detector::Energy)
+        };
+        let band = rect_band(lo, hi, c_detector);
+        let rust = Band::rectangular(lo, hi, detector);
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_radiance(&band, t, &mut out) };
+        let want = rust.and_then(|b| b.radiance(t));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_radiance_derivative(&band, t, &mut out) };
+        agrees(s, out, rust.and_then(|b| b.radiance_derivative(t)))?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_temperature(&band, radiance, &mut out) };
+        let want = rust.and_then(|b| b.temperature(radiance));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=2e6)?;
+    }
+
+    #[test]
+    fn tabulated_bands(
+        lo in band_f64(), hi in band_f64(), (wl, r) in table(), t in band_f64(),
+        radiance in any_f64(),
+    ) {
+        let band = bt_band {
+            lo_um: lo,
+            hi_um: hi,
+            detector: bt_detector::Energy,
+            response_um: wl.as_ptr(),
+            response: r.as_ptr(),
+            response_len: wl.len(),
+        };
+        let rust = if wl.is_empty() {
+            Band::rectangular(lo, hi, Detector::Energy)
+        } else {
+            SpectralTable::new(&wl, &r)
+                .and_then(|table| Band::with_response(lo, hi, Detector::Energy, table))
+        };
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_radiance(&band, t, &mut out) };
+        let want = rust.and_then(|b| b.radiance(t));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_temperature(&band, radiance, &mut out) };
+        let want = rust.and_then(|b| b.temperature(radiance));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=2e6)?;
+    }
+
+    #[test]
+    fn scenes(fields in scene_fields(), t in band_f64(), signal in any_f64(), lo in 1.0f64..10.0) {
+        let band = rect_band(lo, lo + 4.0, bt_detector::Energy);
+        let rust_band = Band::rectangular(lo, lo + 4.0, Detector::Energy).unwrap();
+        let scene = c_scene(fields);
+        let rust = rust_scene(&scene);
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_sensor_radiance(&band, &scene, t, &mut out) };
+        let want = rust.and_then(|sc| sc.sensor_signal(&rust_band, t));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_object_temperature(&band, &scene, signal, &mut out) };
+        let want = rust.and_then(|sc| sc.object_temperature(&rust_band, signal));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=2e6)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_object_temperature_from_apparent(&band, &scene, t, &mut out) };
+        let want = rust.and_then(|sc| sc.object_temperature(&rust_band, rust_band.radiance(t)?));
+        agrees(s, out, want)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_apparent_temperature(&band, &scene, t, &mut out) };
+        let want = rust
+            .and_then(|sc| sc.sensor_signal(&rust_band, t))
+            .and_then(|signal| rust_band.temperature(signal));
+        agrees(s, out, want)?;
+    }
+
+    #[test]
+    fn sakuma_hattori(
+        a in any_f64(), b in any_f64(), c in any_f64(), t in any_f64(), signal in any_f64(),
+        fields in scene_fields(),
+    ) {
+        let p = bt_sakuma_hattori { a_um: a, b_umk: b, c };
+        let rust = SakumaHattori::new(a, b, c);
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_sakuma_hattori_signal(&p, t, &mut out) };
+        agrees(s, out, rust.and_then(|curve| curve.signal(t)))?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_sakuma_hattori_temperature(&p, signal, &mut out) };
+        let want = rust.and_then(|curve| curve.temperature(signal));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+
+        let scene = c_scene(fields);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_sakuma_hattori_sensor_signal(&p, &scene, t, &mut out) };
+        agrees(
+            s,
+            out,
+            rust.and_then(|curve| rust_scene(&scene)?.sensor_signal(&curve, t)),
+        )?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_sakuma_hattori_object_temperature(&p, &scene, signal, &mut out) };
+        let want = rust.and_then(|curve| rust_scene(&scene)?.object_temperature(&curve, signal));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+    }
+
+    #[test]
+    fn status_messages_for_any_int(raw in any::<c_int>()) {
+        let ptr = bt_status_message(raw);
+        prop_assert!(!ptr.is_null());
+        // SAFETY: a static NUL-terminated string.
+        let text = unsafe { core::ffi::CStr::from_ptr(ptr) }.to_str().unwrap();
+        prop_assert!(!text.is_empty());
+        prop_assert_eq!(bt_status::from_raw(raw).is_some(), text != "unknown status");
+    }
+}
+
+// Rust entry points whose successes are not always finite today: these properties state
+// what must hold and fail on core defects reported alongside this test (the C ABI is
+// protected by its boundary check meanwhile). Run them with
+// `cargo test --test ffi_proptest -- --ignored`.
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 512, ..ProptestConfig::default() })]
+
+    /// Fails today: `blackbody_fraction` returns NaN for 0 < lambda*T below about 3e-99 um K
+    /// (x = c2/(lambda T) overflows); F must be 0 there.
+    #[test]
+    #[ignore = "core defect: blackbody_fraction is NaN for lambda*T below ~3e-99 um K"]
+    fn blackbody_fraction_is_a_fraction_or_an_error(lt in any_f64()) {
+        let result = planck::blackbody_fraction(lt);
+        valid_or_named(result, 0.0..=1.0)?;
+    }
+
+    /// Fails today: `radiance_derivative` is NaN for a band reaching hi_um = f64::MAX.
+    #[test]
+    #[ignore = "core defect: band radiance derivative NaN for huge hi_um"]
+    fn band_derivative_is_finite_or_an_error(lo in band_f64(), hi in band_f64(), t in band_f64()) {
+        let result = Band::rectangular(lo, hi, Detector::Energy)
+            .and_then(|b| b.radiance_derivative(t));
+        valid_or_named(result, 0.0..=f64::MAX)?;
+    }
+
+    /// Fails today: `SakumaHattori::signal` returns infinity where A T overflows (y -> 0).
+    #[test]
+    #[ignore = "core defect: Sakuma-Hattori signal infinite where A*T overflows"]
+    fn sakuma_hattori_signal_is_finite_or_an_error(
+        a in any_f64(), b in any_f64(), c in any_f64(), t in any_f64(),
+    ) {
+        let result = SakumaHattori::new(a, b, c).and_then(|curve| curve.signal(t));
+        valid_or_named(result, 0.0..=f64::MAX)?;
+    }
+}
+
+/// The paths `band_f64` avoids answer with a status or a value, without crashing.
+#[test]
+fn slow_core_paths_answer_with_a_status() {
+    for lo_um in [f64::MIN_POSITIVE, 1e-120] {
+        let band = rect_band(lo_um, 8.0, bt_detector::Energy);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_radiance(&band, 300.0, &mut out) };
+        assert!(s == bt_status::Ok && out.is_finite() || out.to_bits() == SENTINEL.to_bits());
+    }
+}
+
+/// The C view of `bt_band` with the detector as a plain integer, to hand the library a
+/// detector value outside the enum the way C code can (without making an invalid enum
+/// value on the Rust side).
+#[repr(C)]
+struct RawBand {
+    lo_um: f64,
+    hi_um: f64,
+    detector: u32,
+    response_um: *const f64,
+    response: *const f64,
+    response_len: usize,
+}
+
+#[test]
+fn raw_band_mirrors_bt_band() {
+    assert_eq!(size_of::<bt_detector>(), size_of::<u32>());
+    assert_eq!(size_of::<RawBand>(), size_of::<bt_band>());
+    assert_eq!(offset_of!(RawBand, detector), offset_of!(bt_band, detector));
+    assert_eq!(
+        offset_of!(RawBand, response_um),
+        offset_of!(bt_band, response_um)
+    );
+    assert_eq!(
+        offset_of!(RawBand, response_len),
+        offset_of!(bt_band, response_len)
+    );
+}
+
+proptest! {
+    #[test]
+    fn detector_values_outside_the_enum_are_errors(raw in any::<u32>()) {
+        let band = RawBand {
+            lo_um: 8.0,
+            hi_um: 14.0,
+            detector: raw,
+            response_um: core::ptr::null(),
+            response: core::ptr::null(),
+            response_len: 0,
+        };
+        let ptr = (&band as *const RawBand).cast::<bt_band>();
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_radiance(ptr, 300.0, &mut out) };
+        if raw <= 1 {
+            prop_assert_eq!(s, bt_status::Ok);
+        } else {
+            prop_assert_eq!(s, bt_status::InvalidDetector);
+            prop_assert_eq!(out.to_bits(), SENTINEL.to_bits());
+        }
+    }
+}
+
+#[test]
+fn bad_pointers_are_answered_with_a_status() {
+    let good = rect_band(8.0, 14.0, bt_detector::Energy);
+    let scene = c_scene([0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0]);
+    let mut out = SENTINEL;
+    let null_out: *mut f64 = core::ptr::null_mut();
+    // Null inputs and outputs.
+    unsafe {
+        assert_eq!(
+            bt_band_radiance(core::ptr::null(), 300.0, &mut out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_band_radiance(&good, 300.0, null_out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_sensor_radiance(&good, core::ptr::null(), 300.0, &mut out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_sensor_radiance(core::ptr::null(), &scene, 300.0, &mut out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_sakuma_hattori_signal(core::ptr::null(), 300.0, &mut out),
+            bt_status::NullPointer
+        );
+    }
+    assert_eq!(out.to_bits(), SENTINEL.to_bits());
+
+    // Misaligned pointers (which C code cannot form legally, but a bad cast can).
+    let mut buffer = [0u64; 8];
+    let misaligned_out = buffer
+        .as_mut_ptr()
+        .cast::<u8>()
+        .wrapping_add(1)
+        .cast::<f64>();
+    let misaligned_band = (&good as *const bt_band)
+        .cast::<u8>()
+        .wrapping_add(4)
+        .cast::<bt_band>();
+    let wl = [8.0, 11.0, 14.0, 15.0];
+    let r = [0.0, 1.0, 0.0, 0.0];
+    let misaligned_table = bt_band {
+        lo_um: 8.0,
+        hi_um: 14.0,
+        detector: bt_detector::Energy,
+        response_um: wl.as_ptr().cast::<u8>().wrapping_add(2).cast::<f64>(),
+        response: r.as_ptr(),
+        response_len: 3,
+    };
+    unsafe {
+        assert_eq!(
+            bt_band_radiance(&good, 300.0, misaligned_out),
+            bt_status::InvalidBuffer
+        );
+        assert_eq!(
+            bt_band_radiance(misaligned_band, 300.0, &mut out),
+            bt_status::InvalidBuffer
+        );
+        assert_eq!(
+            bt_band_radiance(&misaligned_table, 300.0, &mut out),
+            bt_status::InvalidBuffer
+        );
+    }
+    assert_eq!(
+        buffer, [0u64; 8],
+        "nothing written through a misaligned out-pointer"
+    );
+
+    // Lengths no buffer can have.
+    for len in [usize::MAX, usize::MAX / 8 + 1, isize::MAX as usize] {
+        let band = bt_band {
+            response_len: len,
+            ..misaligned_table
+        };
+        let band = bt_band {
+            response_um: wl.as_ptr(),
+            ..band
+        };
+        let mut out = SENTINEL;
+        let s = unsafe { bt_band_temperature(&band, 40.0, &mut out) };
+        assert_eq!(s, bt_status::InvalidBuffer, "length {len}");
+        assert_eq!(out.to_bits(), SENTINEL.to_bits());
+    }
+    // A pointer near the top of the address space whose length would wrap around.
+    let near_top = bt_band {
+        response_um: usize::MAX.wrapping_sub(15) as *const f64,
+        response: r.as_ptr(),
+        response_len: 3,
+        ..good
+    };
+    let near_top = bt_band {
+        response_um: (near_top.response_um as usize & !7) as *const f64,
+        ..near_top
+    };
+    let s = unsafe { bt_band_radiance(&near_top, 300.0, &mut out) };
+    assert_eq!(s, bt_status::InvalidBuffer);
+}

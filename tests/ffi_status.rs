@@ -1,0 +1,110 @@
+//! Status codes: pinned values, one mapping to `Error`, and static NUL-terminated messages.
+
+use bandtemp::ffi::{bt_status, bt_status_message, bt_version};
+use bandtemp::Error;
+use std::collections::HashSet;
+use std::ffi::{c_int, CStr};
+
+/// The published values of every status. They are part of the C ABI: a value, once
+/// released, never changes and is never reused. Changing a line here is a breaking change.
+const PINNED: &[(bt_status, c_int)] = &[
+    (bt_status::Ok, 0),
+    (bt_status::NonFinite, 1),
+    (bt_status::NullPointer, 2),
+    (bt_status::InvalidBuffer, 3),
+    (bt_status::TemperatureNotPositive, 100),
+    (bt_status::WavelengthNotPositive, 101),
+    (bt_status::LambdaTNotPositive, 102),
+    (bt_status::RadianceUnderflow, 103),
+    (bt_status::RadianceOverflow, 104),
+    (bt_status::InvalidDetector, 105),
+    (bt_status::InvalidBand, 200),
+    (bt_status::TableTooShort, 201),
+    (bt_status::TableLengthMismatch, 202),
+    (bt_status::TableNotIncreasing, 203),
+    (bt_status::TableValueNegative, 204),
+    (bt_status::BandEmpty, 205),
+    (bt_status::RadianceNotPositive, 206),
+    (bt_status::RadianceSubnormal, 207),
+    (bt_status::RadianceOutOfRange, 208),
+    (bt_status::NotConverged, 209),
+    (bt_status::EmissivityOutOfRange, 300),
+    (bt_status::AtmosphereTransmittanceOutOfRange, 301),
+    (bt_status::WindowTransmittanceOutOfRange, 302),
+    (bt_status::WindowReflectanceOutOfRange, 303),
+    (bt_status::WindowSumExceedsOne, 304),
+    (bt_status::SignalBelowBackground, 305),
+    (bt_status::CalibrationParameterInvalid, 400),
+    (bt_status::CalibrationOutOfDomain, 401),
+];
+
+fn message(raw: c_int) -> &'static str {
+    let ptr = bt_status_message(raw);
+    assert!(!ptr.is_null(), "bt_status_message({raw}) returned NULL");
+    // SAFETY: bt_status_message returns a static NUL-terminated string.
+    unsafe { CStr::from_ptr(ptr) }
+        .to_str()
+        .expect("messages are ASCII")
+}
+
+#[test]
+fn status_values_are_pinned_and_unique() {
+    assert_eq!(
+        PINNED.len(),
+        bt_status::ALL.len(),
+        "a status was added: pin its value here"
+    );
+    let mut seen = HashSet::new();
+    for &(status, value) in PINNED {
+        assert_eq!(status as c_int, value, "{status:?} changed its value");
+        assert!(seen.insert(value), "value {value} used twice");
+        assert_eq!(bt_status::from_raw(value), Some(status));
+    }
+}
+
+#[test]
+fn every_error_maps_to_its_own_status_and_message() {
+    for &status in bt_status::ALL {
+        let text = message(status as c_int);
+        match status.error() {
+            None => {
+                assert_eq!(status, bt_status::Ok);
+                assert_eq!(text, "ok");
+            }
+            Some(error) => {
+                assert_eq!(bt_status::from(error), status, "round trip of {error:?}");
+                assert_ne!(status as c_int, 0, "{error:?} maps to success");
+                assert_eq!(text, error.message(), "message of {status:?}");
+            }
+        }
+    }
+    // Spot checks of the mapping against names a C caller sees.
+    assert_eq!(bt_status::from(Error::NullPointer), bt_status::NullPointer);
+    assert_eq!(bt_status::from(Error::InvalidDetector) as c_int, 105);
+}
+
+#[test]
+fn unknown_status_values_have_a_message_too() {
+    for raw in [-1, 4, 99, 106, 999, c_int::MIN, c_int::MAX] {
+        assert_eq!(message(raw), "unknown status", "value {raw}");
+    }
+}
+
+#[test]
+fn messages_are_static_and_stable() {
+    let first = bt_status_message(bt_status::NonFinite as c_int);
+    let second = bt_status_message(bt_status::NonFinite as c_int);
+    assert_eq!(first, second, "one static string per status");
+    let version = bt_version();
+    // SAFETY: a static NUL-terminated string.
+    let text = unsafe { CStr::from_ptr(version) }.to_str().unwrap();
+    let parts: Vec<u32> = text.split('.').map(|p| p.parse().unwrap()).collect();
+    assert_eq!(
+        parts,
+        [
+            bandtemp::ffi::BT_VERSION_MAJOR,
+            bandtemp::ffi::BT_VERSION_MINOR,
+            bandtemp::ffi::BT_VERSION_PATCH
+        ]
+    );
+}
