@@ -254,11 +254,18 @@ impl<'a> RatioPyrometer<'a> {
             }
             // Newton in u = 1/T: d ln R / du = -T^2 d ln R / dT.
             let u = 1.0 / t + g / (t * t * slope);
-            let mut next = if u > 0.0 { 1.0 / u } else { f64::NAN };
-            if !(next > lo && next < hi) {
-                next = libm::sqrt(lo * hi);
+            let newton = if u > 0.0 { 1.0 / u } else { f64::NAN };
+            // A converged Newton step is accepted even where rounding puts it a hair
+            // outside the bracket (one bracket end may still be the far range limit).
+            if libm::fabs(newton - t) <= 1e-13 * t {
+                return Ok(done(newton, iteration, g));
             }
-            if libm::fabs(next - t) <= 1e-13 * t || hi - lo <= 4.0 * f64::EPSILON * hi {
+            let next = if newton > lo && newton < hi {
+                newton
+            } else {
+                libm::sqrt(lo * hi)
+            };
+            if hi - lo <= 4.0 * f64::EPSILON * hi {
                 return Ok(done(next, iteration, g));
             }
             t = next;
