@@ -366,6 +366,10 @@ pub(crate) fn power(m: u32, t: f64) -> f64 {
 /// Integrand t^m / (e^t - 1) for t > 0.
 #[inline]
 pub(crate) fn moment_integrand(m: u32, t: f64) -> f64 {
+    if t > 800.0 {
+        // Below the smallest double; t^m / expm1(t) would be inf / inf there.
+        return 0.0;
+    }
     power(m, t) / libm::expm1(t)
 }
 
