@@ -321,6 +321,10 @@ pub(crate) fn tail_integral(m: u32, x: f64) -> f64 {
     if x < SPLIT_X {
         return moment_total(m) - head_integral(m, x);
     }
+    if x > 800.0 {
+        // x^m e^-x is below the smallest double (and x^m alone may overflow).
+        return 0.0;
+    }
     // integral_x^inf t^m e^(-n t) dt = e^(-n x) sum_{j=0}^{m} m!/(m-j)! x^(m-j) / n^(j+1).
     let q = libm::exp(-x);
     let mut qn = 1.0;
