@@ -74,6 +74,24 @@ pub enum Error {
     /// A temperature or signal outside where the calibration curve is defined
     /// (A T + B <= 0 for Sakuma-Hattori, or an inverse that is not a positive temperature).
     CalibrationOutOfDomain,
+    /// A calibration fit was given fewer than three points (three parameters need three).
+    CalibrationTooFewPoints,
+    /// Calibration arrays (temperatures, signals, uncertainties, output) differ in length.
+    CalibrationLengthMismatch,
+    /// Two calibration points share one temperature.
+    CalibrationDuplicateTemperature,
+    /// Calibration signals do not rise strictly with temperature.
+    CalibrationSignalNotIncreasing,
+    /// A signal uncertainty that is not positive.
+    CalibrationUncertaintyInvalid,
+    /// A fit temperature range that is not 0 < t_lo_k < t_hi_k.
+    CalibrationRangeInvalid,
+    /// A calibration fit did not converge (the data do not follow the curve's form).
+    CalibrationNotConverged,
+    /// The fit's normal matrix is singular: the data do not determine all three parameters.
+    CalibrationIllConditioned,
+    /// A signal at or below the detector's dark offset (or at or below zero without one).
+    SignalAtOrBelowOffset,
     // ---- uncertainty and ratio -------------------------------------------------------------------
 
     // ---- atmosphere ---------------------------------------------------------------------------
@@ -124,6 +142,21 @@ impl Error {
             // calibration
             Error::CalibrationParameterInvalid => "calibration parameters out of their domain",
             Error::CalibrationOutOfDomain => "outside the domain of the calibration curve",
+            Error::CalibrationTooFewPoints => "a calibration fit needs at least three points",
+            Error::CalibrationLengthMismatch => "calibration arrays differ in length",
+            Error::CalibrationDuplicateTemperature => {
+                "two calibration points share one temperature"
+            }
+            Error::CalibrationSignalNotIncreasing => {
+                "calibration signals must rise strictly with temperature"
+            }
+            Error::CalibrationUncertaintyInvalid => "signal uncertainties must be positive",
+            Error::CalibrationRangeInvalid => "fit range must satisfy 0 < t_lo_k < t_hi_k",
+            Error::CalibrationNotConverged => "the calibration fit did not converge",
+            Error::CalibrationIllConditioned => {
+                "the calibration data do not determine all three parameters"
+            }
+            Error::SignalAtOrBelowOffset => "signal at or below the dark offset",
             // uncertainty and ratio
 
             // atmosphere
