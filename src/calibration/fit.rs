@@ -30,7 +30,7 @@ pub const BAND_CHECK_POINTS: usize = 2001;
 const STEP_TOLERANCE: f64 = 1e-12;
 const REDUCTION_TOLERANCE: f64 = 1e-12;
 /// Residuals below this fraction of the data's scale are rounding noise.
-const FLOOR_FRACTION: f64 = 1e-10;
+const FLOOR_FRACTION: f64 = 1e-12;
 const LAMBDA_START: f64 = 1e-3;
 const LAMBDA_MIN: f64 = 1e-12;
 const LAMBDA_MAX: f64 = 1e16;
