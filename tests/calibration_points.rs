@@ -517,6 +517,13 @@ fn parameters_and_domains_are_validated() {
     assert_eq!(wien.temperature(10.0), Err(Error::CalibrationOutOfDomain));
     assert_eq!(wien.temperature(0.0), Err(Error::RadianceNotPositive));
     assert_eq!(OffsetCurve::new(wien, f64::NAN), Err(Error::NonFinite));
+    // A gain change scales the signal and leaves the temperature scale alone.
+    let curve = SakumaHattori::new(0.65, 0.2, 1e9).unwrap();
+    let doubled = curve.scaled(2.0).unwrap();
+    let s = curve.signal(1000.0).unwrap();
+    assert!((doubled.signal(1000.0).unwrap() / s - 2.0).abs() < 1e-15);
+    assert!((doubled.temperature(2.0 * s).unwrap() - 1000.0).abs() < 1e-9);
+    assert_eq!(curve.scaled(0.0), Err(Error::CalibrationParameterInvalid));
 }
 
 #[test]

@@ -50,6 +50,32 @@
 //!
 //! Nothing here allocates: the fits stream over the caller's slices and keep 3x3
 //! matrices on the stack.
+//!
+//! # Example: calibrating from a handful of blackbody readings
+//!
+//! ```
+//! use bandtemp::band::SignalCurve;
+//! use bandtemp::calibration::{fit_points_with, OffsetCurve, SakumaHattori};
+//!
+//! // Invented readings of an invented 8-14 um thermometer: raw counts with the blackbody
+//! // at five temperatures, and 1024 counts with the shutter closed (the dark offset).
+//! let blackbody_k = [273.15, 298.15, 323.15, 373.15, 423.15];
+//! let counts = [2420.0, 3144.0, 4056.0, 6452.0, 9581.0];
+//! let dark = 1024.0;
+//!
+//! let fit = fit_points_with::<SakumaHattori>(&blackbody_k, &counts, None, dark)?;
+//! // Whole counts: the residuals are the ADC's rounding, a few mK here.
+//! assert!(fit.max_residual_k < 0.05);
+//! let sd_a_um = fit.covariance[0][0].sqrt(); // standard uncertainty of A
+//! assert!(sd_a_um < 0.1 * fit.params.a_um());
+//!
+//! // Firmware keeps three numbers and the offset, and converts both ways.
+//! let curve = OffsetCurve::new(fit.params, dark)?;
+//! let apparent_k = curve.temperature(5000.0)?;
+//! assert!(apparent_k > 323.15 && apparent_k < 373.15);
+//! assert!((curve.signal(apparent_k)? - 5000.0).abs() < 1e-9);
+//! # Ok::<(), bandtemp::Error>(())
+//! ```
 
 mod fit;
 mod moments;
