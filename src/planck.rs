@@ -17,8 +17,8 @@
 //! integral Lp dlambda = c1p T^3 / c2^3 * integral t^2 / (e^t - 1) dt
 //! ```
 //!
-//! Those integrals are computed here to full double precision ([`tail_integral`],
-//! [`head_integral`]): for x >= 2 by the exponentially convergent series
+//! Those integrals are computed here to full double precision (the crate-private `tail_integral`
+//! and `head_integral`): for x >= 2 by the exponentially convergent series
 //! sum_n e^(-n x) / n * sum_j m!/(m-j)! x^(m-j) / n^j (all terms positive), for x < 2 by
 //! the Bernoulli-number expansion of t/(e^t - 1), convergent for |x| < 2 pi. Each regime
 //! uses the series that converges fast there; neither is truncated above 1e-17 relative.
