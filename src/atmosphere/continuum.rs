@@ -17,7 +17,7 @@
 //! with nu = 10^4 / lambda the wavenumber in cm^-1 (lambda in um), e the water-vapour
 //! partial pressure and P the total pressure, both in **atm** (hPa / 1013.25), and w the
 //! water along the path in **g cm^-2** ([`crate::atmosphere::Air::precipitable_water_g_cm2`]:
-//! w = rho_v [g m^-3] d [m] 1e-4). The optical depth k w is dimensionless.
+//! w = rho_v (g m^-3) d (m) 1e-4). The optical depth k w is dimensionless.
 //!
 //! The self term e is collisions of water with water; the foreign term gamma (P - e) is
 //! collisions with dry air (partial pressure P - e). Some texts write gamma P; the two differ

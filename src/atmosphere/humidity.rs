@@ -309,7 +309,7 @@ impl Air {
     }
 
     /// Precipitable water of a horizontal path of `distance_m`, in g cm^-2 (numerically the
-    /// depth of liquid water in cm): w = rho_v [g m^-3] * d [m] * 1e-4 [m^2/cm^2].
+    /// depth of liquid water in cm): w = rho_v (g m^-3) * d (m) * 1e-4 (m^2/cm^2).
     ///
     /// # Errors
     /// [`Error::NonFinite`], [`Error::DistanceNegative`].
