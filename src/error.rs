@@ -95,7 +95,24 @@ pub enum Error {
     // ---- uncertainty and ratio -------------------------------------------------------------------
 
     // ---- atmosphere ---------------------------------------------------------------------------
-
+    /// Relative humidity outside [0, 1] (a fraction, not percent).
+    RelativeHumidityOutOfRange,
+    /// Air temperature outside the range of the chosen saturation-vapour-pressure formula.
+    AirTemperatureOutOfRange,
+    /// Air pressure outside [500, 1100] hPa (the range the humidity and continuum models cover).
+    AirPressureOutOfRange,
+    /// A vapour pressure that is not positive, or whose dew or frost point lies outside the
+    /// formula's range.
+    VapourPressureOutOfRange,
+    /// A negative path distance.
+    DistanceNegative,
+    /// A wavelength or band outside the water-vapour continuum model (8-14 um): supply a
+    /// spectral transmittance table instead.
+    OutsideContinuumModel,
+    /// A spectral transmittance table with a value above 1.
+    TransmittanceTableAboveOne,
+    /// The band reaches beyond the spectral transmittance table.
+    BandOutsideTransmittanceTable,
     // ---- frame --------------------------------------------------------------------------------
 }
 
@@ -160,6 +177,24 @@ impl Error {
             // uncertainty and ratio
 
             // atmosphere
+            Error::RelativeHumidityOutOfRange => {
+                "relative humidity must be a fraction in [0, 1] (not percent)"
+            }
+            Error::AirTemperatureOutOfRange => {
+                "air temperature outside the saturation-vapour-pressure formula's range"
+            }
+            Error::AirPressureOutOfRange => "air pressure must be in [500, 1100] hPa",
+            Error::VapourPressureOutOfRange => {
+                "vapour pressure not positive, or its dew point is outside the formula's range"
+            }
+            Error::DistanceNegative => "path distance must not be negative",
+            Error::OutsideContinuumModel => {
+                "outside the 8-14 um water-vapour continuum model: supply a spectral transmittance table"
+            }
+            Error::TransmittanceTableAboveOne => "spectral transmittance values must not exceed 1",
+            Error::BandOutsideTransmittanceTable => {
+                "the band reaches beyond the spectral transmittance table"
+            }
 
             // frame
         }
