@@ -975,7 +975,6 @@ fn surface_draw<C: SignalCurve + ?Sized>(
 /// trial: a draw outside the model's domain (an emissivity above 1, say, when
 /// e + sqrt(3) u(e) > 1; or [`Error::SignalBelowBackground`]) stops the run, since the
 /// stated distributions then put probability where the model is undefined.
-#[allow(clippy::too_many_arguments)]
 pub fn surface_monte_carlo<C: SignalCurve + ?Sized>(
     scene: &Scene,
     curve: &C,

@@ -40,7 +40,6 @@ pub fn log_ratio_error(
 
 /// Predicted T_W - T (K) and a bound on |T_W - T| (the sum of the parts' sizes, with 10 %
 /// for the neglected higher orders).
-#[allow(clippy::too_many_arguments)]
 pub fn predicted_wien_error_k(
     lambda1_um: f64,
     width1_um: f64,
