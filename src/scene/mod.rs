@@ -27,7 +27,7 @@
 //! - site inverse problems: emissivity from a reference temperature
 //!   ([`Scene::emissivity_from_reference`], [`Scene::emissivity_from_reference_coating`])
 //!   and reflected apparent temperature from a diffuse reflector
-//!   ([`Scene::reflected_from_reflector`]);
+//!   ([`Scene::reflected_k_from_reflector`]);
 //! - [`SpectralScene`]: emissivity and atmosphere transmittance as functions of
 //!   wavelength, integrated with the band's response (non-grey mode).
 //!
