@@ -102,10 +102,45 @@ pub enum Error {
     /// A temperature or signal outside where the calibration curve is defined
     /// (A T + B <= 0 for Sakuma-Hattori, or an inverse that is not a positive temperature).
     CalibrationOutOfDomain,
+    /// A calibration fit was given fewer than three points (three parameters need three).
+    CalibrationTooFewPoints,
+    /// Calibration arrays (temperatures, signals, uncertainties, output) differ in length.
+    CalibrationLengthMismatch,
+    /// Two calibration points share one temperature.
+    CalibrationDuplicateTemperature,
+    /// Calibration signals do not rise strictly with temperature.
+    CalibrationSignalNotIncreasing,
+    /// A signal uncertainty that is not positive.
+    CalibrationUncertaintyInvalid,
+    /// A fit temperature range that is not 0 < t_lo_k < t_hi_k.
+    CalibrationRangeInvalid,
+    /// A calibration fit did not converge (the data do not follow the curve's form).
+    CalibrationNotConverged,
+    /// The fit's normal matrix is singular: the data do not determine all three parameters.
+    CalibrationIllConditioned,
+    /// A signal at or below the detector's dark offset (or at or below zero without one).
+    SignalAtOrBelowOffset,
     // ---- uncertainty and ratio -------------------------------------------------------------------
 
     // ---- atmosphere ---------------------------------------------------------------------------
-
+    /// Relative humidity outside [0, 1] (a fraction, not percent).
+    RelativeHumidityOutOfRange,
+    /// Air temperature outside the range of the chosen saturation-vapour-pressure formula.
+    AirTemperatureOutOfRange,
+    /// Air pressure outside [500, 1100] hPa (the range the humidity and continuum models cover).
+    AirPressureOutOfRange,
+    /// A vapour pressure that is not positive, or whose dew or frost point lies outside the
+    /// formula's range.
+    VapourPressureOutOfRange,
+    /// A negative path distance.
+    DistanceNegative,
+    /// A wavelength or band outside the water-vapour continuum model (8-14 um): supply a
+    /// spectral transmittance table instead.
+    OutsideContinuumModel,
+    /// A spectral transmittance table with a value above 1.
+    TransmittanceTableAboveOne,
+    /// The band reaches beyond the spectral transmittance table.
+    BandOutsideTransmittanceTable,
     // ---- frame --------------------------------------------------------------------------------
 }
 
@@ -182,9 +217,42 @@ impl Error {
             // calibration
             Error::CalibrationParameterInvalid => "calibration parameters out of their domain",
             Error::CalibrationOutOfDomain => "outside the domain of the calibration curve",
+            Error::CalibrationTooFewPoints => "a calibration fit needs at least three points",
+            Error::CalibrationLengthMismatch => "calibration arrays differ in length",
+            Error::CalibrationDuplicateTemperature => {
+                "two calibration points share one temperature"
+            }
+            Error::CalibrationSignalNotIncreasing => {
+                "calibration signals must rise strictly with temperature"
+            }
+            Error::CalibrationUncertaintyInvalid => "signal uncertainties must be positive",
+            Error::CalibrationRangeInvalid => "fit range must satisfy 0 < t_lo_k < t_hi_k",
+            Error::CalibrationNotConverged => "the calibration fit did not converge",
+            Error::CalibrationIllConditioned => {
+                "the calibration data do not determine all three parameters"
+            }
+            Error::SignalAtOrBelowOffset => "signal at or below the dark offset",
             // uncertainty and ratio
 
             // atmosphere
+            Error::RelativeHumidityOutOfRange => {
+                "relative humidity must be a fraction in [0, 1] (not percent)"
+            }
+            Error::AirTemperatureOutOfRange => {
+                "air temperature outside the saturation-vapour-pressure formula's range"
+            }
+            Error::AirPressureOutOfRange => "air pressure must be in [500, 1100] hPa",
+            Error::VapourPressureOutOfRange => {
+                "vapour pressure not positive, or its dew point is outside the formula's range"
+            }
+            Error::DistanceNegative => "path distance must not be negative",
+            Error::OutsideContinuumModel => {
+                "outside the 8-14 um water-vapour continuum model: supply a spectral transmittance table"
+            }
+            Error::TransmittanceTableAboveOne => "spectral transmittance values must not exceed 1",
+            Error::BandOutsideTransmittanceTable => {
+                "the band reaches beyond the spectral transmittance table"
+            }
 
             // frame
         }

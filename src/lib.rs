@@ -48,6 +48,7 @@
 #[cfg(feature = "std")]
 extern crate std;
 
+pub mod atmosphere;
 pub mod band;
 pub mod calibration;
 pub mod constants;
