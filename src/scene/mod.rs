@@ -31,20 +31,21 @@
 //! - [`SpectralScene`]: emissivity and atmosphere transmittance as functions of
 //!   wavelength, integrated with the band's response (non-grey mode).
 //!
-//! ```
-//! use bandtemp::band::Band;
-//! use bandtemp::planck::Detector;
-//! use bandtemp::scene::Scene;
+//! Correcting an apparent reading (an invented scene, `tests/data/scene_cases.csv`):
 //!
-//! // Invented example: a painted pump casing (e = 0.92) in a 22 C hall, seen by an
-//! // 8-14 um microbolometer that reads 48.0 C as a blackbody (apparent temperature).
-//! let band = Band::rectangular(8.0, 14.0, Detector::Energy)?;
-//! let scene = Scene::new(0.92, 295.15)?.with_atmosphere(0.98, 295.15)?;
-//! let object_k = scene.object_temperature_from_apparent(&band, 321.15)?;
-//! assert!((object_k - 323.7).abs() < 0.1); // about 50.6 C
+//! ```
+//! use bandtemp::{band::Band, planck::Detector, scene::Scene};
+//!
+//! // A motor housing (e = 0.85) seen through an infrared window reads 325.43 K apparent.
+//! let band = Band::rectangular(8.0, 14.0, Detector::Energy)?; // 8-14 um microbolometer
+//! let scene = Scene::new(0.85, 298.15)? // emissivity, reflected apparent temperature (K)
+//!     .with_atmosphere(0.995, 298.15)? // 2 m of air: transmittance (assumed), temperature
+//!     .with_window(0.70, 0.04, 308.15, 296.15)?; // tw, rw, window K, K it reflects
+//! let object_k = scene.object_temperature_from_apparent(&band, 325.43)?;
+//! assert!((object_k - 338.15).abs() < 0.02); // 65.0 C
 //! // Forward again: the apparent reading this object gives.
 //! let apparent_k = scene.apparent_temperature(&band, object_k)?;
-//! assert!((apparent_k - 321.15).abs() < 1e-9);
+//! assert!((apparent_k - 325.43).abs() < 1e-9);
 //! # Ok::<(), bandtemp::Error>(())
 //! ```
 

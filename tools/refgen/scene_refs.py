@@ -194,11 +194,12 @@ GREY_CASES = [
      "bare aluminium bus bar (70 C, e 0.10 common practice for unoxidised aluminium) reflecting"
      " a 120 C heater panel; ta 0.99 assumed"),
     ("furnace_wall", (8, 14, "energy"), "523.15",
-     dict(emissivity="0.90", reflected_k="303.15", atm_transmittance="0.78", atm_k="303.15",
+     dict(emissivity="0.90", reflected_k="303.15", atm_transmittance="0.96", atm_k="303.15",
           window_transmittance="1", window_reflectance="0", window_k="303.15",
           window_reflected_k="303.15"),
      "furnace shell (250 C, oxidised painted steel e 0.90) seen through 20 m of humid air at"
-     " 30 C; band-averaged ta 0.78 ASSUMED, not from an atmosphere model"),
+     " 30 C and 80 % RH; band-averaged ta 0.96 ASSUMED (below the 0.987 of the water-vapour"
+     " continuum alone, to allow for line absorption near the band edges; not computed)"),
     ("kiln_viewport", (3, 5, "photon"), "700",
      dict(emissivity="0.80", reflected_k="320", atm_transmittance="0.97", atm_k="300",
           window_transmittance="0.86", window_reflectance="0.07", window_k="320",
@@ -264,8 +265,9 @@ TABLES = {
     # An invented painted-metal emissivity with a few nodes, covering 7.5-14.5 um.
     "e_paint": Table("e_paint", ["7.5", "9", "10", "11.5", "14.5"],
                      ["0.96", "0.91", "0.86", "0.90", "0.82"]),
-    # An ASSUMED humid-air transmittance shape for a 20 m path (not from a model).
-    "ta_humid": Table("ta_humid", ["7.5", "8", "9", "10", "11", "12", "13", "14", "14.5"],
+    # An ASSUMED transmittance shape for a long (several hundred metre) humid path, not
+    # from a model.
+    "ta_long": Table("ta_long", ["7.5", "8", "9", "10", "11", "12", "13", "14", "14.5"],
                       ["0.55", "0.70", "0.80", "0.84", "0.83", "0.80", "0.74", "0.62", "0.50"]),
     # An invented microbolometer relative spectral response.
     "r_bolo": Table("r_bolo", ["7.5", "8", "9", "11", "13", "14"],
@@ -283,17 +285,17 @@ SPECTRAL_CASES = [
      dict(emissivity="0.85", reflected_k="303.15", atm_transmittance="1", atm_k="303.15",
           window_transmittance="1", window_reflectance="0", window_k="303.15", window_reflected_k="303.15"),
      "e_slope", None, "sloping emissivity, object colder than its surroundings"),
-    ("humid_paint", (8, 14, "energy", None), "373.15",
+    ("long_path_paint", (8, 14, "energy", None), "373.15",
      dict(emissivity="0.9", reflected_k="298.15", atm_transmittance="1", atm_k="298.15",
           window_transmittance="1", window_reflectance="0", window_k="298.15", window_reflected_k="298.15"),
-     "e_paint", "ta_humid", "painted tank through 20 m of humid air (assumed shape) at 303.15 K"),
+     "e_paint", "ta_long", "painted tank across a long humid path (assumed shape) at 303.15 K"),
     ("bolo_window", (7, 15, "energy", "r_bolo"), "338.15",
      dict(emissivity="0.9", reflected_k="298.15", atm_transmittance="1", atm_k="298.15",
           window_transmittance="0.7", window_reflectance="0.04", window_k="308.15", window_reflected_k="296.15"),
-     "e_slope_wide", "ta_humid", "tabulated response, sloping emissivity, humid air, grey window"),
+     "e_slope_wide", "ta_long", "tabulated response, sloping emissivity, long humid path, grey window"),
 ]
 TABLES["e_slope_wide"] = Table("e_slope_wide", ["7", "15"], ["0.96", "0.72"])
-ATM_K = {"humid_paint": "303.15", "bolo_window": "300.15"}
+ATM_K = {"long_path_paint": "303.15", "bolo_window": "300.15"}
 
 
 def run_spectral():
