@@ -121,7 +121,40 @@ pub enum Error {
     /// A signal at or below the detector's dark offset (or at or below zero without one).
     SignalAtOrBelowOffset,
     // ---- uncertainty and ratio -------------------------------------------------------------------
-
+    /// More inputs than an uncertainty budget holds (`uncertainty::MAX_INPUTS`).
+    TooManyInputs,
+    /// An uncertainty budget with no inputs.
+    NoInputs,
+    /// A standard uncertainty below zero.
+    UncertaintyNegative,
+    /// A correlation matrix whose length is not n * n for n inputs.
+    CorrelationShapeMismatch,
+    /// A correlation matrix that is not symmetric, has a diagonal other than 1 or an
+    /// entry outside [-1, 1].
+    CorrelationInvalid,
+    /// Correlations that make the combined variance negative (the matrix is not positive
+    /// semidefinite).
+    CorrelationNotPositiveSemidefinite,
+    /// A coverage factor that is not positive.
+    CoverageFactorNotPositive,
+    /// A coverage probability outside (0, 1).
+    CoverageProbabilityOutOfRange,
+    /// Too few Monte Carlo trials (or too small a sample buffer) for the requested
+    /// statistic or coverage probability.
+    TooFewTrials,
+    /// A random-generator state of all zeros (xoshiro256** never leaves it).
+    RandomStateZero,
+    /// A band-signal ratio that is zero or negative.
+    RatioNotPositive,
+    /// An emissivity ratio e1/e2 that is zero or negative.
+    EmissivityRatioNotPositive,
+    /// A ratio that no temperature in the pyrometer's range produces.
+    RatioOutOfRange,
+    /// Two bands whose ratio changes too little with temperature (they overlap or sit too
+    /// close) to resolve it: |d ln R / d ln T| falls below `ratio::MIN_LOG_SLOPE`.
+    BandsIndistinguishable,
+    /// A ratio-pyrometer temperature range with t_min_k >= t_max_k.
+    RatioRangeInvalid,
     // ---- atmosphere ---------------------------------------------------------------------------
     /// Relative humidity outside [0, 1] (a fraction, not percent).
     RelativeHumidityOutOfRange,
@@ -233,7 +266,27 @@ impl Error {
             }
             Error::SignalAtOrBelowOffset => "signal at or below the dark offset",
             // uncertainty and ratio
-
+            Error::TooManyInputs => "more inputs than an uncertainty budget holds (16)",
+            Error::NoInputs => "an uncertainty budget needs at least one input",
+            Error::UncertaintyNegative => "a standard uncertainty must not be negative",
+            Error::CorrelationShapeMismatch => "the correlation matrix must hold n * n entries",
+            Error::CorrelationInvalid => {
+                "correlations must be symmetric, in [-1, 1], with a unit diagonal"
+            }
+            Error::CorrelationNotPositiveSemidefinite => {
+                "the correlations give a negative combined variance"
+            }
+            Error::CoverageFactorNotPositive => "the coverage factor must be positive",
+            Error::CoverageProbabilityOutOfRange => "the coverage probability must be in (0, 1)",
+            Error::TooFewTrials => "too few Monte Carlo trials for this statistic",
+            Error::RandomStateZero => "the random generator state must not be all zeros",
+            Error::RatioNotPositive => "the band-signal ratio must be positive",
+            Error::EmissivityRatioNotPositive => "the emissivity ratio must be positive",
+            Error::RatioOutOfRange => "no temperature in the pyrometer's range gives this ratio",
+            Error::BandsIndistinguishable => {
+                "the two bands' ratio barely changes with temperature: it cannot resolve it"
+            }
+            Error::RatioRangeInvalid => "the ratio temperature range needs t_min_k < t_max_k",
             // atmosphere
             Error::RelativeHumidityOutOfRange => {
                 "relative humidity must be a fraction in [0, 1] (not percent)"

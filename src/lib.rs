@@ -54,6 +54,8 @@ pub mod calibration;
 pub mod constants;
 mod error;
 pub mod planck;
+pub mod ratio;
 pub mod scene;
+pub mod uncertainty;
 
 pub use error::{Error, Result};
