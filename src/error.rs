@@ -216,36 +216,18 @@ impl Error {
             Error::SignalBelowBackground => {
                 "signal at or below the background: the object cannot be resolved"
             }
-            Error::ReflectedTemperatureNotPositive => {
-                "reflected apparent temperature must be positive (kelvin)"
-            }
-            Error::AtmosphereTemperatureNotPositive => {
-                "atmosphere temperature must be positive (kelvin)"
-            }
-            Error::WindowTemperatureNotPositive => "window temperature must be positive (kelvin)",
-            Error::WindowReflectedTemperatureNotPositive => {
-                "temperature reflected by the window must be positive (kelvin)"
-            }
-            Error::SpectralTableDoesNotCoverBand => {
-                "a spectral emissivity or transmittance table must cover the whole band"
-            }
+            Error::ReflectedTemperatureNotPositive => "reflected temperature must be positive (K)",
+            Error::AtmosphereTemperatureNotPositive => "atmosphere temperature must be positive (K)",
+            Error::WindowTemperatureNotPositive => "window temperature must be positive (K)",
+            Error::WindowReflectedTemperatureNotPositive => "window's reflected K must be positive",
+            Error::SpectralTableDoesNotCoverBand => "a spectral table must cover the whole band",
             Error::SpectralEmissivityOutOfRange => "spectral emissivity values must be in [0, 1]",
-            Error::SpectralTransmittanceOutOfRange => {
-                "spectral transmittance values must be in [0, 1]"
-            }
-            Error::ObjectNotVisible => {
-                "response x transmittance x emissivity is zero over the band: object not visible"
-            }
-            Error::EmissivityNotDetermined => {
-                "emissivity cannot be determined: object at the reflected temperature"
-            }
-            Error::EmissivityReadingInconsistent => {
-                "the readings imply an emissivity outside (0, 1]"
-            }
+            Error::SpectralTransmittanceOutOfRange => "spectral transmittance must be in [0, 1]",
+            Error::ObjectNotVisible => "object not visible: response x tau x e is zero in band",
+            Error::EmissivityNotDetermined => "emissivity undetermined: object at reflected K",
+            Error::EmissivityReadingInconsistent => "readings imply emissivity outside (0, 1]",
             Error::ReflectorEmissivityOutOfRange => "reflector emissivity must be in [0, 1)",
-            Error::ReflectedNotDetermined => {
-                "reflector reading at or below its own emission, air and window: no reflected temperature fits"
-            }
+            Error::ReflectedNotDetermined => "reflector reading at or below its own emission",
 
             // calibration
             Error::CalibrationParameterInvalid => "calibration parameters out of their domain",
