@@ -67,6 +67,34 @@ pub enum Error {
     /// The signal is at or below what reflections, air and window alone give: the object
     /// cannot be resolved against its background.
     SignalBelowBackground,
+    /// The reflected apparent temperature of a scene is zero or negative.
+    ReflectedTemperatureNotPositive,
+    /// The atmosphere temperature of a scene is zero or negative.
+    AtmosphereTemperatureNotPositive,
+    /// The window temperature of a scene is zero or negative.
+    WindowTemperatureNotPositive,
+    /// The temperature a window reflects (sensor side) is zero or negative.
+    WindowReflectedTemperatureNotPositive,
+    /// A spectral emissivity or transmittance table does not cover the whole band.
+    SpectralTableDoesNotCoverBand,
+    /// A spectral emissivity table has a value above 1.
+    SpectralEmissivityOutOfRange,
+    /// A spectral transmittance table has a value above 1.
+    SpectralTransmittanceOutOfRange,
+    /// Response x transmittance x emissivity is zero over the whole band: the object
+    /// contributes nothing to the signal.
+    ObjectNotVisible,
+    /// Emissivity cannot be determined: the reference temperature gives the same signal as
+    /// the reflected apparent temperature (object at the reflected temperature).
+    EmissivityNotDetermined,
+    /// The readings imply an emissivity outside (0, 1]: reading, reference temperature and
+    /// scene are inconsistent.
+    EmissivityReadingInconsistent,
+    /// The emissivity of a reflector is outside [0, 1) (a reflector must reflect).
+    ReflectorEmissivityOutOfRange,
+    /// The reflector reading is at or below what the reflector's own emission, the air and
+    /// the window give: no reflected apparent temperature fits it.
+    ReflectedNotDetermined,
 
     // ---- calibration ---------------------------------------------------------------------------
     /// Calibration parameters out of their domain (A <= 0 or C <= 0 for Sakuma-Hattori).
@@ -188,6 +216,18 @@ impl Error {
             Error::SignalBelowBackground => {
                 "signal at or below the background: the object cannot be resolved"
             }
+            Error::ReflectedTemperatureNotPositive => "reflected temperature must be positive (K)",
+            Error::AtmosphereTemperatureNotPositive => "atmosphere temperature must be positive (K)",
+            Error::WindowTemperatureNotPositive => "window temperature must be positive (K)",
+            Error::WindowReflectedTemperatureNotPositive => "window's reflected K must be positive",
+            Error::SpectralTableDoesNotCoverBand => "a spectral table must cover the whole band",
+            Error::SpectralEmissivityOutOfRange => "spectral emissivity values must be in [0, 1]",
+            Error::SpectralTransmittanceOutOfRange => "spectral transmittance must be in [0, 1]",
+            Error::ObjectNotVisible => "object not visible: response x tau x e is zero in band",
+            Error::EmissivityNotDetermined => "emissivity undetermined: object at reflected K",
+            Error::EmissivityReadingInconsistent => "readings imply emissivity outside (0, 1]",
+            Error::ReflectorEmissivityOutOfRange => "reflector emissivity must be in [0, 1)",
+            Error::ReflectedNotDetermined => "reflector reading at or below its own emission",
 
             // calibration
             Error::CalibrationParameterInvalid => "calibration parameters out of their domain",
