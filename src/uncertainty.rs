@@ -750,74 +750,6 @@ pub const SURFACE_INPUT_NAMES: [&str; SURFACE_INPUTS] = [
     "window reflected temperature",
 ];
 
-/// Sensitivity coefficients of the object temperature, K per unit of each input (the
-/// fields of the scene module's `Sensitivities`; `signal` is dT/dS).
-///
-/// Stand-in until `Scene::sensitivities` lands on main: same fields, same meaning, so the
-/// switch is one line in [`surface_inputs`].
-#[derive(Clone, Copy, Debug, PartialEq)]
-struct Sensitivities {
-    object_k: f64,
-    signal: f64,
-    emissivity: f64,
-    reflected_k: f64,
-    atm_transmittance: f64,
-    atm_k: f64,
-    window_transmittance: f64,
-    window_reflectance: f64,
-    window_k: f64,
-    window_reflected_k: f64,
-}
-
-/// Signal and derivative of `curve` at `t`; an underflowing signal counts as (0, 0) (a
-/// background too cold to see in this band contributes nothing).
-fn curve_at<C: SignalCurve + ?Sized>(curve: &C, temperature_k: f64) -> Result<(f64, f64)> {
-    match curve.signal_and_derivative(temperature_k) {
-        Err(Error::RadianceUnderflow) => Ok((0.0, 0.0)),
-        other => other,
-    }
-}
-
-/// Sensitivities by implicit differentiation of the measurement equation
-/// S = tw [ta (e L(T) + (1-e) L(Tr)) + (1-ta) L(Ta)] + rw L(Twr) + (1-tw-rw) L(Tw):
-/// dT/dp = -(dS/dp) / (dS/dT), dS/dT = tw ta e L'(T).
-fn sensitivities<C: SignalCurve + ?Sized>(
-    scene: &Scene,
-    curve: &C,
-    sensor_signal: f64,
-) -> Result<Sensitivities> {
-    let object_k = scene.object_temperature(curve, sensor_signal)?;
-    let (l, dl) = curve.signal_and_derivative(object_k)?;
-    let e = scene.emissivity();
-    let ta = scene.atm_transmittance();
-    let tw = scene.window_transmittance();
-    let rw = scene.window_reflectance();
-    let (lr, dlr) = curve_at(curve, scene.reflected_k())?;
-    let (la, dla) = curve_at(curve, scene.atm_k())?;
-    let (lw, dlw) = curve_at(curve, scene.window_k())?;
-    let (lwr, dlwr) = curve_at(curve, scene.window_reflected_k())?;
-    let ds_dt = tw * ta * e * dl;
-    if !(ds_dt > 0.0 && ds_dt.is_finite()) {
-        // The curve is flat here: the temperature is not resolvable from the signal.
-        return Err(Error::SignalBelowBackground);
-    }
-    let k = -1.0 / ds_dt;
-    let path = e * l + (1.0 - e) * lr;
-    let sens = Sensitivities {
-        object_k,
-        signal: 1.0 / ds_dt,
-        emissivity: k * tw * ta * (l - lr),
-        reflected_k: k * tw * ta * (1.0 - e) * dlr,
-        atm_transmittance: k * tw * (path - la),
-        atm_k: k * tw * (1.0 - ta) * dla,
-        window_transmittance: k * (ta * path + (1.0 - ta) * la - lw),
-        window_reflectance: k * (lwr - lw),
-        window_k: k * (1.0 - tw - rw) * dlw,
-        window_reflected_k: k * rw * dlwr,
-    };
-    Ok(sens)
-}
-
 fn check_uncertainties(u: &InputUncertainties) -> Result<()> {
     for value in [
         u.signal,
@@ -874,7 +806,7 @@ pub fn surface_inputs<C: SignalCurve + ?Sized>(
     uncertainties: &InputUncertainties,
 ) -> Result<(f64, [Input; SURFACE_INPUTS])> {
     check_uncertainties(uncertainties)?;
-    let s = sensitivities(scene, curve, sensor_signal)?;
+    let s = scene.sensitivities(curve, sensor_signal)?;
     let calibration_k = if uncertainties.calibration_k > 0.0 {
         let apparent_k = curve.temperature(sensor_signal)?;
         let (_, slope) = curve.signal_and_derivative(apparent_k)?;
