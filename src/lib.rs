@@ -59,3 +59,8 @@ pub mod scene;
 pub mod uncertainty;
 
 pub use error::{Error, Result};
+
+/// The README's Rust examples, compiled and run as doc tests.
+#[cfg(doctest)]
+#[doc = include_str!("../README.md")]
+pub struct ReadmeDoctests;
