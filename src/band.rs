@@ -322,6 +322,10 @@ impl<'a> Band<'a> {
             }
         };
         let scale = self.detector.scale(t);
+        if !scale.is_finite() {
+            // T^(m+1) overflows (T above about 1e77 K): far outside any physical use.
+            return Err(Error::RadianceOverflow);
+        }
         let radiance = check_radiance(scale * integral)?;
         Ok((radiance, scale * derivative_integral / t))
     }
@@ -354,6 +358,9 @@ impl<'a> Band<'a> {
             ),
         };
         let scale = self.detector.scale(t);
+        if !scale.is_finite() {
+            return Err(Error::RadianceOverflow);
+        }
         finite(integral)?;
         finite(derivative_integral)?;
         let radiance = scale * integral;
@@ -385,7 +392,12 @@ impl<'a> Band<'a> {
             // One table segment: x from c2/(upper T) to c2/(lower T).
             let mut x = C2_UMK / (upper_um * t);
             let x_end = C2_UMK / (lower_um * t);
-            while x < x_end {
+            if !(x > 0.0) {
+                // upper_um * t overflowed: the radiance does too.
+                return (f64::INFINITY, f64::INFINITY);
+            }
+            // Beyond x = 800 the integrand x^m/(e^x - 1) is below the smallest double.
+            while x < x_end && x < 800.0 {
                 if let Some(bound) = bound {
                     if x > 4.0 && bound * tail_integral(m, x) <= 1e-18 * sum {
                         return (sum, sum_derivative);
@@ -586,5 +598,28 @@ impl SignalCurve for Band<'_> {
 
     fn temperature(&self, signal: f64) -> Result<f64> {
         Band::temperature(self, signal)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn extreme_temperatures_end_in_errors_not_loops() {
+        let wavelengths_um = [8.0, 14.0];
+        let values = [1.0, 1.0];
+        let table = SpectralTable::new(&wavelengths_um, &values).unwrap();
+        let band = Band::with_response(8.0, 14.0, Detector::Energy, table).unwrap();
+        assert_eq!(band.radiance(1e-300), Err(Error::RadianceUnderflow));
+        assert_eq!(band.radiance(1e300), Err(Error::RadianceOverflow));
+        assert_eq!(band.radiance(f64::MAX), Err(Error::RadianceOverflow));
+        let weighted = band
+            .weighted_radiance_and_derivative(1e-300, &[], |_| 1.0)
+            .unwrap();
+        assert_eq!(weighted.0, 0.0);
+        let rectangular = Band::rectangular(8.0, 14.0, Detector::Photon).unwrap();
+        assert_eq!(rectangular.radiance(1e-300), Err(Error::RadianceUnderflow));
+        assert_eq!(rectangular.radiance(f64::MAX), Err(Error::RadianceOverflow));
     }
 }

@@ -17,8 +17,8 @@
 //! integral Lp dlambda = c1p T^3 / c2^3 * integral t^2 / (e^t - 1) dt
 //! ```
 //!
-//! Those integrals are computed here to full double precision ([`tail_integral`],
-//! [`head_integral`]): for x >= 2 by the exponentially convergent series
+//! Those integrals are computed here to full double precision (the crate-private `tail_integral`
+//! and `head_integral`): for x >= 2 by the exponentially convergent series
 //! sum_n e^(-n x) / n * sum_j m!/(m-j)! x^(m-j) / n^j (all terms positive), for x < 2 by
 //! the Bernoulli-number expansion of t/(e^t - 1), convergent for |x| < 2 pi. Each regime
 //! uses the series that converges fast there; neither is truncated above 1e-17 relative.
@@ -321,6 +321,10 @@ pub(crate) fn tail_integral(m: u32, x: f64) -> f64 {
     if x < SPLIT_X {
         return moment_total(m) - head_integral(m, x);
     }
+    if x > 800.0 {
+        // x^m e^-x is below the smallest double (and x^m alone may overflow).
+        return 0.0;
+    }
     // integral_x^inf t^m e^(-n t) dt = e^(-n x) sum_{j=0}^{m} m!/(m-j)! x^(m-j) / n^(j+1).
     let q = libm::exp(-x);
     let mut qn = 1.0;
@@ -366,6 +370,10 @@ pub(crate) fn power(m: u32, t: f64) -> f64 {
 /// Integrand t^m / (e^t - 1) for t > 0.
 #[inline]
 pub(crate) fn moment_integrand(m: u32, t: f64) -> f64 {
+    if t > 800.0 {
+        // Below the smallest double; t^m / expm1(t) would be inf / inf there.
+        return 0.0;
+    }
     power(m, t) / libm::expm1(t)
 }
 
