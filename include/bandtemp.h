@@ -149,6 +149,54 @@ typedef enum {
      */
     BT_STATUS_SIGNAL_BELOW_BACKGROUND = 305,
     /**
+     * The reflected apparent temperature of the scene is zero or negative.
+     */
+    BT_STATUS_REFLECTED_TEMPERATURE_NOT_POSITIVE = 306,
+    /**
+     * The atmosphere temperature of the scene is zero or negative.
+     */
+    BT_STATUS_ATMOSPHERE_TEMPERATURE_NOT_POSITIVE = 307,
+    /**
+     * The window temperature of the scene is zero or negative.
+     */
+    BT_STATUS_WINDOW_TEMPERATURE_NOT_POSITIVE = 308,
+    /**
+     * The temperature the window reflects (sensor side) is zero or negative.
+     */
+    BT_STATUS_WINDOW_REFLECTED_TEMPERATURE_NOT_POSITIVE = 309,
+    /**
+     * A spectral emissivity or transmittance table does not cover the whole band.
+     */
+    BT_STATUS_SPECTRAL_TABLE_DOES_NOT_COVER_BAND = 310,
+    /**
+     * A spectral emissivity table has a value above 1.
+     */
+    BT_STATUS_SPECTRAL_EMISSIVITY_OUT_OF_RANGE = 311,
+    /**
+     * A spectral transmittance table has a value above 1.
+     */
+    BT_STATUS_SPECTRAL_TRANSMITTANCE_OUT_OF_RANGE = 312,
+    /**
+     * Response x transmittance x emissivity is zero over the whole band.
+     */
+    BT_STATUS_OBJECT_NOT_VISIBLE = 313,
+    /**
+     * Emissivity cannot be determined: the object is at the reflected temperature.
+     */
+    BT_STATUS_EMISSIVITY_NOT_DETERMINED = 314,
+    /**
+     * The readings imply an emissivity outside (0, 1].
+     */
+    BT_STATUS_EMISSIVITY_READING_INCONSISTENT = 315,
+    /**
+     * The emissivity of a reflector is outside [0, 1).
+     */
+    BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE = 316,
+    /**
+     * The reflector reading is at or below its own emission, air and window.
+     */
+    BT_STATUS_REFLECTED_NOT_DETERMINED = 317,
+    /**
      * Calibration parameters out of their domain (Sakuma-Hattori: A <= 0 or C <= 0).
      */
     BT_STATUS_CALIBRATION_PARAMETER_INVALID = 400,
@@ -156,6 +204,134 @@ typedef enum {
      * A temperature or signal outside where the calibration curve is defined.
      */
     BT_STATUS_CALIBRATION_OUT_OF_DOMAIN = 401,
+    /**
+     * A calibration fit was given fewer than three points.
+     */
+    BT_STATUS_CALIBRATION_TOO_FEW_POINTS = 402,
+    /**
+     * Calibration arrays differ in length.
+     */
+    BT_STATUS_CALIBRATION_LENGTH_MISMATCH = 403,
+    /**
+     * Two calibration points share one temperature.
+     */
+    BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE = 404,
+    /**
+     * Calibration signals do not rise strictly with temperature.
+     */
+    BT_STATUS_CALIBRATION_SIGNAL_NOT_INCREASING = 405,
+    /**
+     * A signal uncertainty that is not positive.
+     */
+    BT_STATUS_CALIBRATION_UNCERTAINTY_INVALID = 406,
+    /**
+     * A fit temperature range that is not 0 < t_lo_k < t_hi_k.
+     */
+    BT_STATUS_CALIBRATION_RANGE_INVALID = 407,
+    /**
+     * A calibration fit did not converge (the data do not follow the curve).
+     */
+    BT_STATUS_CALIBRATION_NOT_CONVERGED = 408,
+    /**
+     * The data do not determine all three calibration parameters.
+     */
+    BT_STATUS_CALIBRATION_ILL_CONDITIONED = 409,
+    /**
+     * A signal at or below the detector's dark offset (or at or below zero).
+     */
+    BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET = 410,
+    /**
+     * More inputs than an uncertainty budget holds.
+     */
+    BT_STATUS_TOO_MANY_INPUTS = 500,
+    /**
+     * An uncertainty budget with no inputs.
+     */
+    BT_STATUS_NO_INPUTS = 501,
+    /**
+     * A standard uncertainty below zero.
+     */
+    BT_STATUS_UNCERTAINTY_NEGATIVE = 502,
+    /**
+     * A correlation matrix whose length is not n * n for n inputs.
+     */
+    BT_STATUS_CORRELATION_SHAPE_MISMATCH = 503,
+    /**
+     * A correlation matrix not symmetric, without a unit diagonal, or outside [-1, 1].
+     */
+    BT_STATUS_CORRELATION_INVALID = 504,
+    /**
+     * Correlations that make the combined variance negative.
+     */
+    BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE = 505,
+    /**
+     * A coverage factor that is not positive.
+     */
+    BT_STATUS_COVERAGE_FACTOR_NOT_POSITIVE = 506,
+    /**
+     * A coverage probability outside (0, 1).
+     */
+    BT_STATUS_COVERAGE_PROBABILITY_OUT_OF_RANGE = 507,
+    /**
+     * Too few Monte Carlo trials for the requested statistic.
+     */
+    BT_STATUS_TOO_FEW_TRIALS = 508,
+    /**
+     * A random-generator state of all zeros.
+     */
+    BT_STATUS_RANDOM_STATE_ZERO = 509,
+    /**
+     * A band-signal ratio that is zero or negative.
+     */
+    BT_STATUS_RATIO_NOT_POSITIVE = 550,
+    /**
+     * An emissivity ratio e1/e2 that is zero or negative.
+     */
+    BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE = 551,
+    /**
+     * A ratio that no temperature in the pyrometer's range produces.
+     */
+    BT_STATUS_RATIO_OUT_OF_RANGE = 552,
+    /**
+     * Two bands whose ratio changes too little with temperature to resolve it.
+     */
+    BT_STATUS_BANDS_INDISTINGUISHABLE = 553,
+    /**
+     * A ratio-pyrometer temperature range with t_min_k >= t_max_k.
+     */
+    BT_STATUS_RATIO_RANGE_INVALID = 554,
+    /**
+     * Relative humidity outside [0, 1] (a fraction, not percent).
+     */
+    BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE = 600,
+    /**
+     * Air temperature outside the saturation-vapour-pressure formula's range.
+     */
+    BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE = 601,
+    /**
+     * Air pressure outside [500, 1100] hPa.
+     */
+    BT_STATUS_AIR_PRESSURE_OUT_OF_RANGE = 602,
+    /**
+     * A vapour pressure not positive, or with a dew point outside the formula's range.
+     */
+    BT_STATUS_VAPOUR_PRESSURE_OUT_OF_RANGE = 603,
+    /**
+     * A negative path distance.
+     */
+    BT_STATUS_DISTANCE_NEGATIVE = 604,
+    /**
+     * A wavelength or band outside the 8-14 um water-vapour continuum model.
+     */
+    BT_STATUS_OUTSIDE_CONTINUUM_MODEL = 605,
+    /**
+     * A spectral transmittance table with a value above 1.
+     */
+    BT_STATUS_TRANSMITTANCE_TABLE_ABOVE_ONE = 606,
+    /**
+     * The band reaches beyond the spectral transmittance table.
+     */
+    BT_STATUS_BAND_OUTSIDE_TRANSMITTANCE_TABLE = 607,
 } bt_status;
 
 /**
@@ -279,6 +455,35 @@ typedef struct {
      */
     double c;
 } bt_sakuma_hattori;
+
+/**
+ * The full report of a Sakuma-Hattori fit to blackbody readings.
+ */
+typedef struct {
+    /**
+     * The fitted curve.
+     */
+    bt_sakuma_hattori params;
+    /**
+     * Covariance of (A um, B um K, C signal units), rows and columns in that order; first
+     * order. Without signal uncertainties it is estimated from the scatter of the
+     * temperature residuals, and with exactly three points every entry is NaN (no scatter
+     * to estimate it from).
+     */
+    double covariance[3][3];
+    /**
+     * max |T_fit(S_i) - T_i| over the points, K.
+     */
+    double max_residual_k;
+    /**
+     * sqrt(mean (T_fit(S_i) - T_i)^2) over the points, K.
+     */
+    double rms_residual_k;
+    /**
+     * Levenberg-Marquardt iterations used.
+     */
+    uint32_t iterations;
+} bt_points_fit;
 
 #ifdef __cplusplus
 extern "C" {
@@ -534,6 +739,69 @@ bt_status bt_sakuma_hattori_object_temperature(const bt_sakuma_hattori *p,
                                                const bt_scene *scene,
                                                double signal,
                                                double *object_k);
+
+/**
+ * Fits the Sakuma-Hattori curve to a band's exact radiance over [t_lo_k, t_hi_k]: the
+ * calibration curve an ideal instrument with this band would have. C comes out in band
+ * radiance units.
+ *
+ * `max_error_k` receives max |T_fit(L_band(T)) - T| over the range, K, measured against
+ * the exact band integral.
+ * Errors: those of `bt_band_radiance` for the band, `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_NON_FINITE`, `BT_STATUS_CALIBRATION_RANGE_INVALID` unless
+ * 0 < t_lo_k < t_hi_k, `BT_STATUS_RADIANCE_UNDERFLOW` for a range too cold for the
+ * band, `BT_STATUS_CALIBRATION_NOT_CONVERGED`, `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a
+ * `bt_sakuma_hattori`; `max_error_k` null or valid for writing a double; both written
+ * only on success.
+ */
+bt_status bt_sakuma_hattori_fit_band(const bt_band *band,
+                                     double t_lo_k,
+                                     double t_hi_k,
+                                     bt_sakuma_hattori *out,
+                                     double *max_error_k);
+
+/**
+ * Fits the Sakuma-Hattori curve to `n` >= 3 blackbody readings (`t_k[i]` in K,
+ * `signal[i]` in the instrument's units) by least squares in temperature
+ * (Levenberg-Marquardt). Points may come in any order.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_CALIBRATION_TOO_FEW_POINTS` for n < 3, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for a
+ * signal <= 0, `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE`,
+ * `BT_STATUS_CALIBRATION_SIGNAL_NOT_INCREASING`, `BT_STATUS_CALIBRATION_NOT_CONVERGED`,
+ * `BT_STATUS_CALIBRATION_ILL_CONDITIONED`.
+ *
+ * # Safety
+ * `t_k` and `signal` null or valid for reading `n` doubles; `out` null or valid for
+ * writing a `bt_sakuma_hattori`; written only on success.
+ */
+bt_status bt_sakuma_hattori_fit_points(const double *t_k,
+                                       const double *signal,
+                                       size_t n,
+                                       bt_sakuma_hattori *out);
+
+/**
+ * As `bt_sakuma_hattori_fit_points`, with optional signal standard uncertainties and the
+ * full report. With `signal_u` (n positive doubles, signal units) the fit is the
+ * maximum-likelihood fit in signal, sum ((S_fit(T_i) - S_i) / u_i)^2; with NULL, least
+ * squares in temperature.
+ *
+ * Errors: those of `bt_sakuma_hattori_fit_points`, and
+ * `BT_STATUS_CALIBRATION_UNCERTAINTY_INVALID` for an uncertainty that is not positive.
+ *
+ * # Safety
+ * `t_k`, `signal` and (unless NULL) `signal_u` valid for reading `n` doubles; `out` null
+ * or valid for writing a `bt_points_fit`; written only on success.
+ */
+bt_status bt_sakuma_hattori_fit_points_report(const double *t_k,
+                                              const double *signal,
+                                              const double *signal_u,
+                                              size_t n,
+                                              bt_points_fit *out);
 
 #ifdef __cplusplus
 }  // extern "C"

@@ -22,7 +22,11 @@ fn generate() -> String {
     String::from_utf8(bytes).expect("cbindgen writes UTF-8")
 }
 
+/// The checked-in header (in bless mode, the fresh generation being written).
 fn checked_in() -> String {
+    if std::env::var_os("BANDTEMP_BLESS").is_some() {
+        return generate();
+    }
     let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("include/bandtemp.h");
     std::fs::read_to_string(&path).unwrap_or_default()
 }
@@ -95,6 +99,8 @@ const DESIGN_DECLARATIONS: &[&str] = &[
     "bt_status bt_object_temperature_from_apparent(const bt_band *band, const bt_scene *scene, double apparent_k, double *object_k);",
     "bt_status bt_sakuma_hattori_signal(const bt_sakuma_hattori *p, double temperature_k, double *out);",
     "bt_status bt_sakuma_hattori_temperature(const bt_sakuma_hattori *p, double signal, double *temperature_k);",
+    "bt_status bt_sakuma_hattori_fit_band(const bt_band *band, double t_lo_k, double t_hi_k, bt_sakuma_hattori *out, double *max_error_k);",
+    "bt_status bt_sakuma_hattori_fit_points(const double *t_k, const double *signal, size_t n, bt_sakuma_hattori *out);",
     "const char *bt_version(void);",
     "const char *bt_status_message(int status);",
 ];

@@ -1,10 +1,11 @@
 //! Sakuma-Hattori calibration curves through the C ABI.
 
+use super::band::{band_from_c, bt_band};
 use super::scene::read_scene;
-use super::{bt_status, deliver, read_input};
+use super::{bt_status, deliver, deliver2, read_input, slice_from_c, Output};
 use crate::band::SignalCurve;
-use crate::calibration::SakumaHattori;
-use crate::error::Result;
+use crate::calibration::{fit_band, fit_points, SakumaHattori};
+use crate::error::{Error, Result};
 
 /// Sakuma-Hattori (Planck form) calibration parameters:
 /// S(T) = C / (exp(c2 / (A T + B)) - 1), c2 = 14387.768775 um K.
@@ -28,6 +29,51 @@ impl From<SakumaHattori> for bt_sakuma_hattori {
             b_umk: curve.b_umk(),
             c: curve.c(),
         }
+    }
+}
+
+impl Output for bt_sakuma_hattori {
+    fn finite(self) -> Result<bt_sakuma_hattori> {
+        Ok(bt_sakuma_hattori {
+            a_um: self.a_um.finite()?,
+            b_umk: self.b_umk.finite()?,
+            c: self.c.finite()?,
+        })
+    }
+}
+
+/// The full report of a Sakuma-Hattori fit to blackbody readings.
+#[repr(C)]
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct bt_points_fit {
+    /// The fitted curve.
+    pub params: bt_sakuma_hattori,
+    /// Covariance of (A um, B um K, C signal units), rows and columns in that order; first
+    /// order. Without signal uncertainties it is estimated from the scatter of the
+    /// temperature residuals, and with exactly three points every entry is NaN (no scatter
+    /// to estimate it from).
+    pub covariance: [[f64; 3]; 3],
+    /// max |T_fit(S_i) - T_i| over the points, K.
+    pub max_residual_k: f64,
+    /// sqrt(mean (T_fit(S_i) - T_i)^2) over the points, K.
+    pub rms_residual_k: f64,
+    /// Levenberg-Marquardt iterations used.
+    pub iterations: u32,
+}
+
+impl Output for bt_points_fit {
+    /// Parameters and residuals must be finite; the covariance may hold NaN (documented:
+    /// three points without uncertainties) but no infinity.
+    fn finite(self) -> Result<bt_points_fit> {
+        if self.covariance.iter().flatten().any(|x| x.is_infinite()) {
+            return Err(Error::CalibrationIllConditioned);
+        }
+        Ok(bt_points_fit {
+            params: self.params.finite()?,
+            max_residual_k: self.max_residual_k.finite()?,
+            rms_residual_k: self.rms_residual_k.finite()?,
+            ..self
+        })
     }
 }
 
@@ -128,4 +174,120 @@ pub unsafe extern "C" fn bt_sakuma_hattori_object_temperature(
             read_scene(scene)?.object_temperature(&curve, signal)
         })
     }
+}
+
+/// Fits the Sakuma-Hattori curve to a band's exact radiance over [t_lo_k, t_hi_k]: the
+/// calibration curve an ideal instrument with this band would have. C comes out in band
+/// radiance units.
+///
+/// `max_error_k` receives max |T_fit(L_band(T)) - T| over the range, K, measured against
+/// the exact band integral.
+/// Errors: those of `bt_band_radiance` for the band, `BT_STATUS_NULL_POINTER`,
+/// `BT_STATUS_NON_FINITE`, `BT_STATUS_CALIBRATION_RANGE_INVALID` unless
+/// 0 < t_lo_k < t_hi_k, `BT_STATUS_RADIANCE_UNDERFLOW` for a range too cold for the
+/// band, `BT_STATUS_CALIBRATION_NOT_CONVERGED`, `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN`.
+///
+/// # Safety
+/// `band` as in `bt_band_radiance`; `out` null or valid for writing a
+/// `bt_sakuma_hattori`; `max_error_k` null or valid for writing a double; both written
+/// only on success.
+#[no_mangle]
+pub unsafe extern "C" fn bt_sakuma_hattori_fit_band(
+    band: *const bt_band,
+    t_lo_k: f64,
+    t_hi_k: f64,
+    out: *mut bt_sakuma_hattori,
+    max_error_k: *mut f64,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `band_from_c` and `deliver2`.
+    unsafe {
+        deliver2(out, max_error_k, || {
+            let fit = fit_band(&band_from_c(band)?, t_lo_k, t_hi_k)?;
+            Ok((fit.params.into(), fit.max_error_k))
+        })
+    }
+}
+
+/// Fits the Sakuma-Hattori curve to `n` >= 3 blackbody readings (`t_k[i]` in K,
+/// `signal[i]` in the instrument's units) by least squares in temperature
+/// (Levenberg-Marquardt). Points may come in any order.
+///
+/// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+/// `BT_STATUS_CALIBRATION_TOO_FEW_POINTS` for n < 3, `BT_STATUS_NON_FINITE`,
+/// `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for a
+/// signal <= 0, `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE`,
+/// `BT_STATUS_CALIBRATION_SIGNAL_NOT_INCREASING`, `BT_STATUS_CALIBRATION_NOT_CONVERGED`,
+/// `BT_STATUS_CALIBRATION_ILL_CONDITIONED`.
+///
+/// # Safety
+/// `t_k` and `signal` null or valid for reading `n` doubles; `out` null or valid for
+/// writing a `bt_sakuma_hattori`; written only on success.
+#[no_mangle]
+pub unsafe extern "C" fn bt_sakuma_hattori_fit_points(
+    t_k: *const f64,
+    signal: *const f64,
+    n: usize,
+    out: *mut bt_sakuma_hattori,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `slice_from_c` and `deliver`.
+    unsafe {
+        deliver(out, || {
+            let (temperatures_k, signals) = points(t_k, signal, n)?;
+            Ok(fit_points(temperatures_k, signals, None)?.params.into())
+        })
+    }
+}
+
+/// As `bt_sakuma_hattori_fit_points`, with optional signal standard uncertainties and the
+/// full report. With `signal_u` (n positive doubles, signal units) the fit is the
+/// maximum-likelihood fit in signal, sum ((S_fit(T_i) - S_i) / u_i)^2; with NULL, least
+/// squares in temperature.
+///
+/// Errors: those of `bt_sakuma_hattori_fit_points`, and
+/// `BT_STATUS_CALIBRATION_UNCERTAINTY_INVALID` for an uncertainty that is not positive.
+///
+/// # Safety
+/// `t_k`, `signal` and (unless NULL) `signal_u` valid for reading `n` doubles; `out` null
+/// or valid for writing a `bt_points_fit`; written only on success.
+#[no_mangle]
+pub unsafe extern "C" fn bt_sakuma_hattori_fit_points_report(
+    t_k: *const f64,
+    signal: *const f64,
+    signal_u: *const f64,
+    n: usize,
+    out: *mut bt_points_fit,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `slice_from_c` and `deliver`.
+    unsafe {
+        deliver(out, || {
+            let (temperatures_k, signals) = points(t_k, signal, n)?;
+            let uncertainties = if signal_u.is_null() {
+                None
+            } else {
+                Some(slice_from_c(signal_u, n)?)
+            };
+            let fit = fit_points(temperatures_k, signals, uncertainties)?;
+            Ok(bt_points_fit {
+                params: fit.params.into(),
+                covariance: fit.covariance,
+                max_residual_k: fit.max_residual_k,
+                rms_residual_k: fit.rms_residual_k,
+                iterations: fit.iterations,
+            })
+        })
+    }
+}
+
+/// The two arrays of a points fit. A count of 0 accepts NULL and leaves the fit to report
+/// too few points.
+///
+/// # Safety
+/// As `slice_from_c` for each array.
+unsafe fn points<'a>(
+    t_k: *const f64,
+    signal: *const f64,
+    n: usize,
+) -> Result<(&'a [f64], &'a [f64])> {
+    // SAFETY: the caller's guarantee.
+    unsafe { Ok((slice_from_c(t_k, n)?, slice_from_c(signal, n)?)) }
 }

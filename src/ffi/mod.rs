@@ -67,8 +67,9 @@ pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
 };
 pub use calibration::{
-    bt_sakuma_hattori, bt_sakuma_hattori_object_temperature, bt_sakuma_hattori_sensor_signal,
-    bt_sakuma_hattori_signal, bt_sakuma_hattori_temperature,
+    bt_points_fit, bt_sakuma_hattori, bt_sakuma_hattori_fit_band, bt_sakuma_hattori_fit_points,
+    bt_sakuma_hattori_fit_points_report, bt_sakuma_hattori_object_temperature,
+    bt_sakuma_hattori_sensor_signal, bt_sakuma_hattori_signal, bt_sakuma_hattori_temperature,
 };
 pub use planck::{
     bt_blackbody_fraction, bt_peak_wavelength_um, bt_spectral_photon_radiance,
@@ -165,6 +166,31 @@ unsafe fn deliver<T: Output>(out: *mut T, compute: impl FnOnce() -> Result<T>) -
         Ok(value) => {
             // SAFETY: non-null and aligned (checked), valid for writes (caller).
             unsafe { out.write(value) };
+            bt_status::Ok
+        }
+        Err(error) => error.into(),
+    }
+}
+
+/// As [`deliver`] for two outputs, both written only when `compute` succeeds.
+///
+/// # Safety
+/// `out_a` and `out_b` are each null or valid for writes of their type.
+unsafe fn deliver2<A: Output, B: Output>(
+    out_a: *mut A,
+    out_b: *mut B,
+    compute: impl FnOnce() -> Result<(A, B)>,
+) -> bt_status {
+    if let Err(error) = check_ptr(out_a.cast_const()).and(check_ptr(out_b.cast_const())) {
+        return error.into();
+    }
+    match compute().and_then(|(a, b)| Ok((a.finite()?, b.finite()?))) {
+        Ok((a, b)) => {
+            // SAFETY: both non-null and aligned (checked), valid for writes (caller).
+            unsafe {
+                out_a.write(a);
+                out_b.write(b);
+            }
             bt_status::Ok
         }
         Err(error) => error.into(),

@@ -2,7 +2,6 @@
 
 use super::band::{band_from_c, bt_band};
 use super::{bt_status, deliver, read_input};
-use crate::band::SignalCurve;
 use crate::error::Result;
 use crate::scene::Scene;
 
@@ -127,8 +126,7 @@ pub unsafe extern "C" fn bt_object_temperature_from_apparent(
     unsafe {
         deliver(object_k, || {
             let band = band_from_c(band)?;
-            let scene = read_scene(scene)?;
-            scene.object_temperature(&band, band.radiance(apparent_k)?)
+            read_scene(scene)?.object_temperature_from_apparent(&band, apparent_k)
         })
     }
 }
@@ -152,8 +150,7 @@ pub unsafe extern "C" fn bt_apparent_temperature(
     unsafe {
         deliver(apparent_k, || {
             let band = band_from_c(band)?;
-            let signal = read_scene(scene)?.sensor_signal(&band, object_k)?;
-            SignalCurve::temperature(&band, signal)
+            read_scene(scene)?.apparent_temperature(&band, object_k)
         })
     }
 }

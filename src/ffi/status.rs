@@ -81,12 +81,104 @@ pub enum bt_status {
     /// The signal is at or below what reflections, air and window alone give: the object
     /// cannot be resolved against its background.
     SignalBelowBackground = 305,
+    /// The reflected apparent temperature of the scene is zero or negative.
+    ReflectedTemperatureNotPositive = 306,
+    /// The atmosphere temperature of the scene is zero or negative.
+    AtmosphereTemperatureNotPositive = 307,
+    /// The window temperature of the scene is zero or negative.
+    WindowTemperatureNotPositive = 308,
+    /// The temperature the window reflects (sensor side) is zero or negative.
+    WindowReflectedTemperatureNotPositive = 309,
+    /// A spectral emissivity or transmittance table does not cover the whole band.
+    SpectralTableDoesNotCoverBand = 310,
+    /// A spectral emissivity table has a value above 1.
+    SpectralEmissivityOutOfRange = 311,
+    /// A spectral transmittance table has a value above 1.
+    SpectralTransmittanceOutOfRange = 312,
+    /// Response x transmittance x emissivity is zero over the whole band.
+    ObjectNotVisible = 313,
+    /// Emissivity cannot be determined: the object is at the reflected temperature.
+    EmissivityNotDetermined = 314,
+    /// The readings imply an emissivity outside (0, 1].
+    EmissivityReadingInconsistent = 315,
+    /// The emissivity of a reflector is outside [0, 1).
+    ReflectorEmissivityOutOfRange = 316,
+    /// The reflector reading is at or below its own emission, air and window.
+    ReflectedNotDetermined = 317,
 
     // ---- calibration -----------------------------------------------------------------------
     /// Calibration parameters out of their domain (Sakuma-Hattori: A <= 0 or C <= 0).
     CalibrationParameterInvalid = 400,
     /// A temperature or signal outside where the calibration curve is defined.
     CalibrationOutOfDomain = 401,
+    /// A calibration fit was given fewer than three points.
+    CalibrationTooFewPoints = 402,
+    /// Calibration arrays differ in length.
+    CalibrationLengthMismatch = 403,
+    /// Two calibration points share one temperature.
+    CalibrationDuplicateTemperature = 404,
+    /// Calibration signals do not rise strictly with temperature.
+    CalibrationSignalNotIncreasing = 405,
+    /// A signal uncertainty that is not positive.
+    CalibrationUncertaintyInvalid = 406,
+    /// A fit temperature range that is not 0 < t_lo_k < t_hi_k.
+    CalibrationRangeInvalid = 407,
+    /// A calibration fit did not converge (the data do not follow the curve).
+    CalibrationNotConverged = 408,
+    /// The data do not determine all three calibration parameters.
+    CalibrationIllConditioned = 409,
+    /// A signal at or below the detector's dark offset (or at or below zero).
+    SignalAtOrBelowOffset = 410,
+
+    // ---- uncertainty (500-549) and ratio (550-599) ------------------------------------------
+    /// More inputs than an uncertainty budget holds.
+    TooManyInputs = 500,
+    /// An uncertainty budget with no inputs.
+    NoInputs = 501,
+    /// A standard uncertainty below zero.
+    UncertaintyNegative = 502,
+    /// A correlation matrix whose length is not n * n for n inputs.
+    CorrelationShapeMismatch = 503,
+    /// A correlation matrix not symmetric, without a unit diagonal, or outside [-1, 1].
+    CorrelationInvalid = 504,
+    /// Correlations that make the combined variance negative.
+    CorrelationNotPositiveSemidefinite = 505,
+    /// A coverage factor that is not positive.
+    CoverageFactorNotPositive = 506,
+    /// A coverage probability outside (0, 1).
+    CoverageProbabilityOutOfRange = 507,
+    /// Too few Monte Carlo trials for the requested statistic.
+    TooFewTrials = 508,
+    /// A random-generator state of all zeros.
+    RandomStateZero = 509,
+    /// A band-signal ratio that is zero or negative.
+    RatioNotPositive = 550,
+    /// An emissivity ratio e1/e2 that is zero or negative.
+    EmissivityRatioNotPositive = 551,
+    /// A ratio that no temperature in the pyrometer's range produces.
+    RatioOutOfRange = 552,
+    /// Two bands whose ratio changes too little with temperature to resolve it.
+    BandsIndistinguishable = 553,
+    /// A ratio-pyrometer temperature range with t_min_k >= t_max_k.
+    RatioRangeInvalid = 554,
+
+    // ---- atmosphere ---------------------------------------------------------------------------
+    /// Relative humidity outside [0, 1] (a fraction, not percent).
+    RelativeHumidityOutOfRange = 600,
+    /// Air temperature outside the saturation-vapour-pressure formula's range.
+    AirTemperatureOutOfRange = 601,
+    /// Air pressure outside [500, 1100] hPa.
+    AirPressureOutOfRange = 602,
+    /// A vapour pressure not positive, or with a dew point outside the formula's range.
+    VapourPressureOutOfRange = 603,
+    /// A negative path distance.
+    DistanceNegative = 604,
+    /// A wavelength or band outside the 8-14 um water-vapour continuum model.
+    OutsideContinuumModel = 605,
+    /// A spectral transmittance table with a value above 1.
+    TransmittanceTableAboveOne = 606,
+    /// The band reaches beyond the spectral transmittance table.
+    BandOutsideTransmittanceTable = 607,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -158,8 +250,52 @@ status_table!(
     WindowReflectanceOutOfRange,
     WindowSumExceedsOne,
     SignalBelowBackground,
+    ReflectedTemperatureNotPositive,
+    AtmosphereTemperatureNotPositive,
+    WindowTemperatureNotPositive,
+    WindowReflectedTemperatureNotPositive,
+    SpectralTableDoesNotCoverBand,
+    SpectralEmissivityOutOfRange,
+    SpectralTransmittanceOutOfRange,
+    ObjectNotVisible,
+    EmissivityNotDetermined,
+    EmissivityReadingInconsistent,
+    ReflectorEmissivityOutOfRange,
+    ReflectedNotDetermined,
     CalibrationParameterInvalid,
     CalibrationOutOfDomain,
+    CalibrationTooFewPoints,
+    CalibrationLengthMismatch,
+    CalibrationDuplicateTemperature,
+    CalibrationSignalNotIncreasing,
+    CalibrationUncertaintyInvalid,
+    CalibrationRangeInvalid,
+    CalibrationNotConverged,
+    CalibrationIllConditioned,
+    SignalAtOrBelowOffset,
+    TooManyInputs,
+    NoInputs,
+    UncertaintyNegative,
+    CorrelationShapeMismatch,
+    CorrelationInvalid,
+    CorrelationNotPositiveSemidefinite,
+    CoverageFactorNotPositive,
+    CoverageProbabilityOutOfRange,
+    TooFewTrials,
+    RandomStateZero,
+    RatioNotPositive,
+    EmissivityRatioNotPositive,
+    RatioOutOfRange,
+    BandsIndistinguishable,
+    RatioRangeInvalid,
+    RelativeHumidityOutOfRange,
+    AirTemperatureOutOfRange,
+    AirPressureOutOfRange,
+    VapourPressureOutOfRange,
+    DistanceNegative,
+    OutsideContinuumModel,
+    TransmittanceTableAboveOne,
+    BandOutsideTransmittanceTable,
 );
 
 impl bt_status {
