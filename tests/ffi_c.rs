@@ -246,3 +246,63 @@ fn readme_example_compiles_and_runs() {
         );
     }
 }
+
+/// The install recipe (capi/install.sh, cargo-c layout) into a scratch prefix, then the
+/// README example built with the flags `pkg-config` gives for the installed bandtemp.pc
+/// and run against the installed shared library.
+#[test]
+fn pkg_config_install_recipe_builds_the_readme_example() {
+    let probe = Command::new("pkg-config").arg("--version").output();
+    if !probe.is_ok_and(|o| o.status.success()) {
+        println!("note: no pkg-config on this system; install-recipe test skipped");
+        return;
+    }
+    let prefix = scratch().join("prefix");
+    let _ = std::fs::remove_dir_all(&prefix);
+    let status = Command::new("sh")
+        .arg(root().join("capi/install.sh"))
+        .arg("--no-build")
+        .arg("--prefix")
+        .arg(&prefix)
+        .arg("--profile-dir")
+        .arg(library_dir())
+        .status()
+        .expect("run capi/install.sh");
+    assert!(status.success(), "capi/install.sh failed");
+    let pc_dir = prefix.join("lib/pkgconfig");
+    let pkg_config = |args: &[&str]| -> String {
+        let output = Command::new("pkg-config")
+            .env("PKG_CONFIG_PATH", &pc_dir)
+            .args(args)
+            .arg("bandtemp")
+            .output()
+            .expect("run pkg-config");
+        assert!(
+            output.status.success(),
+            "pkg-config {args:?} bandtemp failed"
+        );
+        String::from_utf8(output.stdout)
+            .expect("UTF-8")
+            .trim()
+            .to_owned()
+    };
+    assert_eq!(pkg_config(&["--modversion"]), env!("CARGO_PKG_VERSION"));
+    let flags = pkg_config(&["--cflags", "--libs"]);
+    let exe = scratch().join("readme_pkg_config");
+    let output = Command::new(compiler("CC", "cc"))
+        .args(["-std=c99"])
+        .args(WARNINGS)
+        .arg(root().join("tests/c/readme_example.c"))
+        .args(flags.split_whitespace())
+        .arg(format!("-Wl,-rpath,{}", prefix.join("lib").display()))
+        .arg("-o")
+        .arg(&exe)
+        .output()
+        .expect("run the C compiler");
+    assert!(
+        output.status.success(),
+        "building the README example with `{flags}` failed:\n{}",
+        String::from_utf8_lossy(&output.stderr)
+    );
+    assert_eq!(run(&exe).trim(), "object: 360.000 K");
+}
