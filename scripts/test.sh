@@ -10,3 +10,6 @@ python3 -m pip install --quiet --disable-pip-version-check mpmath scipy numpy
 
 cargo test --all-targets
 cargo test --doc
+
+# Regenerate a sample of the stored reference vectors with mpmath and compare.
+python3 tools/refgen/planck_refs.py --check
