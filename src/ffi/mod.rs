@@ -28,7 +28,7 @@
 //!    only after null, alignment and length checks (a length of 0 accepts a null pointer),
 //!    and use no `unwrap`, `expect`, indexing, `assert!` or `unreachable!`; the lints
 //!    below deny them in this module, and the core they call reports every bad input as
-//!    an [`Error`](crate::Error).
+//!    an [`Error`] variant.
 //! 2. By test: `tests/ffi_proptest.rs` drives every export and the Rust entry points behind
 //!    them with arbitrary f64 bit patterns; `tests/c/ffi_test.c` drives every export with
 //!    hostile input from C and C++, under AddressSanitizer and UndefinedBehaviorSanitizer.
