@@ -100,6 +100,10 @@ fn build(compiler: &str, flags: &[&str], source: &str, name: &str) -> PathBuf {
 /// Runs an executable and returns its stdout; panics with its output unless it exits 0.
 fn run(exe: &Path) -> String {
     let output = Command::new(exe)
+        // cargo test puts target/*/ on the loader path, where a stale uplifted
+        // libbandtemp.so may sit; the programs must load the library they were linked
+        // against (static, or the installed one through its rpath).
+        .env_remove("LD_LIBRARY_PATH")
         .env("ASAN_OPTIONS", "detect_leaks=1:abort_on_error=1")
         .env("UBSAN_OPTIONS", "print_stacktrace=1:halt_on_error=1")
         .output()
