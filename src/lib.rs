@@ -52,6 +52,7 @@ pub mod band;
 pub mod calibration;
 pub mod constants;
 mod error;
+pub mod frame;
 pub mod planck;
 pub mod scene;
 
