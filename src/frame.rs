@@ -1409,3 +1409,61 @@ fn scalar_tail<I: Copy, S>(
         };
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::band::Band;
+    use crate::planck::Detector;
+
+    /// A C caller can hand back any bytes as a geometry: each inconsistency is refused.
+    #[test]
+    fn tampered_geometry_is_refused() {
+        let band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+        let range = TemperatureRange::new(250.0, 1500.0).unwrap();
+        let mut storage = [[0.0f32; 4]; 256];
+        let good = FrameTable::build(&band, range, 1e-3, &mut storage)
+            .unwrap()
+            .geometry();
+        let rows = [[300.0f32; 4]; 256];
+        assert!(FrameTable::from_parts(good, &rows).is_ok());
+        let tampered = [
+            TableGeometry {
+                level: MAX_LEVEL + 1,
+                ..good
+            },
+            TableGeometry {
+                level: good.level + 1,
+                ..good
+            },
+            TableGeometry {
+                first_segment: good.first_segment + 1,
+                ..good
+            },
+            TableGeometry {
+                rows: good.rows - 1,
+                ..good
+            },
+            TableGeometry { rows: 0, ..good },
+            TableGeometry {
+                signal_lo: f32::NAN,
+                ..good
+            },
+            TableGeometry {
+                signal_lo: good.signal_hi,
+                ..good
+            },
+            TableGeometry {
+                signal_hi: f32::INFINITY,
+                ..good
+            },
+        ];
+        for geometry in tampered {
+            assert_eq!(
+                FrameTable::from_parts(geometry, &rows).map(|t| t.geometry()),
+                Err(Error::FrameTableInvalid),
+                "{geometry:?}"
+            );
+        }
+    }
+}
