@@ -74,6 +74,20 @@ fn frame(c: &mut Criterion) {
     )
     .unwrap();
     let mut out = vec![0.0f32; WIDTH * HEIGHT];
+    let table = converter.table().geometry();
+    eprintln!(
+        "table: {} rows, {} bytes, level {}, max table error {:.3e} K, max pixel error {:.3e} K",
+        table.rows(),
+        table.bytes(),
+        table.level(),
+        table.max_table_error_k(),
+        table.max_pixel_error_k()
+    );
+    let uniform = converter.convert_counts(&s.counts, None, &mut out).unwrap();
+    let mapped = converter
+        .convert_counts(&s.counts, Some(&s.emissivity), &mut out)
+        .unwrap();
+    eprintln!("uniform-scene summary: {uniform:?}\nemissivity-map summary: {mapped:?}");
 
     let mut group = c.benchmark_group("frame_640x512");
     group.throughput(Throughput::Elements((WIDTH * HEIGHT) as u64));
