@@ -67,6 +67,34 @@ pub enum Error {
     /// The signal is at or below what reflections, air and window alone give: the object
     /// cannot be resolved against its background.
     SignalBelowBackground,
+    /// The reflected apparent temperature of a scene is zero or negative.
+    ReflectedTemperatureNotPositive,
+    /// The atmosphere temperature of a scene is zero or negative.
+    AtmosphereTemperatureNotPositive,
+    /// The window temperature of a scene is zero or negative.
+    WindowTemperatureNotPositive,
+    /// The temperature a window reflects (sensor side) is zero or negative.
+    WindowReflectedTemperatureNotPositive,
+    /// A spectral emissivity or transmittance table does not cover the whole band.
+    SpectralTableDoesNotCoverBand,
+    /// A spectral emissivity table has a value above 1.
+    SpectralEmissivityOutOfRange,
+    /// A spectral transmittance table has a value above 1.
+    SpectralTransmittanceOutOfRange,
+    /// Response x transmittance x emissivity is zero over the whole band: the object
+    /// contributes nothing to the signal.
+    ObjectNotVisible,
+    /// Emissivity cannot be determined: the reference temperature gives the same signal as
+    /// the reflected apparent temperature (object at the reflected temperature).
+    EmissivityNotDetermined,
+    /// The readings imply an emissivity outside (0, 1]: reading, reference temperature and
+    /// scene are inconsistent.
+    EmissivityReadingInconsistent,
+    /// The emissivity of a reflector is outside [0, 1) (a reflector must reflect).
+    ReflectorEmissivityOutOfRange,
+    /// The reflector reading is at or below what the reflector's own emission, the air and
+    /// the window give: no reflected apparent temperature fits it.
+    ReflectedNotDetermined,
 
     // ---- calibration ---------------------------------------------------------------------------
     /// Calibration parameters out of their domain (A <= 0 or C <= 0 for Sakuma-Hattori).
@@ -74,10 +102,78 @@ pub enum Error {
     /// A temperature or signal outside where the calibration curve is defined
     /// (A T + B <= 0 for Sakuma-Hattori, or an inverse that is not a positive temperature).
     CalibrationOutOfDomain,
+    /// A calibration fit was given fewer than three points (three parameters need three).
+    CalibrationTooFewPoints,
+    /// Calibration arrays (temperatures, signals, uncertainties, output) differ in length.
+    CalibrationLengthMismatch,
+    /// Two calibration points share one temperature.
+    CalibrationDuplicateTemperature,
+    /// Calibration signals do not rise strictly with temperature.
+    CalibrationSignalNotIncreasing,
+    /// A signal uncertainty that is not positive.
+    CalibrationUncertaintyInvalid,
+    /// A fit temperature range that is not 0 < t_lo_k < t_hi_k.
+    CalibrationRangeInvalid,
+    /// A calibration fit did not converge (the data do not follow the curve's form).
+    CalibrationNotConverged,
+    /// The fit's normal matrix is singular: the data do not determine all three parameters.
+    CalibrationIllConditioned,
+    /// A signal at or below the detector's dark offset (or at or below zero without one).
+    SignalAtOrBelowOffset,
     // ---- uncertainty and ratio -------------------------------------------------------------------
-
+    /// More inputs than an uncertainty budget holds (`uncertainty::MAX_INPUTS`).
+    TooManyInputs,
+    /// An uncertainty budget with no inputs.
+    NoInputs,
+    /// A standard uncertainty below zero.
+    UncertaintyNegative,
+    /// A correlation matrix whose length is not n * n for n inputs.
+    CorrelationShapeMismatch,
+    /// A correlation matrix that is not symmetric, has a diagonal other than 1 or an
+    /// entry outside [-1, 1].
+    CorrelationInvalid,
+    /// Correlations that make the combined variance negative (the matrix is not positive
+    /// semidefinite).
+    CorrelationNotPositiveSemidefinite,
+    /// A coverage factor that is not positive.
+    CoverageFactorNotPositive,
+    /// A coverage probability outside (0, 1).
+    CoverageProbabilityOutOfRange,
+    /// Too few Monte Carlo trials (or too small a sample buffer) for the requested
+    /// statistic or coverage probability.
+    TooFewTrials,
+    /// A random-generator state of all zeros (xoshiro256** never leaves it).
+    RandomStateZero,
+    /// A band-signal ratio that is zero or negative.
+    RatioNotPositive,
+    /// An emissivity ratio e1/e2 that is zero or negative.
+    EmissivityRatioNotPositive,
+    /// A ratio that no temperature in the pyrometer's range produces.
+    RatioOutOfRange,
+    /// Two bands whose ratio changes too little with temperature (they overlap or sit too
+    /// close) to resolve it: |d ln R / d ln T| falls below `ratio::MIN_LOG_SLOPE`.
+    BandsIndistinguishable,
+    /// A ratio-pyrometer temperature range with t_min_k >= t_max_k.
+    RatioRangeInvalid,
     // ---- atmosphere ---------------------------------------------------------------------------
-
+    /// Relative humidity outside [0, 1] (a fraction, not percent).
+    RelativeHumidityOutOfRange,
+    /// Air temperature outside the range of the chosen saturation-vapour-pressure formula.
+    AirTemperatureOutOfRange,
+    /// Air pressure outside [500, 1100] hPa (the range the humidity and continuum models cover).
+    AirPressureOutOfRange,
+    /// A vapour pressure that is not positive, or whose dew or frost point lies outside the
+    /// formula's range.
+    VapourPressureOutOfRange,
+    /// A negative path distance.
+    DistanceNegative,
+    /// A wavelength or band outside the water-vapour continuum model (8-14 um): supply a
+    /// spectral transmittance table instead.
+    OutsideContinuumModel,
+    /// A spectral transmittance table with a value above 1.
+    TransmittanceTableAboveOne,
+    /// The band reaches beyond the spectral transmittance table.
+    BandOutsideTransmittanceTable,
     // ---- frame --------------------------------------------------------------------------------
     /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
     FrameRangeInvalid,
@@ -111,6 +207,9 @@ pub enum Error {
 impl Error {
     /// A short, static, human-readable message for this error.
     #[must_use]
+    // One arm per variant: the match grows with the enum, and splitting it would hide
+    // a missing message.
+    #[allow(clippy::too_many_lines)]
     pub const fn message(self) -> &'static str {
         match self {
             // general
@@ -147,13 +246,78 @@ impl Error {
             Error::SignalBelowBackground => {
                 "signal at or below the background: the object cannot be resolved"
             }
+            Error::ReflectedTemperatureNotPositive => "reflected temperature must be positive (K)",
+            Error::AtmosphereTemperatureNotPositive => "atmosphere temperature must be positive (K)",
+            Error::WindowTemperatureNotPositive => "window temperature must be positive (K)",
+            Error::WindowReflectedTemperatureNotPositive => "window's reflected K must be positive",
+            Error::SpectralTableDoesNotCoverBand => "a spectral table must cover the whole band",
+            Error::SpectralEmissivityOutOfRange => "spectral emissivity values must be in [0, 1]",
+            Error::SpectralTransmittanceOutOfRange => "spectral transmittance must be in [0, 1]",
+            Error::ObjectNotVisible => "object not visible: response x tau x e is zero in band",
+            Error::EmissivityNotDetermined => "emissivity undetermined: object at reflected K",
+            Error::EmissivityReadingInconsistent => "readings imply emissivity outside (0, 1]",
+            Error::ReflectorEmissivityOutOfRange => "reflector emissivity must be in [0, 1)",
+            Error::ReflectedNotDetermined => "reflector reading at or below its own emission",
 
             // calibration
             Error::CalibrationParameterInvalid => "calibration parameters out of their domain",
             Error::CalibrationOutOfDomain => "outside the domain of the calibration curve",
+            Error::CalibrationTooFewPoints => "a calibration fit needs at least three points",
+            Error::CalibrationLengthMismatch => "calibration arrays differ in length",
+            Error::CalibrationDuplicateTemperature => {
+                "two calibration points share one temperature"
+            }
+            Error::CalibrationSignalNotIncreasing => {
+                "calibration signals must rise strictly with temperature"
+            }
+            Error::CalibrationUncertaintyInvalid => "signal uncertainties must be positive",
+            Error::CalibrationRangeInvalid => "fit range must satisfy 0 < t_lo_k < t_hi_k",
+            Error::CalibrationNotConverged => "the calibration fit did not converge",
+            Error::CalibrationIllConditioned => {
+                "the calibration data do not determine all three parameters"
+            }
+            Error::SignalAtOrBelowOffset => "signal at or below the dark offset",
             // uncertainty and ratio
-
+            Error::TooManyInputs => "more inputs than an uncertainty budget holds (16)",
+            Error::NoInputs => "an uncertainty budget needs at least one input",
+            Error::UncertaintyNegative => "a standard uncertainty must not be negative",
+            Error::CorrelationShapeMismatch => "the correlation matrix must hold n * n entries",
+            Error::CorrelationInvalid => {
+                "correlations must be symmetric, in [-1, 1], with a unit diagonal"
+            }
+            Error::CorrelationNotPositiveSemidefinite => {
+                "the correlations give a negative combined variance"
+            }
+            Error::CoverageFactorNotPositive => "the coverage factor must be positive",
+            Error::CoverageProbabilityOutOfRange => "the coverage probability must be in (0, 1)",
+            Error::TooFewTrials => "too few Monte Carlo trials for this statistic",
+            Error::RandomStateZero => "the random generator state must not be all zeros",
+            Error::RatioNotPositive => "the band-signal ratio must be positive",
+            Error::EmissivityRatioNotPositive => "the emissivity ratio must be positive",
+            Error::RatioOutOfRange => "no temperature in the pyrometer's range gives this ratio",
+            Error::BandsIndistinguishable => {
+                "the two bands' ratio barely changes with temperature: it cannot resolve it"
+            }
+            Error::RatioRangeInvalid => "the ratio temperature range needs t_min_k < t_max_k",
             // atmosphere
+            Error::RelativeHumidityOutOfRange => {
+                "relative humidity must be a fraction in [0, 1] (not percent)"
+            }
+            Error::AirTemperatureOutOfRange => {
+                "air temperature outside the saturation-vapour-pressure formula's range"
+            }
+            Error::AirPressureOutOfRange => "air pressure must be in [500, 1100] hPa",
+            Error::VapourPressureOutOfRange => {
+                "vapour pressure not positive, or its dew point is outside the formula's range"
+            }
+            Error::DistanceNegative => "path distance must not be negative",
+            Error::OutsideContinuumModel => {
+                "outside the 8-14 um water-vapour continuum model: supply a spectral transmittance table"
+            }
+            Error::TransmittanceTableAboveOne => "spectral transmittance values must not exceed 1",
+            Error::BandOutsideTransmittanceTable => {
+                "the band reaches beyond the spectral transmittance table"
+            }
 
             // frame
             Error::FrameRangeInvalid => "frame temperature range must satisfy 0 < lo_k < hi_k",

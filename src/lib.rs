@@ -48,12 +48,20 @@
 #[cfg(feature = "std")]
 extern crate std;
 
+pub mod atmosphere;
 pub mod band;
 pub mod calibration;
 pub mod constants;
 mod error;
 pub mod frame;
 pub mod planck;
+pub mod ratio;
 pub mod scene;
+pub mod uncertainty;
 
 pub use error::{Error, Result};
+
+/// The README's Rust examples, compiled and run as doc tests.
+#[cfg(doctest)]
+#[doc = include_str!("../README.md")]
+pub struct ReadmeDoctests;

@@ -1,0 +1,15 @@
+#!/usr/bin/env bash
+# The whole test suite, with its own set-up: Rust unit, integration and doc tests (which
+# also compile and run the C/C++ callers and the examples), then the Python cross-checks
+# against mpmath and scipy. Run from anywhere: `bash scripts/test.sh`.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+
+# Reference libraries for the cross-checks (no-ops when already installed).
+python3 -m pip install --quiet --disable-pip-version-check mpmath scipy numpy
+
+cargo test --all-targets
+cargo test --doc
+
+# Regenerate a sample of the stored reference vectors with mpmath and compare.
+python3 tools/refgen/planck_refs.py --check

@@ -1,0 +1,549 @@
+//! Two-colour (ratio) pyrometry: temperature from the ratio of two band signals.
+//!
+//! A surface at temperature T with emissivities e1, e2 in the two bands gives signals
+//! S1 = e1 L1(T) and S2 = e2 L2(T) (L_i the blackbody band radiances, [`Band::radiance`]),
+//! so that
+//!
+//! ```text
+//! R = S1 / S2 = kappa * L1(T) / L2(T),      kappa = e1 / e2  (emissivity ratio)
+//! ```
+//!
+//! The emissivity itself cancels; only its spectral slope (kappa != 1) remains. A grey
+//! surface has kappa = 1. Signals must be band radiances in the bands' units, or both
+//! scaled by one common factor (remove a channel-gain ratio first).
+//!
+//! - [`RatioPyrometer`] solves the exact band-integral equation for T (energy or photon
+//!   detectors, rectangular or tabulated responses), with the sensitivities of T to each
+//!   signal and to kappa.
+//! - [`WienRatio`] is the closed form in the Wien approximation for two narrow bands at
+//!   effective wavelengths lambda1, lambda2 (derived in its docs):
+//!
+//! ```text
+//! 1/T = (lambda_R / c2) ln(kappa W / R),     lambda_R = lambda1 lambda2 / (lambda2 - lambda1)
+//!     = 1/T_grey + (lambda_R / c2) ln kappa  (emissivity-slope correction)
+//! ```
+//!
+//!   W is the Wien prefactor ratio of the two bands.
+//!
+//! A ratio resolves temperature only as well as R changes with it:
+//! dT/T = (dR/R) / (d ln R / d ln T). Bands that overlap or sit close together make
+//! d ln R / d ln T small (in the Wien limit it is c2 / (lambda_R T)), and nested bands can
+//! even make R non-monotonic. [`RatioPyrometer::new`] refuses bands whose
+//! |d ln R / d ln T| falls below [`MIN_LOG_SLOPE`] anywhere in the working range
+//! ([`Error::BandsIndistinguishable`]).
+
+use crate::band::{Band, Solution, SOLVER_MAX_ITERATIONS};
+use crate::constants::{C1L_UM, C1P_UM, C2_UMK};
+use crate::error::{check_temperature_k, finite, Error, Result};
+use crate::planck::Detector;
+
+/// Smallest |d ln R / d ln T| a ratio pyrometer accepts over its working range.
+///
+/// At this floor a 1 % error in the ratio becomes a 10 % error in temperature; it is a
+/// design choice of this crate (no standard fixes it), set to reject overlapping bands
+/// while admitting any practical pair (0.65/0.9 um at 3000 K gives about 2.0; 3-5/8-14 um
+/// at 1000 K about 1.7).
+pub const MIN_LOG_SLOPE: f64 = 0.1;
+
+/// Log-spaced temperatures at which [`RatioPyrometer::new`] checks the slope and sign of
+/// d ln R / d ln T (a sign change between two points would need |slope| to fall through
+/// zero on a 1/64 log-interval of the range; both ends are always checked).
+pub const RANGE_CHECK_POINTS: usize = 65;
+
+/// Sensitivity coefficients of a ratio temperature, K per unit of each input.
+///
+/// With s = d ln(L1/L2)/dT at the solution (per K):
+/// dT/dS1 = 1/(S1 s), dT/dS2 = -1/(S2 s), dT/dR = 1/(R s), dT/dkappa = -1/(kappa s).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct RatioSensitivities {
+    /// dT/dS1, K per signal unit of band 1.
+    pub signal1: f64,
+    /// dT/dS2, K per signal unit of band 2.
+    pub signal2: f64,
+    /// dT/dR, K per unit of the ratio.
+    pub ratio: f64,
+    /// dT/dkappa, K per unit of the emissivity ratio e1/e2.
+    pub emissivity_ratio: f64,
+    /// d ln R / d ln T at the solution (dimensionless): the ratio's temperature
+    /// resolution; dT/T = (dR/R) / this.
+    pub log_slope: f64,
+}
+
+/// A ratio temperature with how it was found and its sensitivities.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct RatioReading {
+    /// The solved temperature, iterations and residual (the residual is
+    /// ln(L1/L2) - ln(R/kappa) at the last evaluation).
+    pub solution: Solution,
+    /// Sensitivities at the solution.
+    pub sensitivities: RatioSensitivities,
+}
+
+/// A two-band ratio pyrometer over a working temperature range.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct RatioPyrometer<'a> {
+    band1: Band<'a>,
+    band2: Band<'a>,
+    t_min_k: f64,
+    t_max_k: f64,
+    /// ln(L1/L2) at t_min_k and t_max_k.
+    log_ratio_min: f64,
+    log_ratio_max: f64,
+    /// True when L1/L2 rises with temperature (band 1 the shorter-wave one).
+    increasing: bool,
+}
+
+impl<'a> RatioPyrometer<'a> {
+    /// A pyrometer taking R = S1/S2 over [`t_min_k`, `t_max_k`] (K).
+    ///
+    /// Checks d ln R / d ln T = T (L1'/L1 - L2'/L2) at [`RANGE_CHECK_POINTS`] log-spaced
+    /// temperatures: it must keep one sign and stay at or above [`MIN_LOG_SLOPE`] in size.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`], [`Error::RatioRangeInvalid`]
+    /// unless t_min_k < t_max_k, [`Error::BandsIndistinguishable`], and band-radiance errors
+    /// (e.g. [`Error::RadianceUnderflow`] where a band sees nothing at t_min_k).
+    pub fn new(band1: Band<'a>, band2: Band<'a>, t_min_k: f64, t_max_k: f64) -> Result<Self> {
+        check_temperature_k(t_min_k)?;
+        check_temperature_k(t_max_k)?;
+        if !(t_min_k < t_max_k) {
+            return Err(Error::RatioRangeInvalid);
+        }
+        let mut pyrometer = RatioPyrometer {
+            band1,
+            band2,
+            t_min_k,
+            t_max_k,
+            log_ratio_min: 0.0,
+            log_ratio_max: 0.0,
+            increasing: true,
+        };
+        let span = libm::log(t_max_k / t_min_k);
+        let mut sign = 0.0;
+        #[allow(clippy::cast_precision_loss)]
+        let last = (RANGE_CHECK_POINTS - 1) as f64;
+        for i in 0..RANGE_CHECK_POINTS {
+            #[allow(clippy::cast_precision_loss)]
+            let fraction = i as f64 / last;
+            let t = if i + 1 == RANGE_CHECK_POINTS {
+                t_max_k
+            } else {
+                t_min_k * libm::exp(span * fraction)
+            };
+            let (log_ratio, slope) = pyrometer.log_ratio_and_slope(t)?;
+            let log_slope = t * slope;
+            if !(libm::fabs(log_slope) >= MIN_LOG_SLOPE) {
+                return Err(Error::BandsIndistinguishable);
+            }
+            let this_sign = log_slope.signum();
+            if sign != 0.0 && this_sign != sign {
+                return Err(Error::BandsIndistinguishable);
+            }
+            sign = this_sign;
+            if i == 0 {
+                pyrometer.log_ratio_min = log_ratio;
+            }
+            pyrometer.log_ratio_max = log_ratio;
+        }
+        pyrometer.increasing = sign > 0.0;
+        Ok(pyrometer)
+    }
+
+    /// Band 1 (numerator).
+    #[must_use]
+    pub fn band1(&self) -> Band<'a> {
+        self.band1
+    }
+
+    /// Band 2 (denominator).
+    #[must_use]
+    pub fn band2(&self) -> Band<'a> {
+        self.band2
+    }
+
+    /// Working range (t_min_k, t_max_k), K.
+    #[must_use]
+    pub fn range_k(&self) -> (f64, f64) {
+        (self.t_min_k, self.t_max_k)
+    }
+
+    /// Blackbody ratios L1/L2 at the two ends of the range, (at t_min_k, at t_max_k): the
+    /// ratios R/kappa the pyrometer can resolve lie between them.
+    #[must_use]
+    pub fn ratio_range(&self) -> (f64, f64) {
+        (libm::exp(self.log_ratio_min), libm::exp(self.log_ratio_max))
+    }
+
+    /// ln(L1/L2) and its temperature derivative L1'/L1 - L2'/L2 (per K) at `temperature_k`.
+    ///
+    /// # Errors
+    /// Band-radiance errors of either band.
+    pub fn log_ratio_and_slope(&self, temperature_k: f64) -> Result<(f64, f64)> {
+        let (l1, d1) = self.band1.radiance_and_derivative(temperature_k)?;
+        let (l2, d2) = self.band2.radiance_and_derivative(temperature_k)?;
+        Ok((libm::log(l1) - libm::log(l2), d1 / l1 - d2 / l2))
+    }
+
+    /// The forward model R = kappa L1(T)/L2(T) (dimensionless when both bands share a
+    /// detector kind), at any positive temperature.
+    ///
+    /// # Errors
+    /// [`Error::EmissivityRatioNotPositive`], band-radiance errors, [`Error::NonFinite`].
+    pub fn ratio(&self, temperature_k: f64, emissivity_ratio: f64) -> Result<f64> {
+        let kappa = check_emissivity_ratio(emissivity_ratio)?;
+        let l1 = self.band1.radiance(temperature_k)?;
+        let l2 = self.band2.radiance(temperature_k)?;
+        finite(kappa * (l1 / l2))
+    }
+
+    /// Temperature whose ratio kappa L1(T)/L2(T) equals `ratio` (kappa = e1/e2; 1 for a
+    /// grey surface), K, by Newton's method on ln(L1/L2) against 1/T (nearly linear: the
+    /// Wien limit is exactly linear), safeguarded by the working-range bracket and
+    /// geometric bisection; stops when a step is below 1e-13 T.
+    ///
+    /// Accuracy: |dT/T| <= (band-radiance relative error, 1e-14) / |d ln R / d ln T|,
+    /// so below 1e-12 for any accepted pair; checked against mpmath in
+    /// `tests/ratio_reference.rs`.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::RatioNotPositive`],
+    /// [`Error::EmissivityRatioNotPositive`], [`Error::RatioOutOfRange`] when R/kappa lies
+    /// outside [`RatioPyrometer::ratio_range`], [`Error::NotConverged`], band errors.
+    pub fn temperature(&self, ratio: f64, emissivity_ratio: f64) -> Result<Solution> {
+        if !(finite(ratio)? > 0.0) {
+            return Err(Error::RatioNotPositive);
+        }
+        let kappa = check_emissivity_ratio(emissivity_ratio)?;
+        let target = libm::log(ratio) - libm::log(kappa);
+        finite(target)?;
+        let sign = if self.increasing { 1.0 } else { -1.0 };
+        // f(T) = sign (ln R(T) - target) rises with T.
+        let f_min = sign * (self.log_ratio_min - target);
+        let f_max = sign * (self.log_ratio_max - target);
+        if f_min > 0.0 || f_max < 0.0 {
+            return Err(Error::RatioOutOfRange);
+        }
+        if f_min == 0.0 {
+            return Ok(done(self.t_min_k, 1, 0.0));
+        }
+        if f_max == 0.0 {
+            return Ok(done(self.t_max_k, 1, 0.0));
+        }
+        let mut lo = self.t_min_k;
+        let mut hi = self.t_max_k;
+        // Start from the line through the two ends in (1/T, ln R): exact in the Wien limit.
+        let u_lo = 1.0 / self.t_max_k;
+        let u_hi = 1.0 / self.t_min_k;
+        let u0 = u_lo
+            + (target - self.log_ratio_max) / (self.log_ratio_min - self.log_ratio_max)
+                * (u_hi - u_lo);
+        let mut t = 1.0 / u0;
+        if !(t > lo && t < hi) {
+            t = libm::sqrt(lo * hi);
+        }
+        for iteration in 1..=SOLVER_MAX_ITERATIONS {
+            let (log_ratio, slope) = self.log_ratio_and_slope(t)?;
+            let g = log_ratio - target;
+            if g == 0.0 {
+                return Ok(done(t, iteration, 0.0));
+            }
+            if sign * g < 0.0 {
+                lo = t;
+            } else {
+                hi = t;
+            }
+            // Newton in u = 1/T: d ln R / du = -T^2 d ln R / dT.
+            let u = 1.0 / t + g / (t * t * slope);
+            let newton = if u > 0.0 { 1.0 / u } else { f64::NAN };
+            // A converged Newton step is accepted even where rounding puts it a hair
+            // outside the bracket (one bracket end may still be the far range limit).
+            if libm::fabs(newton - t) <= 1e-13 * t {
+                return Ok(done(newton, iteration, g));
+            }
+            let next = if newton > lo && newton < hi {
+                newton
+            } else {
+                libm::sqrt(lo * hi)
+            };
+            if hi - lo <= 4.0 * f64::EPSILON * hi {
+                return Ok(done(next, iteration, g));
+            }
+            t = next;
+        }
+        Err(Error::NotConverged)
+    }
+
+    /// Sensitivities of the ratio temperature at `temperature_k` to the two signals
+    /// (signal units), the ratio and the emissivity ratio; see [`RatioSensitivities`].
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::RadianceNotPositive`] for a signal <= 0,
+    /// [`Error::EmissivityRatioNotPositive`], band errors,
+    /// [`Error::BandsIndistinguishable`] where d ln R/dT is zero.
+    pub fn sensitivities(
+        &self,
+        temperature_k: f64,
+        signal1: f64,
+        signal2: f64,
+        emissivity_ratio: f64,
+    ) -> Result<RatioSensitivities> {
+        if !(finite(signal1)? > 0.0 && finite(signal2)? > 0.0) {
+            return Err(Error::RadianceNotPositive);
+        }
+        let kappa = check_emissivity_ratio(emissivity_ratio)?;
+        let (_, slope) = self.log_ratio_and_slope(temperature_k)?;
+        if !(slope != 0.0 && slope.is_finite()) {
+            return Err(Error::BandsIndistinguishable);
+        }
+        let ratio = signal1 / signal2;
+        Ok(RatioSensitivities {
+            signal1: finite(1.0 / (signal1 * slope))?,
+            signal2: finite(-1.0 / (signal2 * slope))?,
+            ratio: finite(1.0 / (ratio * slope))?,
+            emissivity_ratio: -1.0 / (kappa * slope),
+            log_slope: temperature_k * slope,
+        })
+    }
+
+    /// Temperature from the two band signals S1, S2 (R = S1/S2) with the emissivity ratio
+    /// kappa = e1/e2, and its sensitivities.
+    ///
+    /// # Errors
+    /// As [`RatioPyrometer::temperature`] and [`RatioPyrometer::sensitivities`];
+    /// [`Error::RadianceNotPositive`] for a signal <= 0.
+    pub fn temperature_from_signals(
+        &self,
+        signal1: f64,
+        signal2: f64,
+        emissivity_ratio: f64,
+    ) -> Result<RatioReading> {
+        if !(finite(signal1)? > 0.0 && finite(signal2)? > 0.0) {
+            return Err(Error::RadianceNotPositive);
+        }
+        let solution = self.temperature(finite(signal1 / signal2)?, emissivity_ratio)?;
+        let sensitivities =
+            self.sensitivities(solution.temperature_k, signal1, signal2, emissivity_ratio)?;
+        Ok(RatioReading {
+            solution,
+            sensitivities,
+        })
+    }
+
+    /// The Wien closed form for these bands ([`WienRatio::from_bands`]).
+    ///
+    /// # Errors
+    /// As [`WienRatio::from_bands`].
+    pub fn wien(&self) -> Result<WienRatio> {
+        WienRatio::from_bands(&self.band1, &self.band2)
+    }
+}
+
+fn done(temperature_k: f64, iterations: u32, residual: f64) -> Solution {
+    Solution {
+        temperature_k,
+        iterations,
+        residual,
+    }
+}
+
+fn check_emissivity_ratio(emissivity_ratio: f64) -> Result<f64> {
+    if finite(emissivity_ratio)? > 0.0 {
+        Ok(emissivity_ratio)
+    } else {
+        Err(Error::EmissivityRatioNotPositive)
+    }
+}
+
+/// Two-colour ratio in the Wien approximation, in closed form.
+///
+/// Derivation. For a narrow band i of response integral D_i (um) at effective wavelength
+/// lambda_i, Wien's law e^-x in place of 1/(e^x - 1) gives
+/// S_i = e_i c1_i lambda_i^-n_i D_i exp(-c2/(lambda_i T)) (n = 5, c1 = c1L for an energy
+/// detector; n = 4, c1 = c1p = 2c for a photon detector). Dividing,
+///
+/// ```text
+/// R = S1/S2 = kappa W exp(-c2/(lambda_R T)),   W = (c1_1 lambda1^-n1 D1) / (c1_2 lambda2^-n2 D2),
+/// 1/lambda_R = 1/lambda1 - 1/lambda2,          kappa = e1/e2
+/// => 1/T = (lambda_R / c2) ln(kappa W / R) = 1/T_grey + (lambda_R / c2) ln kappa.
+/// ```
+///
+/// Error of the approximation (T the exact temperature, T_W the closed form's), to first
+/// order in each small term:
+///
+/// ```text
+/// 1/T_W - 1/T = -(lambda_R / c2) [ ln((1 - e^-x2)/(1 - e^-x1)) + D1^2 h1/24 - D2^2 h2/24 ]
+/// x_i = c2/(lambda_i T),   h_i = f_i''/f_i for f_i = lambda^-n_i exp(-c2/(lambda T)) at lambda_i:
+/// h = (n/lambda^2 - 2a/lambda^3) + (-n/lambda + a/lambda^2)^2,  a = c2/T
+/// ```
+///
+/// The first term is Wien's law itself (exact for line bands: Planck = Wien / (1 - e^-x));
+/// with lambda1 < lambda2 it makes T_W read low by about T^2 (lambda_R/c2)(e^-x2 - e^-x1).
+/// The second is the midpoint-rule error of treating a rectangular band of width D as a
+/// line at its centre. For 10 nm bands at 0.65 and 0.90 um at 2000 K both are about
+/// 0.1-0.2 K; `tests/ratio_wien.rs` checks the prediction. For wide bands neither term is
+/// small and the closed form is off by tens of kelvin (`tests/ratio_reference.rs`).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct WienRatio {
+    lambda1_um: f64,
+    lambda2_um: f64,
+    prefactor: f64,
+}
+
+impl WienRatio {
+    /// A Wien ratio model from effective wavelengths (um) and the prefactor W (the ratio
+    /// S1/S2 a grey body would give at infinite temperature in the Wien approximation).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::WavelengthNotPositive`],
+    /// [`Error::BandsIndistinguishable`] when lambda1 == lambda2,
+    /// [`Error::RatioNotPositive`] unless W > 0.
+    pub fn new(lambda1_um: f64, lambda2_um: f64, prefactor: f64) -> Result<Self> {
+        if !(finite(lambda1_um)? > 0.0 && finite(lambda2_um)? > 0.0) {
+            return Err(Error::WavelengthNotPositive);
+        }
+        if lambda1_um == lambda2_um {
+            return Err(Error::BandsIndistinguishable);
+        }
+        if !(finite(prefactor)? > 0.0) {
+            return Err(Error::RatioNotPositive);
+        }
+        Ok(WienRatio {
+            lambda1_um,
+            lambda2_um,
+            prefactor,
+        })
+    }
+
+    /// The Wien model of two bands: lambda_i the response-weighted mean wavelength
+    /// (integral of lambda r / integral of r, exact for piecewise-linear responses), D_i the
+    /// response integral (um), W as in the type's docs.
+    ///
+    /// # Errors
+    /// As [`WienRatio::new`].
+    pub fn from_bands(band1: &Band<'_>, band2: &Band<'_>) -> Result<Self> {
+        let (lambda1, factor1) = wien_factor(band1);
+        let (lambda2, factor2) = wien_factor(band2);
+        WienRatio::new(lambda1, lambda2, factor1 / factor2)
+    }
+
+    /// Effective wavelength of band 1, um.
+    #[must_use]
+    pub fn lambda1_um(&self) -> f64 {
+        self.lambda1_um
+    }
+
+    /// Effective wavelength of band 2, um.
+    #[must_use]
+    pub fn lambda2_um(&self) -> f64 {
+        self.lambda2_um
+    }
+
+    /// Prefactor W (ratio units).
+    #[must_use]
+    pub fn prefactor(&self) -> f64 {
+        self.prefactor
+    }
+
+    /// Equivalent wavelength of the ratio, lambda_R = lambda1 lambda2 / (lambda2 - lambda1),
+    /// um (negative when band 1 is the longer-wave one). A single-band thermometer at
+    /// lambda_R has the ratio's sensitivity to signal errors.
+    #[must_use]
+    pub fn equivalent_wavelength_um(&self) -> f64 {
+        self.lambda1_um * self.lambda2_um / (self.lambda2_um - self.lambda1_um)
+    }
+
+    /// R = kappa W exp(-c2 / (lambda_R T)).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`],
+    /// [`Error::EmissivityRatioNotPositive`], [`Error::RatioOutOfRange`] when R is not a
+    /// normal double.
+    pub fn ratio(&self, temperature_k: f64, emissivity_ratio: f64) -> Result<f64> {
+        let t = check_temperature_k(temperature_k)?;
+        let kappa = check_emissivity_ratio(emissivity_ratio)?;
+        let r = kappa * self.prefactor * libm::exp(-C2_UMK / (self.equivalent_wavelength_um() * t));
+        if r.is_finite() && r >= f64::MIN_POSITIVE {
+            Ok(r)
+        } else {
+            Err(Error::RatioOutOfRange)
+        }
+    }
+
+    /// 1/T = (lambda_R / c2) ln(kappa W / R), K.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::RatioNotPositive`],
+    /// [`Error::EmissivityRatioNotPositive`], [`Error::RatioOutOfRange`] when no positive
+    /// temperature gives R (R beyond kappa W, the infinite-temperature limit).
+    pub fn temperature(&self, ratio: f64, emissivity_ratio: f64) -> Result<f64> {
+        if !(finite(ratio)? > 0.0) {
+            return Err(Error::RatioNotPositive);
+        }
+        let kappa = check_emissivity_ratio(emissivity_ratio)?;
+        let log_term = libm::log(kappa) + libm::log(self.prefactor) - libm::log(ratio);
+        let t = C2_UMK / (self.equivalent_wavelength_um() * log_term);
+        if t > 0.0 && t.is_finite() {
+            Ok(t)
+        } else {
+            Err(Error::RatioOutOfRange)
+        }
+    }
+
+    /// Emissivity-slope correction of a grey ratio temperature:
+    /// 1/T = 1/T_grey + (lambda_R / c2) ln kappa, K. With kappa = e1/e2 > 1 (emissivity
+    /// falling with wavelength, as for most metals) the true temperature is below the grey
+    /// reading. Exact within the Wien model; dT/dkappa = -T^2 lambda_R / (c2 kappa).
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`],
+    /// [`Error::EmissivityRatioNotPositive`], [`Error::RatioOutOfRange`] when the corrected
+    /// 1/T is not positive.
+    pub fn correct_grey(&self, grey_temperature_k: f64, emissivity_ratio: f64) -> Result<f64> {
+        let t = check_temperature_k(grey_temperature_k)?;
+        let kappa = check_emissivity_ratio(emissivity_ratio)?;
+        let inverse = 1.0 / t + self.equivalent_wavelength_um() / C2_UMK * libm::log(kappa);
+        let corrected = 1.0 / inverse;
+        if inverse > 0.0 && corrected.is_finite() {
+            Ok(corrected)
+        } else {
+            Err(Error::RatioOutOfRange)
+        }
+    }
+}
+
+/// (effective wavelength lambda, c1 lambda^-n D) of a band for the Wien model.
+fn wien_factor(band: &Band<'_>) -> (f64, f64) {
+    let (lo, hi) = (band.lo_um(), band.hi_um());
+    let (width, moment) = match band.response() {
+        None => (hi - lo, 0.5 * (hi * hi - lo * lo)),
+        Some(table) => {
+            // Exact integrals of r and lambda r for r linear between breakpoints
+            // {lo, table nodes inside (lo, hi), hi}.
+            let mut width = 0.0;
+            let mut moment = 0.0;
+            let mut a = lo;
+            let mut ra = table.value_at(lo);
+            let nodes = table
+                .wavelengths_um()
+                .iter()
+                .copied()
+                .filter(|&w| w > lo && w < hi)
+                .chain(core::iter::once(hi));
+            for b in nodes {
+                let rb = table.value_at(b);
+                let d = b - a;
+                width += 0.5 * d * (ra + rb);
+                moment += d / 6.0 * (a * (2.0 * ra + rb) + b * (ra + 2.0 * rb));
+                a = b;
+                ra = rb;
+            }
+            (width, moment)
+        }
+    };
+    let lambda = moment / width;
+    let factor = match band.detector() {
+        Detector::Energy => C1L_UM / libm::pow(lambda, 5.0) * width,
+        Detector::Photon => C1P_UM / libm::pow(lambda, 4.0) * width,
+    };
+    (lambda, factor)
+}
