@@ -332,6 +332,57 @@ typedef enum {
      * The band reaches beyond the spectral transmittance table.
      */
     BT_STATUS_BAND_OUTSIDE_TRANSMITTANCE_TABLE = 607,
+    /**
+     * A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
+     */
+    BT_STATUS_FRAME_RANGE_INVALID = 700,
+    /**
+     * A table tolerance that is not a finite positive number of kelvin.
+     */
+    BT_STATUS_FRAME_TOLERANCE_INVALID = 701,
+    /**
+     * No table up to the finest segment level meets the requested tolerance (f32 output
+     * cannot resolve it, or the curve is too curved at the range's ends).
+     */
+    BT_STATUS_FRAME_TOLERANCE_UNREACHABLE = 702,
+    /**
+     * The caller's table storage has fewer rows than the table needs.
+     */
+    BT_STATUS_FRAME_STORAGE_TOO_SMALL = 703,
+    /**
+     * The curve's signal over the range is not inside the normal f32 range.
+     */
+    BT_STATUS_FRAME_SIGNAL_UNREPRESENTABLE = 704,
+    /**
+     * Frame buffers (input, emissivity map, output) differ in length.
+     */
+    BT_STATUS_FRAME_LENGTH_MISMATCH = 705,
+    /**
+     * Rails with `dead_counts >= saturation_counts`.
+     */
+    BT_STATUS_FRAME_RAILS_INVALID = 706,
+    /**
+     * A counts-to-signal map with a gain that is not finite and positive, or a non-finite
+     * offset.
+     */
+    BT_STATUS_FRAME_COUNTS_MAP_INVALID = 707,
+    /**
+     * Table geometry that does not describe the given rows (C ABI re-wrapping).
+     */
+    BT_STATUS_FRAME_TABLE_INVALID = 708,
+    /**
+     * Scene coefficients that do not fit an f32 (an extreme gain or background).
+     */
+    BT_STATUS_FRAME_COEFFICIENT_OVERFLOW = 709,
+    /**
+     * An emissivity map was given but the curve has no signal at the reflected
+     * temperature, so the per-pixel correction cannot be formed.
+     */
+    BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE = 710,
+    /**
+     * The curve given to update a converter is not the one its table was built from.
+     */
+    BT_STATUS_FRAME_CURVE_MISMATCH = 711,
 } bt_status;
 
 /**

@@ -178,6 +178,33 @@ pub enum Error {
     /// The band reaches beyond the spectral transmittance table.
     BandOutsideTransmittanceTable,
     // ---- frame --------------------------------------------------------------------------------
+    /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
+    FrameRangeInvalid,
+    /// A table tolerance that is not a finite positive number of kelvin.
+    FrameToleranceInvalid,
+    /// No table up to the finest segment level meets the requested tolerance (f32 output
+    /// cannot resolve it, or the curve is too curved at the range's ends).
+    FrameToleranceUnreachable,
+    /// The caller's table storage has fewer rows than the table needs.
+    FrameStorageTooSmall,
+    /// The curve's signal over the range is not inside the normal f32 range.
+    FrameSignalUnrepresentable,
+    /// Frame buffers (input, emissivity map, output) differ in length.
+    FrameLengthMismatch,
+    /// Rails with `dead_counts >= saturation_counts`.
+    FrameRailsInvalid,
+    /// A counts-to-signal map with a gain that is not finite and positive, or a non-finite
+    /// offset.
+    FrameCountsMapInvalid,
+    /// Table geometry that does not describe the given rows (C ABI re-wrapping).
+    FrameTableInvalid,
+    /// Scene coefficients that do not fit an f32 (an extreme gain or background).
+    FrameCoefficientOverflow,
+    /// An emissivity map was given but the curve has no signal at the reflected
+    /// temperature, so the per-pixel correction cannot be formed.
+    FrameEmissivityMapUnavailable,
+    /// The curve given to update a converter is not the one its table was built from.
+    FrameCurveMismatch,
 }
 
 impl Error {
@@ -297,6 +324,28 @@ impl Error {
             }
 
             // frame
+            Error::FrameRangeInvalid => "frame temperature range must satisfy 0 < lo_k < hi_k",
+            Error::FrameToleranceInvalid => {
+                "table tolerance must be a finite positive kelvin value"
+            }
+            Error::FrameToleranceUnreachable => {
+                "no table up to the finest level meets the requested tolerance"
+            }
+            Error::FrameStorageTooSmall => "table storage has fewer rows than the table needs",
+            Error::FrameSignalUnrepresentable => {
+                "the signal over the temperature range is outside the normal f32 range"
+            }
+            Error::FrameLengthMismatch => "frame buffers differ in length",
+            Error::FrameRailsInvalid => "rails must satisfy dead_counts < saturation_counts",
+            Error::FrameCountsMapInvalid => {
+                "counts map gain must be finite and positive, offset finite"
+            }
+            Error::FrameTableInvalid => "table geometry does not describe the given rows",
+            Error::FrameCoefficientOverflow => "scene coefficients do not fit an f32",
+            Error::FrameEmissivityMapUnavailable => {
+                "no signal at the reflected temperature: emissivity maps unavailable"
+            }
+            Error::FrameCurveMismatch => "the curve is not the one the table was built from",
         }
     }
 }

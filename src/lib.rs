@@ -54,6 +54,7 @@ pub mod calibration;
 pub mod constants;
 mod error;
 pub mod ffi;
+pub mod frame;
 pub mod planck;
 pub mod ratio;
 pub mod scene;

@@ -80,6 +80,18 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::OutsideContinuumModel, 605),
     (bt_status::TransmittanceTableAboveOne, 606),
     (bt_status::BandOutsideTransmittanceTable, 607),
+    (bt_status::FrameRangeInvalid, 700),
+    (bt_status::FrameToleranceInvalid, 701),
+    (bt_status::FrameToleranceUnreachable, 702),
+    (bt_status::FrameStorageTooSmall, 703),
+    (bt_status::FrameSignalUnrepresentable, 704),
+    (bt_status::FrameLengthMismatch, 705),
+    (bt_status::FrameRailsInvalid, 706),
+    (bt_status::FrameCountsMapInvalid, 707),
+    (bt_status::FrameTableInvalid, 708),
+    (bt_status::FrameCoefficientOverflow, 709),
+    (bt_status::FrameEmissivityMapUnavailable, 710),
+    (bt_status::FrameCurveMismatch, 711),
 ];
 
 fn message(raw: c_int) -> &'static str {

@@ -179,6 +179,35 @@ pub enum bt_status {
     TransmittanceTableAboveOne = 606,
     /// The band reaches beyond the spectral transmittance table.
     BandOutsideTransmittanceTable = 607,
+
+    // 700: frame
+    /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
+    FrameRangeInvalid = 700,
+    /// A table tolerance that is not a finite positive number of kelvin.
+    FrameToleranceInvalid = 701,
+    /// No table up to the finest segment level meets the requested tolerance (f32 output
+    /// cannot resolve it, or the curve is too curved at the range's ends).
+    FrameToleranceUnreachable = 702,
+    /// The caller's table storage has fewer rows than the table needs.
+    FrameStorageTooSmall = 703,
+    /// The curve's signal over the range is not inside the normal f32 range.
+    FrameSignalUnrepresentable = 704,
+    /// Frame buffers (input, emissivity map, output) differ in length.
+    FrameLengthMismatch = 705,
+    /// Rails with `dead_counts >= saturation_counts`.
+    FrameRailsInvalid = 706,
+    /// A counts-to-signal map with a gain that is not finite and positive, or a non-finite
+    /// offset.
+    FrameCountsMapInvalid = 707,
+    /// Table geometry that does not describe the given rows (C ABI re-wrapping).
+    FrameTableInvalid = 708,
+    /// Scene coefficients that do not fit an f32 (an extreme gain or background).
+    FrameCoefficientOverflow = 709,
+    /// An emissivity map was given but the curve has no signal at the reflected
+    /// temperature, so the per-pixel correction cannot be formed.
+    FrameEmissivityMapUnavailable = 710,
+    /// The curve given to update a converter is not the one its table was built from.
+    FrameCurveMismatch = 711,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -296,6 +325,18 @@ status_table!(
     OutsideContinuumModel,
     TransmittanceTableAboveOne,
     BandOutsideTransmittanceTable,
+    FrameRangeInvalid,
+    FrameToleranceInvalid,
+    FrameToleranceUnreachable,
+    FrameStorageTooSmall,
+    FrameSignalUnrepresentable,
+    FrameLengthMismatch,
+    FrameRailsInvalid,
+    FrameCountsMapInvalid,
+    FrameTableInvalid,
+    FrameCoefficientOverflow,
+    FrameEmissivityMapUnavailable,
+    FrameCurveMismatch,
 );
 
 impl bt_status {
