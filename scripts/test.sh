@@ -11,5 +11,9 @@ python3 -m pip install --quiet --disable-pip-version-check mpmath scipy numpy
 cargo test --all-targets
 cargo test --doc
 
+# The C ABI from Python: ctypes against scipy quad and mpmath (seeded cases).
+cargo build --lib
+python3 tests/python/ctypes_check.py target/debug/libbandtemp.so
+
 # Regenerate a sample of the stored reference vectors with mpmath and compare.
 python3 tools/refgen/planck_refs.py --check
