@@ -472,8 +472,10 @@ impl<'a> Band<'a> {
     /// Temperature whose band radiance equals `radiance`, K.
     ///
     /// Accuracy: |T - T(L(T))| below 1e-12 T wherever L is a normal double (worst 1e-15
-    /// over 0.3-30 um and 150-4000 K in `tests/reference_band.rs`); typically 3 band
-    /// evaluations from [`Band::guess_k`].
+    /// over 0.3-30 um and 150-4000 K in `tests/reference_band.rs`). Halley steps on
+    /// ln L against 1/T from [`Band::guess_k`] (see [`solve_increasing`] for the safeguards):
+    /// 1 or 2 band evaluations typical, at most 5 over that domain (mean 1.9 over its 726
+    /// reference cases).
     ///
     /// # Errors
     /// [`Error::NonFinite`], [`Error::RadianceNotPositive`], [`Error::RadianceSubnormal`],

@@ -481,8 +481,8 @@ fn gauss_sum<W: Fn(f64) -> f64>(
     // where this matters), e^t - 1 at the nodes t = mid + d comes from one expm1:
     // e^t - 1 = E + (E + 1) expm1(d), E = expm1(mid), with expm1(+-d) from the Taylor
     // series of sinh d and cosh d - 1 (|d| <= 0.015: truncation below 1e-19 relative).
-    // Both terms have the same sign for d > 0; for d < 0 the second is below 0.6 |d|
-    // of the first times 1.6 |d| <= 0.024 (E >= e - 1), so no cancellation.
+    // Both terms have the same sign for d > 0; for d < 0 the second is at most
+    // 1.6 |d| <= 0.024 times the first (E >= e - 1), so no cancellation.
     let shared = if half <= 0.015 && mid >= 1.0 {
         Some(libm::expm1(mid))
     } else {
