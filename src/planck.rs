@@ -423,7 +423,7 @@ const GAUSS_LEGENDRE_8: [(f64, f64); 4] = [
 /// 1e-17 relative for every a >= 0 (measured against mpmath for m = 2, 3 over
 /// a = 0.001 .. 700; the nearest singularities are the poles at +-2 pi i):
 /// 4 nodes for width <= 0.03 (error <= 8e-18), 6 for <= 0.25 (5e-20), 8 for <= 1 (5e-20).
-fn gauss_panel(m: u32, a: f64, width: f64) -> (f64, f64) {
+fn gauss_panel(m: u32, a: f64, width: f64) -> (f64, f64, f64) {
     let unit = |_: f64| 1.0;
     if width <= 0.03 {
         gauss_sum(m, a, width, &GAUSS_LEGENDRE_4, unit)
@@ -447,7 +447,7 @@ pub(crate) fn weighted_gauss_panel<W: Fn(f64) -> f64>(
     a: f64,
     width: f64,
     weight: W,
-) -> (f64, f64) {
+) -> (f64, f64, f64) {
     let s = width.max(width / a);
     if s <= 0.03 {
         gauss_sum(m, a, width, &GAUSS_LEGENDRE_4, weight)
@@ -460,6 +460,10 @@ pub(crate) fn weighted_gauss_panel<W: Fn(f64) -> f64>(
     }
 }
 
+/// Gauss-Legendre sums on [a, a + width] of f = t^m/(e^t - 1) times `weight`, of f k1 and
+/// of f k2, where k1 = t e^t/(e^t - 1) and k2 = k1 (t (e^t + 1)/(e^t - 1) - 1) are the
+/// first and second derivatives of ln-temperature of 1/(e^t - 1) over it
+/// (d/d ln T of 1/(e^x - 1) at fixed wavelength, x = c2/(lambda T)).
 #[inline]
 fn gauss_sum<W: Fn(f64) -> f64>(
     m: u32,
@@ -467,20 +471,50 @@ fn gauss_sum<W: Fn(f64) -> f64>(
     width: f64,
     rule: &[(f64, f64)],
     weight: W,
-) -> (f64, f64) {
+) -> (f64, f64, f64) {
     let half = 0.5 * width;
     let mid = a + half;
     let mut sum = 0.0;
     let mut sum_derivative = 0.0;
+    let mut sum_second = 0.0;
+    // Near a panel's middle mid >= 1 (always so for the narrow panels of width <= 0.03
+    // where this matters), e^t - 1 at the nodes t = mid + d comes from one expm1:
+    // e^t - 1 = E + (E + 1) expm1(d), E = expm1(mid), with expm1(+-d) from the Taylor
+    // series of sinh d and cosh d - 1 (|d| <= 0.015: truncation below 1e-19 relative).
+    // Both terms have the same sign for d > 0; for d < 0 the second is at most
+    // 1.6 |d| <= 0.024 times the first (E >= e - 1), so no cancellation.
+    let shared = if half <= 0.015 && mid >= 1.0 {
+        Some(libm::expm1(mid))
+    } else {
+        None
+    };
     for &(node, w) in rule {
-        for t in [mid - half * node, mid + half * node] {
-            let e = libm::expm1(t);
-            let f = w * weight(t) * power(m, t) / e;
+        let d = half * node;
+        let expm1_pair = shared.map(|e_mid| {
+            let d2 = d * d;
+            let sinh = d * (1.0 + d2 * (1.0 / 6.0 + d2 * (1.0 / 120.0 + d2 * (1.0 / 5040.0))));
+            let cosh_m1 =
+                d2 * (0.5 + d2 * (1.0 / 24.0 + d2 * (1.0 / 720.0 + d2 * (1.0 / 40320.0))));
+            let scale = e_mid + 1.0;
+            (
+                e_mid + scale * (cosh_m1 - sinh),
+                e_mid + scale * (cosh_m1 + sinh),
+            )
+        });
+        for (t, e_shared) in [
+            (mid - d, expm1_pair.map(|p| p.0)),
+            (mid + d, expm1_pair.map(|p| p.1)),
+        ] {
+            let e = e_shared.unwrap_or_else(|| libm::expm1(t));
+            let inv_e = 1.0 / e;
+            let f = w * weight(t) * power(m, t) * inv_e;
+            let d = f * t * (e + 1.0) * inv_e;
             sum += f;
-            sum_derivative += f * t * (e + 1.0) / e;
+            sum_derivative += d;
+            sum_second += d * (t * (e + 2.0) * inv_e - 1.0);
         }
     }
-    (half * sum, half * sum_derivative)
+    (half * sum, half * sum_derivative, half * sum_second)
 }
 
 /// An upper bound of the tail integral G_m(x) for x > m + 1, from one exponential:
@@ -492,19 +526,29 @@ pub(crate) fn tail_bound(m: u32, x: f64) -> f64 {
     power(m, x) * q / (1.0 - q) * x / (x - f64::from(m))
 }
 
+/// The edge terms of a band end at x with q = e^-x: h = x f(x) = x^(m+1) q/(1 - q)
+/// (f(t) = t^m/(e^t - 1)) and x h'(x) = h (m + 1 - x/(1 - q)), given `one_minus_q` = 1 - q
+/// computed without cancellation by the caller.
+#[inline]
+fn edges(m: u32, x: f64, q: f64, one_minus_q: f64) -> (f64, f64) {
+    let h = x * power(m, x) * (q / one_minus_q);
+    (h, h * (f64::from(m + 1) - x / one_minus_q))
+}
+
 /// The tail integral G_m(x) = integral of t^m/(e^t - 1) over [x, inf) together with the
-/// edge term x f(x) = x^(m+1)/(e^x - 1) that the temperature derivative needs. For
-/// x >= 2 the edge reuses the series' e^-x: x^(m+1) q/(1 - q), q = e^-x <= 0.14, so no
-/// cancellation.
-fn tail_and_edge(m: u32, x: f64) -> (f64, f64) {
+/// edge terms h(x) = x f(x) = x^(m+1)/(e^x - 1) and x h'(x) that the first and second
+/// temperature derivatives need. For x >= 2 the edges reuse the series' e^-x:
+/// x^(m+1) q/(1 - q), q = e^-x <= 0.14, so no cancellation.
+fn tail_and_edge(m: u32, x: f64) -> (f64, (f64, f64)) {
     if x < SPLIT_X {
+        let h = x * moment_integrand(m, x);
         (
             moment_total(m) - head_integral(m, x),
-            x * moment_integrand(m, x),
+            (h, h * (f64::from(m + 1) - x / -libm::expm1(-x))),
         )
     } else {
         let q = libm::exp(-x);
-        (tail_series(m, x, q), x * power(m, x) * (q / (1.0 - q)))
+        (tail_series(m, x, q), edges(m, x, q, 1.0 - q))
     }
 }
 
@@ -512,14 +556,16 @@ fn tail_and_edge(m: u32, x: f64) -> (f64, f64) {
 /// (two independent dependency chains, so they overlap in the processor), each until its
 /// own terms fall below 1e-18 of its sum; extra terms on the faster one only add
 /// positive amounts below that.
-fn tails_and_edges(m: u32, a: f64, b: f64) -> ((f64, f64), (f64, f64)) {
+#[allow(clippy::type_complexity)]
+fn tails_and_edges(m: u32, a: f64, b: f64) -> ((f64, (f64, f64)), (f64, (f64, f64))) {
     let qa = libm::exp(-a);
     let qb = libm::exp(-b);
-    let edge = |x: f64, q: f64| x * power(m, x) * (q / (1.0 - q));
+    let edge_a = edges(m, a, qa, 1.0 - qa);
+    let edge_b = edges(m, b, qb, 1.0 - qb);
     if qa == 0.0 || qb == 0.0 {
         return (
-            (tail_series(m, a, qa), edge(a, qa)),
-            (tail_series(m, b, qb), edge(b, qb)),
+            (tail_series(m, a, qa), edge_a),
+            (tail_series(m, b, qb), edge_b),
         );
     }
     let poly = |x: f64, inv_n: f64| match m {
@@ -540,32 +586,45 @@ fn tails_and_edges(m: u32, a: f64, b: f64) -> ((f64, f64), (f64, f64)) {
             break;
         }
     }
-    ((sum_a, edge(a, qa)), (sum_b, edge(b, qb)))
+    ((sum_a, edge_a), (sum_b, edge_b))
 }
 
-/// Integral of t^m / (e^t - 1) over [a, b] (0 < a < b), m = 1, 2, 3, to full precision,
+/// Integral I of t^m / (e^t - 1) over [a, b] (0 < a < b), m = 1, 2, 3, to full precision,
 /// where `width` = b - a is passed separately so that a caller who knows it more precisely
 /// than the rounded difference (a narrow band) keeps that precision;
-/// together with the integral of d/dx-weighted integrand t^(m+1) e^t / (e^t - 1)^2 that
-/// the temperature derivative of a band radiance needs.
+/// together with the integrals D and D2 of the integrand times the kernels k1 and k2 of
+/// [`gauss_sum`], which give the first and second derivatives with respect to ln T of a
+/// band radiance K T^(m+1) I (a = c2/(hi T), b = c2/(lo T)): d/dlnT = K T^(m+1) D,
+/// d2/dlnT2 = K T^(m+1) D2.
 ///
 /// A band no wider than 1 in x is one Gauss-Legendre panel ([`gauss_panel`], truncation
 /// error below 1e-17 relative). A wider band uses the difference that cannot cancel:
-/// tails G(a) - G(b) when G(b) <= G(a)/2, heads H(b) - H(a) when H(a) <= H(b)/2; the
-/// second integral is then (m+1) I + a f(a) - b f(b) (integration by parts,
-/// f(t) = t^m/(e^t-1)). Otherwise (a wide band where neither end dominates, which needs
-/// b - a > 1 with both ends near the peak) 8-point Gauss-Legendre on panels of width <= 1.
+/// tails G(a) - G(b) when G(b) <= G(a)/2, heads H(b) - H(a) when H(a) <= H(b)/2; D and D2
+/// then follow from differentiating I(ln T) with moving ends: D = (m+1) I + h(a) - h(b),
+/// D2 = (m+1)^2 I + 2 (m+1) (h(a) - h(b)) + b h'(b) - a h'(a), h(t) = t f(t),
+/// f(t) = t^m/(e^t-1) (D2 may lose a few digits to cancellation; only the solver's
+/// Halley correction uses it). Otherwise (a wide band where neither end dominates, which
+/// needs b - a > 1 with both ends near the peak) 8-point Gauss-Legendre on panels of
+/// width <= 1.
 #[must_use]
-pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64) {
+pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64, f64) {
     if width <= 1.0 {
         return gauss_panel(m, a, width);
     }
-    let ((tail_a, edge_a), (tail_b, edge_b)) = if a >= SPLIT_X {
+    let ((tail_a, (h_a, xh_a)), (tail_b, (h_b, xh_b))) = if a >= SPLIT_X {
         tails_and_edges(m, a, b)
     } else {
         (tail_and_edge(m, a), tail_and_edge(m, b))
     };
-    let by_parts = |integral: f64| (integral, f64::from(m + 1) * integral + (edge_a - edge_b));
+    let m1 = f64::from(m + 1);
+    let by_parts = |integral: f64| {
+        let edge = h_a - h_b;
+        (
+            integral,
+            m1 * integral + edge,
+            m1 * (m1 * integral + 2.0 * edge) + (xh_b - xh_a),
+        )
+    };
     if tail_b <= 0.5 * tail_a {
         return by_parts(tail_a - tail_b);
     }
@@ -585,9 +644,10 @@ pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64) 
     let panel_width = width / panels;
     let mut sum = 0.0;
     let mut sum_derivative = 0.0;
+    let mut sum_second = 0.0;
     let mut k = 0.0;
     while k < panels {
-        let (s, d) = gauss_sum(
+        let (s, d, d2) = gauss_sum(
             m,
             a + k * panel_width,
             panel_width,
@@ -596,9 +656,10 @@ pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64) 
         );
         sum += s;
         sum_derivative += d;
+        sum_second += d2;
         k += 1.0;
     }
-    (sum, sum_derivative)
+    (sum, sum_derivative, sum_second)
 }
 
 #[cfg(test)]
