@@ -62,6 +62,20 @@ pub mod uncertainty;
 
 pub use error::{Error, Result};
 
+/// Without `std`, the staticlib and cdylib of this crate need a panic handler of their own.
+/// The library never panics by design (see DEVELOPERS.md); this handler only makes the
+/// no_std C libraries link, and halts. A Rust firmware that links the rlib with its own
+/// handler enables the `external-panic-handler` feature to leave this one out.
+#[cfg(all(
+    not(feature = "std"),
+    not(test),
+    not(feature = "external-panic-handler")
+))]
+#[panic_handler]
+fn halt_on_panic(_: &core::panic::PanicInfo<'_>) -> ! {
+    loop {}
+}
+
 /// The README's Rust examples, compiled and run as doc tests.
 #[cfg(doctest)]
 #[doc = include_str!("../README.md")]

@@ -531,6 +531,11 @@ pub(crate) fn tail_bound(m: u32, x: f64) -> f64 {
 /// computed without cancellation by the caller.
 #[inline]
 fn edges(m: u32, x: f64, q: f64, one_minus_q: f64) -> (f64, f64) {
+    if q == 0.0 {
+        // x > 745: h is zero in double precision, and x^(m+1) alone may overflow (a band
+        // edge at a tiny lambda*T), which would make 0 * inf = NaN.
+        return (0.0, 0.0);
+    }
     let h = x * power(m, x) * (q / one_minus_q);
     (h, h * (f64::from(m + 1) - x / one_minus_q))
 }

@@ -447,3 +447,22 @@ fn inversion_rejects_bad_radiances() {
         Error::RadianceOutOfRange,
     );
 }
+
+/// A band reaching down to a tiny lower edge (lambda*T far below 1 um K) is the band from
+/// that edge up: its radiance is the finite value of the rest of the band, not an error.
+/// Reference: the rectangular 0-8 um band at 300 K equals sigma T^4/pi * F(8 um * 300 K);
+/// both F and sigma are checked against CODATA/mpmath in reference_planck.rs.
+#[test]
+fn band_with_a_tiny_lower_edge_has_the_value_of_the_rest() {
+    use bandtemp::planck::{blackbody_fraction, total_radiance};
+    for lo_um in [1e-99, 1e-300] {
+        let band = Band::rectangular(lo_um, 8.0, Detector::Energy).unwrap();
+        let (radiance, derivative) = band.radiance_and_derivative(300.0).unwrap();
+        let expected = total_radiance(300.0).unwrap() * blackbody_fraction(2400.0).unwrap();
+        assert!(
+            (radiance / expected - 1.0).abs() < 1e-13,
+            "{lo_um}: {radiance} vs {expected}"
+        );
+        assert!(derivative.is_finite() && derivative > 0.0);
+    }
+}
