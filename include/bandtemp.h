@@ -536,6 +536,134 @@ typedef struct {
     uint32_t iterations;
 } bt_points_fit;
 
+/**
+ * The detector's rails: counts at or below `dead_counts` are dead pixels, counts at or
+ * above `saturation_counts` saturated. A 16-bit converter: 0 and 65535; 14-bit: 0 and
+ * 16383. Valid when `dead_counts < saturation_counts`.
+ */
+typedef struct {
+    /**
+     * Counts at or below which a pixel is dead.
+     */
+    uint16_t dead_counts;
+    /**
+     * Counts at or above which a pixel is saturated.
+     */
+    uint16_t saturation_counts;
+} bt_rails;
+
+/**
+ * One table row: a cubic in the segment position, four floats (see the Rust
+ * `frame::TableRow`). Opaque to the caller: provide storage, hand it back unchanged.
+ */
+typedef struct {
+    /**
+     * The row's coefficients (internal).
+     */
+    float coefficients[4];
+} bt_frame_row;
+
+/**
+ * A frame converter: the table's geometry and measured errors, the scene's per-pixel
+ * coefficients, the counts map and the rails, as opaque plain bytes (256 bytes, 8-byte
+ * aligned). It holds no pointer: keep it anywhere (static storage included), copy it with
+ * assignment or memcpy, and hand it back together with the table rows it was built with.
+ * Do not modify its bytes; a converter that does not describe the rows it is given is
+ * refused with `BT_STATUS_FRAME_TABLE_INVALID` or `BT_STATUS_FRAME_STORAGE_TOO_SMALL`.
+ */
+typedef struct {
+    /**
+     * Internal state.
+     */
+    uint64_t opaque[32];
+} bt_frame_converter;
+
+/**
+ * What a converter's table is and what its construction measured.
+ */
+typedef struct {
+    /**
+     * Rows per octave of signal = 2^level.
+     */
+    uint32_t level;
+    /**
+     * Rows the table uses (16 bytes each).
+     */
+    size_t rows;
+    /**
+     * Declared range, lower end, K.
+     */
+    double lo_k;
+    /**
+     * Declared range, upper end, K.
+     */
+    double hi_k;
+    /**
+     * The curve's signal at `lo_k` (as float), curve units: smaller is below range.
+     */
+    double signal_lo;
+    /**
+     * The curve's signal at `hi_k` (as float), curve units: larger is above range.
+     */
+    double signal_hi;
+    /**
+     * Requested tolerance, K.
+     */
+    double tolerance_k;
+    /**
+     * Measured max |T_table(L) - T_exact(L)| over the check grid, K.
+     */
+    double max_table_error_k;
+    /**
+     * `max_table_error_k` plus the rounding allowance of a uniform-scene pixel from
+     * counts; at most `tolerance_k`, K.
+     */
+    double max_pixel_error_k;
+} bt_frame_geometry;
+
+/**
+ * Counts of pixel outcomes for one frame; `pixels` = `converted` + the other fields.
+ * Every pixel that is not converted comes out NaN.
+ */
+typedef struct {
+    /**
+     * Pixels in the frame.
+     */
+    uint64_t pixels;
+    /**
+     * Pixels converted to a temperature.
+     */
+    uint64_t converted;
+    /**
+     * Counts at or below the dead rail.
+     */
+    uint64_t dead;
+    /**
+     * Counts at or above the saturation rail.
+     */
+    uint64_t saturated;
+    /**
+     * Pixel emissivity outside (0, 1] or NaN.
+     */
+    uint64_t emissivity_invalid;
+    /**
+     * Signal input NaN or infinite.
+     */
+    uint64_t non_finite;
+    /**
+     * The object's own signal at or below zero (no more than the background).
+     */
+    uint64_t below_background;
+    /**
+     * Colder than the table's range.
+     */
+    uint64_t below_range;
+    /**
+     * Hotter than the table's range.
+     */
+    uint64_t above_range;
+} bt_frame_summary;
+
 #ifdef __cplusplus
 extern "C" {
 #endif // __cplusplus
@@ -853,6 +981,231 @@ bt_status bt_sakuma_hattori_fit_points_report(const double *t_k,
                                               const double *signal_u,
                                               size_t n,
                                               bt_points_fit *out);
+
+/**
+ * Rows a table of the band's radiance over [lo_k, hi_k] needs so that every pixel of a
+ * uniform scene is within `tolerance_k` (K) of exact inversion: the coarsest of
+ * 2^0..2^12 rows per octave of signal that meets it. Storage is 16 bytes per row.
+ * Example (measured): 8-14 um energy band, 250-1500 K, 1 mK: 62 rows, 992 bytes.
+ *
+ * Errors: those of `bt_band_radiance` for the band, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_FRAME_RANGE_INVALID` unless
+ * lo_k < hi_k, `BT_STATUS_FRAME_TOLERANCE_INVALID`,
+ * `BT_STATUS_FRAME_SIGNAL_UNREPRESENTABLE` (signal outside the float range),
+ * `BT_STATUS_FRAME_TOLERANCE_UNREACHABLE` (float output resolves about 6e-8 T).
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `rows` null or valid for writing a size_t; written
+ * only on success.
+ */
+bt_status bt_frame_table_rows_band(const bt_band *band,
+                                   double lo_k,
+                                   double hi_k,
+                                   double tolerance_k,
+                                   size_t *rows);
+
+/**
+ * As `bt_frame_table_rows_band`, for a Sakuma-Hattori calibration curve (signal in
+ * counts above dark).
+ *
+ * Errors: those of `bt_frame_table_rows_band` with the curve's
+ * (`BT_STATUS_CALIBRATION_PARAMETER_INVALID`, `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN`)
+ * instead of the band's.
+ *
+ * # Safety
+ * `p` null or valid for reading a `bt_sakuma_hattori`; `rows` as in
+ * `bt_frame_table_rows_band`.
+ */
+bt_status bt_frame_table_rows_sakuma_hattori(const bt_sakuma_hattori *p,
+                                             double lo_k,
+                                             double hi_k,
+                                             double tolerance_k,
+                                             size_t *rows);
+
+/**
+ * Builds a table and converter for a band curve (radiometric calibration): counts n map
+ * to band radiance S = `counts_gain` n + `counts_offset`, then the scene's measurement
+ * equation gives the object's signal and the table its temperature over [lo_k, hi_k].
+ *
+ * `table` receives the rows (`table_rows` >= what `bt_frame_table_rows_band` says;
+ * only that many are written). The stored table is measured against exact inversion and
+ * refused unless every uniform-scene pixel is within `tolerance_k`.
+ *
+ * Errors: those of `bt_frame_table_rows_band` and of the scene (`bt_sensor_radiance`),
+ * `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_FRAME_COUNTS_MAP_INVALID` (gain not finite and positive, offset not finite),
+ * `BT_STATUS_FRAME_RAILS_INVALID`, `BT_STATUS_FRAME_STORAGE_TOO_SMALL`,
+ * `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW`.
+ *
+ * `out` is written only on success; the rows of `table` are scratch until then (their
+ * contents are unspecified after an error).
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` and `rails` null or valid for reading their
+ * types; `table` null or valid for reading and writing `table_rows` rows, not
+ * overlapping the band's tables; `out` null or valid for writing a `bt_frame_converter`.
+ */
+bt_status bt_frame_converter_new_band(const bt_band *band,
+                                      const bt_scene *scene,
+                                      double counts_gain,
+                                      double counts_offset,
+                                      const bt_rails *rails,
+                                      double lo_k,
+                                      double hi_k,
+                                      double tolerance_k,
+                                      bt_frame_row *table,
+                                      size_t table_rows,
+                                      bt_frame_converter *out);
+
+/**
+ * As `bt_frame_converter_new_band`, for a Sakuma-Hattori calibration curve in counts:
+ * the signal is S = n - `dark_counts`.
+ *
+ * Errors: those of `bt_frame_converter_new_band`, with the curve's instead of the
+ * band's; `BT_STATUS_FRAME_COUNTS_MAP_INVALID` for a non-finite `dark_counts`.
+ *
+ * # Safety
+ * As `bt_frame_converter_new_band`, with `p` null or valid for reading a
+ * `bt_sakuma_hattori`.
+ */
+bt_status bt_frame_converter_new_sakuma_hattori(const bt_sakuma_hattori *p,
+                                                const bt_scene *scene,
+                                                double dark_counts,
+                                                const bt_rails *rails,
+                                                double lo_k,
+                                                double hi_k,
+                                                double tolerance_k,
+                                                bt_frame_row *table,
+                                                size_t table_rows,
+                                                bt_frame_converter *out);
+
+/**
+ * Replaces the scene of a converter built by `bt_frame_converter_new_band`, keeping its
+ * table (no rebuild): a new emissivity, reflected temperature, air path or window. The
+ * band must be the one the table was built from.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_FRAME_TABLE_INVALID` or `BT_STATUS_FRAME_STORAGE_TOO_SMALL` for a converter
+ * that does not describe the rows, `BT_STATUS_FRAME_RAILS_INVALID`,
+ * `BT_STATUS_FRAME_CURVE_MISMATCH` for another band, the band's and the scene's errors,
+ * `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW`. The converter is changed only on success.
+ *
+ * # Safety
+ * `converter` null or valid for reading and writing a `bt_frame_converter`; `table` null
+ * or valid for reading `table_rows` rows; `band` and `scene` as in `bt_sensor_radiance`.
+ */
+bt_status bt_frame_converter_set_scene_band(bt_frame_converter *converter,
+                                            const bt_frame_row *table,
+                                            size_t table_rows,
+                                            const bt_band *band,
+                                            const bt_scene *scene);
+
+/**
+ * As `bt_frame_converter_set_scene_band`, for a converter built by
+ * `bt_frame_converter_new_sakuma_hattori` (the curve must be the same).
+ *
+ * # Safety
+ * As `bt_frame_converter_set_scene_band`, with `p` null or valid for reading a
+ * `bt_sakuma_hattori`.
+ */
+bt_status bt_frame_converter_set_scene_sakuma_hattori(bt_frame_converter *converter,
+                                                      const bt_frame_row *table,
+                                                      size_t table_rows,
+                                                      const bt_sakuma_hattori *p,
+                                                      const bt_scene *scene);
+
+/**
+ * Replaces the converter's rails (no rebuild).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_FRAME_RAILS_INVALID`, and those of a converter that does not describe the
+ * rows (as `bt_frame_converter_set_scene_band`). Changed only on success.
+ *
+ * # Safety
+ * `converter` and `table` as in `bt_frame_converter_set_scene_band`; `rails` null or
+ * valid for reading a `bt_rails`.
+ */
+bt_status bt_frame_converter_set_rails(bt_frame_converter *converter,
+                                       const bt_frame_row *table,
+                                       size_t table_rows,
+                                       const bt_rails *rails);
+
+/**
+ * The converter's table geometry and the errors its construction measured.
+ *
+ * Errors: those of a converter that does not describe the rows (as
+ * `bt_frame_converter_set_scene_band`).
+ *
+ * # Safety
+ * `converter` null or valid for reading a `bt_frame_converter`; `table` as in
+ * `bt_frame_converter_set_scene_band`; `out` null or valid for writing a
+ * `bt_frame_geometry`; written only on success.
+ */
+bt_status bt_frame_converter_geometry(const bt_frame_converter *converter,
+                                      const bt_frame_row *table,
+                                      size_t table_rows,
+                                      bt_frame_geometry *out);
+
+/**
+ * Converts a frame of counts to object temperature in K: `kelvin[i]` from `counts[i]`
+ * and, unless `emissivity` is NULL, `emissivity[i]` (replacing the scene's emissivity for
+ * that pixel; NULL: the scene's, and `emissivity_len` is ignored). Failed pixels come out
+ * NaN and are counted in `summary`; they never stop the frame.
+ *
+ * Accuracy against exact inversion of the measurement equation (`bt_object_temperature`
+ * at the pixel's signal): uniform scene, within `max_pixel_error_k` of
+ * `bt_frame_converter_geometry` (<= the tolerance); with an emissivity map, add about
+ * (|L - Lr| + Lr) 1.2e-7 / L'(T) for the float arithmetic.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER` (misaligned, impossible
+ * length, or `kelvin` overlapping another buffer), those of a converter that does not
+ * describe the rows (as `bt_frame_converter_set_scene_band`),
+ * `BT_STATUS_FRAME_LENGTH_MISMATCH` unless the lengths are equal,
+ * `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE` if a map is given but the curve has no
+ * signal at the reflected temperature. On error neither `kelvin` nor `summary` is
+ * written.
+ *
+ * # Safety
+ * `converter` null or valid for reading a `bt_frame_converter`; `table` null or valid
+ * for reading `table_rows` rows; `counts` and `emissivity` null or valid for reading
+ * their lengths; `kelvin` null or valid for writing `kelvin_len` floats; `summary` null or
+ * valid for writing a `bt_frame_summary`.
+ */
+bt_status bt_frame_convert_counts(const bt_frame_converter *converter,
+                                  const bt_frame_row *table,
+                                  size_t table_rows,
+                                  const uint16_t *counts,
+                                  size_t counts_len,
+                                  const float *emissivity,
+                                  size_t emissivity_len,
+                                  float *kelvin,
+                                  size_t kelvin_len,
+                                  bt_frame_summary *summary);
+
+/**
+ * Converts a frame of sensor signal S (the curve's units: band radiance for a band
+ * converter, counts above dark for a Sakuma-Hattori converter) to object temperature in
+ * K, as `bt_frame_convert_counts`. NaN or infinite inputs are counted as `non_finite`.
+ *
+ * Accuracy: the table's plus the float rounding of S - B (about 1 ulp of S + B,
+ * converted to kelvin by 1/(G L'(T))).
+ *
+ * Errors: as `bt_frame_convert_counts`.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts`, with `signal` null or valid for reading `signal_len`
+ * floats.
+ */
+bt_status bt_frame_convert_signal(const bt_frame_converter *converter,
+                                  const bt_frame_row *table,
+                                  size_t table_rows,
+                                  const float *signal,
+                                  size_t signal_len,
+                                  const float *emissivity,
+                                  size_t emissivity_len,
+                                  float *kelvin,
+                                  size_t kelvin_len,
+                                  bt_frame_summary *summary);
 
 #ifdef __cplusplus
 }  // extern "C"

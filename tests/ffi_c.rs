@@ -310,3 +310,28 @@ fn pkg_config_install_recipe_builds_the_readme_example() {
     );
     assert_eq!(run(&exe).trim(), "object: 360.000 K");
 }
+
+/// The firmware-style frame example (`tests/c/frame_example.c`, static storage only)
+/// compiles as C99 with `-Wall -Wextra -Werror -pedantic`, converts its invented frame, and
+/// its checked pixels agree with `bt_object_temperature` (exact inversion of the
+/// measurement equation) within 1 mK, which the program itself checks (exit status).
+#[test]
+fn frame_example_compiles_and_runs() {
+    let cc = compiler("CC", "cc");
+    let exe = build(
+        &cc,
+        &["-std=c99"],
+        "tests/c/frame_example.c",
+        "frame_example_c99",
+    );
+    let stdout = run(&exe);
+    assert!(
+        stdout.starts_with("10 of 12 pixels converted (1 dead, 1 saturated)"),
+        "frame example: {stdout}"
+    );
+    assert_eq!(
+        stdout.matches("pixel ").count(),
+        3,
+        "frame example: {stdout}"
+    );
+}

@@ -603,3 +603,274 @@ fn bad_pointers_are_answered_with_a_status() {
     let s = unsafe { bt_band_radiance(&near_top, 300.0, &mut out) };
     assert_eq!(s, bt_status::InvalidBuffer);
 }
+
+// ---- frames ------------------------------------------------------------------------------
+
+use bandtemp::frame::{
+    ConverterState, CountsMap, FrameConverter, FrameTable, Rails, TableRow, TemperatureRange,
+};
+
+/// Rows of the frame tests' storage.
+const FRAME_ROWS: usize = 256;
+
+fn frame_band() -> bt_band {
+    rect_band(8.0, 14.0, bt_detector::Energy)
+}
+
+fn frame_scene() -> bt_scene {
+    c_scene([0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0])
+}
+
+/// A converter over 8-14 um, 250-1500 K, 1 mK, built through the C ABI, and its rows.
+/// Boxed, and never copied as words once the export has written it: the state's padding
+/// bytes inside the opaque words are unspecified.
+fn c_converter() -> (Box<bt_frame_converter>, Vec<bt_frame_row>, usize) {
+    let mut rows = vec![
+        bt_frame_row {
+            coefficients: [0.0; 4]
+        };
+        FRAME_ROWS
+    ];
+    let mut conv = Box::new(bt_frame_converter { opaque: [0; 32] });
+    let rails = bt_rails {
+        dead_counts: 0,
+        saturation_counts: u16::MAX,
+    };
+    let mut used = 0usize;
+    let (band, scene) = (frame_band(), frame_scene());
+    unsafe {
+        assert_eq!(
+            bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, &mut used),
+            bt_status::Ok
+        );
+        assert_eq!(
+            bt_frame_converter_new_band(
+                &band,
+                &scene,
+                0.002,
+                -2.0,
+                &rails,
+                250.0,
+                1500.0,
+                1e-3,
+                rows.as_mut_ptr(),
+                rows.len(),
+                &mut *conv,
+            ),
+            bt_status::Ok
+        );
+    }
+    (conv, rows, used)
+}
+
+/// Reads the state a C converter holds (the layout the export writes).
+fn state_of(conv: &bt_frame_converter) -> ConverterState {
+    unsafe {
+        (conv as *const bt_frame_converter)
+            .cast::<ConverterState>()
+            .read()
+    }
+}
+
+/// An upper range end: any f64, except that finite values above 2000 K become 2000 K (a
+/// valid range up to 1e6 K takes seconds to refuse in a debug build: every table level is
+/// planned and measured first).
+fn frame_hi_k() -> impl Strategy<Value = f64> {
+    any_f64().prop_map(|hi| {
+        if hi.is_finite() && hi > 2000.0 {
+            2000.0
+        } else {
+            hi
+        }
+    })
+}
+
+fn any_f32() -> impl Strategy<Value = f32> {
+    prop_oneof![
+        3 => any::<u32>().prop_map(f32::from_bits),
+        2 => prop::sample::select(&[f32::NAN, f32::INFINITY, -f32::INFINITY, 0.0, -0.0, 1.0,
+            0.5, 1e-30, f32::MAX, f32::MIN_POSITIVE][..]),
+        3 => 0.0f32..200.0,
+    ]
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(48))]
+
+    /// Row counts agree with the Rust API for any range and tolerance.
+    #[test]
+    fn frame_table_rows(lo in any_f64(), hi in frame_hi_k(), tol in any_f64(), a in any_f64()) {
+        let band = frame_band();
+        let mut rows = 777usize;
+        let s = unsafe { bt_frame_table_rows_band(&band, lo, hi, tol, &mut rows) };
+        let rust = Band::rectangular(8.0, 14.0, Detector::Energy).and_then(|b| {
+            FrameTable::required_rows(&b, TemperatureRange::new(lo, hi)?, tol)
+        });
+        match rust {
+            Ok(n) => { prop_assert_eq!(s, bt_status::Ok); prop_assert_eq!(rows, n); }
+            Err(e) => { prop_assert_eq!(s, bt_status::from(e)); prop_assert_eq!(rows, 777); }
+        }
+        let sh = bt_sakuma_hattori { a_um: a, b_umk: 50.0, c: 1e6 };
+        let mut rows = 777usize;
+        let s = unsafe { bt_frame_table_rows_sakuma_hattori(&sh, 250.0, 1000.0, 1e-2, &mut rows) };
+        let rust = SakumaHattori::new(a, 50.0, 1e6).and_then(|c| {
+            FrameTable::required_rows(&c, TemperatureRange::new(250.0, 1000.0)?, 1e-2)
+        });
+        match rust {
+            Ok(n) => { prop_assert_eq!(s, bt_status::Ok); prop_assert_eq!(rows, n); }
+            Err(e) => { prop_assert_eq!(s, bt_status::from(e)); prop_assert_eq!(rows, 777); }
+        }
+    }
+
+    /// Converter construction agrees with the Rust API (the same state, or the same error
+    /// and an untouched converter) for any counts map, range and tolerance.
+    #[test]
+    fn frame_converter_new(
+        gain in any_f64(), offset in any_f64(), lo in any_f64(), hi in frame_hi_k(),
+        tol in any_f64(), dead in any::<u16>(), sat in any::<u16>(),
+    ) {
+        let (band, scene) = (frame_band(), frame_scene());
+        let rails = bt_rails { dead_counts: dead, saturation_counts: sat };
+        let mut rows = vec![bt_frame_row { coefficients: [0.0; 4] }; FRAME_ROWS];
+        let mut conv = bt_frame_converter { opaque: [0xA5A5; 32] };
+        let s = unsafe {
+            bt_frame_converter_new_band(&band, &scene, gain, offset, &rails, lo, hi, tol,
+                rows.as_mut_ptr(), rows.len(), &mut conv)
+        };
+        let mut storage = vec![[0.0f32; 4]; FRAME_ROWS];
+        let rust = (|| {
+            let b = Band::rectangular(8.0, 14.0, Detector::Energy)?;
+            let sc = rust_scene(&scene)?;
+            let counts = CountsMap::linear(gain, offset)?;
+            let rails = Rails::new(dead, sat)?;
+            let range = TemperatureRange::new(lo, hi)?;
+            Ok::<_, Error>(FrameConverter::new(&b, &sc, counts, rails, range, tol, &mut storage)?
+                .state())
+        })();
+        match rust {
+            Ok(state) => {
+                prop_assert_eq!(s, bt_status::Ok);
+                let got = state_of(&conv);
+                prop_assert_eq!(format!("{got:?}"), format!("{state:?}"));
+                let n = state.geometry.rows();
+                let c_rows: Vec<TableRow> = rows[..n].iter().map(|r| r.coefficients).collect();
+                prop_assert_eq!(&c_rows[..], &storage[..n]);
+            }
+            Err(e) => {
+                prop_assert_eq!(s, bt_status::from(e));
+                prop_assert_eq!(conv.opaque, [0xA5A5; 32]);
+            }
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    /// Conversion of arbitrary counts, signals and emissivities agrees bit for bit with the
+    /// Rust converter, and every pixel is a temperature in range or NaN.
+    #[test]
+    fn frame_convert(
+        counts in prop::collection::vec(any::<u16>(), 0..40),
+        signal in prop::collection::vec(any_f32(), 0..40),
+        emissivity in prop::collection::vec(any_f32(), 0..40),
+        use_map in any::<bool>(),
+    ) {
+        let (conv, rows, used) = c_converter();
+        let storage: Vec<TableRow> = rows.iter().map(|r| r.coefficients).collect();
+        let rust = FrameConverter::from_parts(state_of(&conv), &storage).unwrap();
+        let e_ptr = if use_map { emissivity.as_ptr() } else { core::ptr::null() };
+        let e_rust = use_map.then_some(&emissivity[..]);
+        // Counts.
+        let mut kelvin = vec![-1.0f32; counts.len()];
+        let mut summary = bt_frame_summary::default();
+        let s = unsafe {
+            bt_frame_convert_counts(&*conv, rows.as_ptr(), used, counts.as_ptr(), counts.len(),
+                e_ptr, emissivity.len(), kelvin.as_mut_ptr(), kelvin.len(), &mut summary)
+        };
+        let mut want = vec![-1.0f32; counts.len()];
+        match rust.convert_counts(&counts, e_rust, &mut want) {
+            Ok(sum) => {
+                prop_assert_eq!(s, bt_status::Ok);
+                prop_assert_eq!(summary.pixels, sum.pixels);
+                prop_assert_eq!(summary.converted, sum.converted);
+                prop_assert_eq!(summary.emissivity_invalid, sum.emissivity_invalid);
+                for (k, w) in kelvin.iter().zip(&want) {
+                    prop_assert_eq!(k.to_bits(), w.to_bits());
+                    prop_assert!(k.is_nan() || (249.9..=1500.1).contains(k));
+                }
+            }
+            Err(e) => {
+                prop_assert_eq!(s, bt_status::from(e));
+                prop_assert!(kelvin.iter().all(|&k| k == -1.0));
+                prop_assert_eq!(summary, bt_frame_summary::default());
+            }
+        }
+        // Signal.
+        let mut kelvin = vec![-1.0f32; signal.len()];
+        let mut summary = bt_frame_summary::default();
+        let s = unsafe {
+            bt_frame_convert_signal(&*conv, rows.as_ptr(), used, signal.as_ptr(), signal.len(),
+                e_ptr, emissivity.len(), kelvin.as_mut_ptr(), kelvin.len(), &mut summary)
+        };
+        let mut want = vec![-1.0f32; signal.len()];
+        match rust.convert_signal(&signal, e_rust, &mut want) {
+            Ok(sum) => {
+                prop_assert_eq!(s, bt_status::Ok);
+                prop_assert_eq!(summary.non_finite, sum.non_finite);
+                prop_assert_eq!(summary.converted, sum.converted);
+                for (k, w) in kelvin.iter().zip(&want) {
+                    prop_assert_eq!(k.to_bits(), w.to_bits());
+                }
+            }
+            Err(e) => {
+                prop_assert_eq!(s, bt_status::from(e));
+                prop_assert!(kelvin.iter().all(|&k| k == -1.0));
+            }
+        }
+    }
+
+    /// A converter of arbitrary bytes (or a good one with arbitrary words written over it)
+    /// is answered with a named status or a frame, never a panic; the table rows may hold
+    /// arbitrary floats too.
+    #[test]
+    fn frame_convert_hostile_converter(
+        words in prop::collection::vec((0usize..32, any::<u64>()), 0..4),
+        garbage in any::<bool>(),
+        row_bits in prop::collection::vec(any::<u32>(), 4),
+        counts in prop::collection::vec(any::<u16>(), 0..20),
+        rows_len in prop_oneof![Just(None), (0usize..300).prop_map(Some)],
+    ) {
+        let (mut conv, mut rows, used) = c_converter();
+        if garbage {
+            *conv = bt_frame_converter { opaque: [0; 32] };
+        }
+        for (i, w) in words {
+            conv.opaque[i] = w;
+        }
+        if let Some(r) = rows.first_mut() {
+            r.coefficients = [0, 1, 2, 3].map(|i| f32::from_bits(row_bits[i]));
+        }
+        let n = rows_len.unwrap_or(used).min(rows.len());
+        let mut kelvin = vec![0.0f32; counts.len()];
+        let mut summary = bt_frame_summary::default();
+        let s = unsafe {
+            bt_frame_convert_counts(&*conv, rows.as_ptr(), n, counts.as_ptr(), counts.len(),
+                core::ptr::null(), 0, kelvin.as_mut_ptr(), kelvin.len(), &mut summary)
+        };
+        if s == bt_status::Ok {
+            prop_assert_eq!(summary.pixels, counts.len() as u64);
+        } else {
+            prop_assert!(s.error().is_some());
+        }
+        let scene = frame_scene();
+        let band = frame_band();
+        let before = format!("{:?}", state_of(&conv));
+        let s = unsafe {
+            bt_frame_converter_set_scene_band(&mut *conv, rows.as_ptr(), n, &band, &scene)
+        };
+        if s != bt_status::Ok {
+            prop_assert_eq!(format!("{:?}", state_of(&conv)), before);
+        }
+    }
+}

@@ -81,7 +81,7 @@ impl Output for bt_points_fit {
 ///
 /// # Safety
 /// `params` is null or valid for reads of a `bt_sakuma_hattori`.
-unsafe fn read_curve(params: *const bt_sakuma_hattori) -> Result<SakumaHattori> {
+pub(super) unsafe fn read_curve(params: *const bt_sakuma_hattori) -> Result<SakumaHattori> {
     // SAFETY: the caller's guarantee; `bt_sakuma_hattori` is doubles only.
     let p = unsafe { read_input(params) }?;
     SakumaHattori::new(p.a_um, p.b_umk, p.c)

@@ -62,6 +62,8 @@ mod band;
 mod scene;
 // Calibration curves.
 mod calibration;
+// Whole frames.
+mod frame;
 
 pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
@@ -70,6 +72,14 @@ pub use calibration::{
     bt_points_fit, bt_sakuma_hattori, bt_sakuma_hattori_fit_band, bt_sakuma_hattori_fit_points,
     bt_sakuma_hattori_fit_points_report, bt_sakuma_hattori_object_temperature,
     bt_sakuma_hattori_sensor_signal, bt_sakuma_hattori_signal, bt_sakuma_hattori_temperature,
+};
+pub use frame::{
+    bt_frame_convert_counts, bt_frame_convert_signal, bt_frame_converter,
+    bt_frame_converter_geometry, bt_frame_converter_new_band,
+    bt_frame_converter_new_sakuma_hattori, bt_frame_converter_set_rails,
+    bt_frame_converter_set_scene_band, bt_frame_converter_set_scene_sakuma_hattori,
+    bt_frame_geometry, bt_frame_row, bt_frame_summary, bt_frame_table_rows_band,
+    bt_frame_table_rows_sakuma_hattori, bt_rails,
 };
 pub use planck::{
     bt_blackbody_fraction, bt_peak_wavelength_um, bt_spectral_photon_radiance,
@@ -96,41 +106,64 @@ fn check_ptr<T>(ptr: *const T) -> Result<()> {
     }
 }
 
-/// Reads a plain-data input struct (every bit pattern of it valid: doubles only).
+/// Reads a plain-data input struct (every bit pattern of it valid: numbers only).
 ///
 /// # Safety
 /// `ptr` is null or valid for reads of a `T`.
 unsafe fn read_input<T: Copy>(ptr: *const T) -> Result<T> {
     check_ptr(ptr)?;
     // SAFETY: non-null and aligned (checked), valid for reads (caller); `T` is only
-    // instantiated with structs of doubles, for which every bit pattern is valid.
+    // instantiated with structs of floats and integers (and padding), for which every bit
+    // pattern is valid.
     Ok(unsafe { ptr.read() })
 }
 
-/// A slice of `len` doubles at `ptr`; `len == 0` gives the empty slice whatever `ptr` is.
+/// Checks that `len` elements of `T` at `ptr` form a possible buffer: non-null, aligned,
+/// a byte size within `isize::MAX` that does not wrap the address space.
+fn check_buffer<T>(ptr: *const T, len: usize) -> Result<()> {
+    check_ptr(ptr)?;
+    let bytes = len
+        .checked_mul(core::mem::size_of::<T>())
+        .filter(|&bytes| bytes <= isize::MAX.unsigned_abs())
+        .ok_or(Error::InvalidBuffer)?;
+    if (ptr as usize).checked_add(bytes).is_none() {
+        return Err(Error::InvalidBuffer);
+    }
+    Ok(())
+}
+
+/// A slice of `len` values at `ptr`; `len == 0` gives the empty slice whatever `ptr` is.
 ///
 /// # Errors
 /// [`Error::NullPointer`]; [`Error::InvalidBuffer`] for a misaligned pointer or a length
 /// whose byte size exceeds `isize::MAX` or wraps the address space.
 ///
 /// # Safety
-/// For `len > 0`, a non-null `ptr` is valid for reads of `len` doubles that nobody
-/// writes during the call.
-unsafe fn slice_from_c<'a>(ptr: *const f64, len: usize) -> Result<&'a [f64]> {
+/// For `len > 0`, a non-null `ptr` is valid for reads of `len` values of `T` that nobody
+/// writes during the call; `T` is a plain type every bit pattern of which is valid.
+unsafe fn slice_from_c<'a, T>(ptr: *const T, len: usize) -> Result<&'a [T]> {
     if len == 0 {
         return Ok(&[]);
     }
-    check_ptr(ptr)?;
-    let bytes = len
-        .checked_mul(core::mem::size_of::<f64>())
-        .filter(|&bytes| bytes <= isize::MAX.unsigned_abs())
-        .ok_or(Error::InvalidBuffer)?;
-    if (ptr as usize).checked_add(bytes).is_none() {
-        return Err(Error::InvalidBuffer);
-    }
+    check_buffer(ptr, len)?;
     // SAFETY: non-null and aligned (checked); the byte size fits isize and does not wrap
-    // (checked); validity for reads of `len` doubles is the caller's guarantee.
+    // (checked); validity for reads of `len` values is the caller's guarantee.
     Ok(unsafe { core::slice::from_raw_parts(ptr, len) })
+}
+
+/// As [`slice_from_c`], mutable: an output buffer.
+///
+/// # Safety
+/// For `len > 0`, a non-null `ptr` is valid for reads and writes of `len` values of `T`
+/// that nothing else reads or writes during the call (no other buffer of the call
+/// overlaps it).
+unsafe fn slice_from_c_mut<'a, T>(ptr: *mut T, len: usize) -> Result<&'a mut [T]> {
+    if len == 0 {
+        return Ok(&mut []);
+    }
+    check_buffer(ptr.cast_const(), len)?;
+    // SAFETY: as in `slice_from_c`, with exclusive access the caller's guarantee.
+    Ok(unsafe { core::slice::from_raw_parts_mut(ptr, len) })
 }
 
 /// A value an export hands to C: checked once more at the boundary.

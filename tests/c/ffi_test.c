@@ -783,6 +783,393 @@ static void test_extreme_edges(void) {
     EXPECT_SANE(bt_sensor_radiance(&good, &scene, 300.0, &out));
 }
 
+/* ---- frames ---------------------------------------------------------------------------- */
+
+/* Invented instrument: 8-14 um microbolometer, L = 0.002 W m^-2 sr^-1 per count - 2. */
+#define FRAME_GAIN 0.002
+#define FRAME_OFFSET (-2.0)
+#define FRAME_ROWS 128
+static bt_frame_row frame_table[FRAME_ROWS];
+
+static void *misaligned(void *p) { return (void *)((uintptr_t)p + 1); }
+
+static int converter_equal(const bt_frame_converter *a, const bt_frame_converter *b) {
+    return memcmp(a, b, sizeof *a) == 0;
+}
+
+static int summary_untouched(const bt_frame_summary *s) {
+    return s->pixels == 777 && s->converted == 777 && s->dead == 777;
+}
+
+static bt_frame_summary summary_sentinel(void) {
+    bt_frame_summary s;
+    memset(&s, 0, sizeof s);
+    s.pixels = s.converted = s.dead = 777;
+    return s;
+}
+
+/* |T_frame - T_exact| for one pixel whose sensor signal is `signal` (double arithmetic),
+ * against bt_object_temperature; NaN when the exact inversion fails. */
+static double frame_error(const bt_band *band, const bt_scene *scene, double signal,
+                          float kelvin) {
+    double exact = SENTINEL;
+    if (bt_object_temperature(band, scene, signal, &exact) != BT_STATUS_OK) {
+        return NAN;
+    }
+    return fabs((double)kelvin - exact);
+}
+
+static void test_frame_rows(void) {
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_sakuma_hattori sh = {10.5, 50.0, 1.0e6};
+    size_t rows = 12345, i;
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, &rows) == BT_STATUS_OK);
+    /* About 1 KiB of rows for this band, range and tolerance (src/frame.rs measures 61). */
+    CHECK(rows >= 16 && rows * sizeof(bt_frame_row) <= 1024);
+    rows = 12345;
+    CHECK(bt_frame_table_rows_sakuma_hattori(&sh, 250.0, 1500.0, 1e-3, &rows) ==
+          BT_STATUS_OK);
+    CHECK(rows > 0 && rows <= FRAME_ROWS);
+    rows = 12345;
+    CHECK(bt_frame_table_rows_band(NULL, 250.0, 1500.0, 1e-3, &rows) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, (size_t *)misaligned(&rows)) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_table_rows_sakuma_hattori(NULL, 250.0, 1500.0, 1e-3, &rows) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_table_rows_band(&band, 1500.0, 250.0, 1e-3, &rows) ==
+          BT_STATUS_FRAME_RANGE_INVALID);
+    CHECK(bt_frame_table_rows_band(&band, 300.0, 300.0, 1e-3, &rows) ==
+          BT_STATUS_FRAME_RANGE_INVALID);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 0.0, &rows) ==
+          BT_STATUS_FRAME_TOLERANCE_INVALID);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, -1.0, &rows) ==
+          BT_STATUS_FRAME_TOLERANCE_INVALID);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, NAN, &rows) ==
+          BT_STATUS_FRAME_TOLERANCE_INVALID);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-9, &rows) ==
+          BT_STATUS_FRAME_TOLERANCE_UNREACHABLE);
+    CHECK(rows == 12345);
+    /* Every hostile value in every scalar slot: a row count or a named status. */
+    for (i = 0; i < N_ARGS; i++) {
+        size_t slot;
+        for (slot = 0; slot < 3; slot++) {
+            double a[3] = {250.0, 1500.0, 1e-2};
+            bt_status status;
+            if (slot == 1 && ARGS[i] > 1500.0) {
+                continue; /* valid but slow to refuse (seconds per call in a debug build) */
+            }
+            a[slot] = ARGS[i];
+            rows = 12345;
+            status = bt_frame_table_rows_band(&band, a[0], a[1], a[2], &rows);
+            CHECK(status == BT_STATUS_OK ? rows > 0 : rows == 12345 && known_status(status));
+            rows = 12345;
+            status = bt_frame_table_rows_sakuma_hattori(&sh, a[0], a[1], a[2], &rows);
+            CHECK(status == BT_STATUS_OK ? rows > 0 : rows == 12345 && known_status(status));
+        }
+    }
+}
+
+static void test_frame_band(void) {
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band other = rectangular(8.0, 13.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene();
+    bt_rails rails = {0, 65535};
+    bt_rails bad_rails = {500, 500};
+    bt_frame_converter conv, sentinel, copy;
+    bt_frame_geometry geom;
+    bt_frame_summary summary;
+    uint16_t counts[8] = {0, 65535, 1, 20000, 30000, 40000, 50000, 60000};
+    float emissivity[8] = {0.9f, 0.9f, 0.9f, 0.8f, 0.5f, 1.0f, NAN, 0.0f};
+    float signal[8];
+    float kelvin[8];
+    float big[16];
+    size_t i, rows = 0;
+    bt_status status;
+
+    memset(&sentinel, 0xA5, sizeof sentinel);
+    conv = sentinel;
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, &rows) == BT_STATUS_OK);
+    /* Hostile construction: out untouched. */
+    CHECK(bt_frame_converter_new_band(NULL, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_new_band(&band, NULL, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, NULL, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, NULL, FRAME_ROWS, &conv) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, 0, &conv) ==
+          BT_STATUS_FRAME_STORAGE_TOO_SMALL);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, rows - 1, &conv) ==
+          BT_STATUS_FRAME_STORAGE_TOO_SMALL);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, SIZE_MAX, &conv) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, (bt_frame_row *)misaligned(frame_table),
+                                      FRAME_ROWS - 1, &conv) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS,
+                                      (bt_frame_converter *)misaligned(&big)) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_converter_new_band(&band, &scene, 0.0, FRAME_OFFSET, &rails, 250.0, 1500.0,
+                                      1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_FRAME_COUNTS_MAP_INVALID);
+    CHECK(bt_frame_converter_new_band(&band, &scene, NAN, FRAME_OFFSET, &rails, 250.0, 1500.0,
+                                      1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_FRAME_COUNTS_MAP_INVALID);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, INFINITY, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_FRAME_COUNTS_MAP_INVALID);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &bad_rails,
+                                      250.0, 1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_FRAME_RAILS_INVALID);
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 1500.0,
+                                      250.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_FRAME_RANGE_INVALID);
+    scene.emissivity = 1.5;
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_EMISSIVITY_OUT_OF_RANGE);
+    scene = full_scene();
+    CHECK(converter_equal(&conv, &sentinel));
+    for (i = 0; i < N_ARGS; i++) {
+        size_t slot;
+        for (slot = 0; slot < 5; slot++) {
+            double a[5] = {FRAME_GAIN, FRAME_OFFSET, 250.0, 1500.0, 1e-2};
+            if (slot == 3 && ARGS[i] > 1500.0) {
+                continue; /* valid but slow to refuse (seconds per call in a debug build) */
+            }
+            a[slot] = ARGS[i];
+            conv = sentinel;
+            status = bt_frame_converter_new_band(&band, &scene, a[0], a[1], &rails, a[2], a[3],
+                                                 a[4], frame_table, FRAME_ROWS, &conv);
+            CHECK(status == BT_STATUS_OK ? !converter_equal(&conv, &sentinel)
+                                         : converter_equal(&conv, &sentinel) &&
+                                               known_status(status));
+        }
+    }
+
+    /* The converter, and its measured geometry. */
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_OK);
+    CHECK(bt_frame_converter_geometry(&conv, frame_table, rows, &geom) == BT_STATUS_OK);
+    CHECK(geom.rows == rows && geom.lo_k == 250.0 && geom.hi_k == 1500.0);
+    CHECK(geom.tolerance_k == 1e-3 && geom.max_pixel_error_k <= 1e-3);
+    CHECK(geom.max_table_error_k <= geom.max_pixel_error_k && geom.max_table_error_k > 0.0);
+    CHECK(geom.signal_lo > 0.0 && geom.signal_lo < geom.signal_hi);
+    CHECK(bt_frame_converter_geometry(NULL, frame_table, rows, &geom) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_geometry(&conv, frame_table, rows, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_geometry(&conv, frame_table, rows - 1, &geom) ==
+          BT_STATUS_FRAME_STORAGE_TOO_SMALL);
+
+    /* Uniform scene from counts, checked pixel by pixel against exact inversion. */
+    summary = summary_sentinel();
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_OK);
+    CHECK(summary.pixels == 8 && summary.dead == 1 && summary.saturated == 1);
+    CHECK(summary.converted + summary.below_background + summary.below_range == 6);
+    CHECK(summary.converted == 5 && summary.below_background == 1);
+    CHECK(isnan(kelvin[0]) && isnan(kelvin[1]) && isnan(kelvin[2]));
+    for (i = 3; i < 8; i++) {
+        double err = frame_error(&band, &scene, FRAME_GAIN * counts[i] + FRAME_OFFSET, kelvin[i]);
+        CHECK(err <= geom.max_pixel_error_k);
+        CHECK(kelvin[i] > 250.0f && kelvin[i] < 1500.0f);
+    }
+    CHECK(kelvin[3] < kelvin[4] && kelvin[4] < kelvin[5] && kelvin[6] < kelvin[7]);
+
+    /* Emissivity map: pixel i at emissivity[i], against the scene with that emissivity. */
+    summary = summary_sentinel();
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, emissivity, 8, kelvin, 8,
+                                  &summary) == BT_STATUS_OK);
+    CHECK(summary.emissivity_invalid == 2 && summary.dead == 1 && summary.saturated == 1);
+    CHECK(isnan(kelvin[6]) && isnan(kelvin[7]));
+    for (i = 3; i < 6; i++) {
+        bt_scene pixel = scene;
+        pixel.emissivity = emissivity[i];
+        /* Float arithmetic of the per-pixel form adds ~2 ulps of the signal: 10 mK here. */
+        CHECK(frame_error(&band, &pixel, FRAME_GAIN * counts[i] + FRAME_OFFSET, kelvin[i]) <=
+              1e-2);
+    }
+
+    /* Signal frame: the same pixels as band radiance. */
+    for (i = 0; i < 8; i++) {
+        signal[i] = (float)(FRAME_GAIN * counts[i] + FRAME_OFFSET);
+    }
+    signal[0] = NAN;
+    signal[1] = INFINITY;
+    summary = summary_sentinel();
+    CHECK(bt_frame_convert_signal(&conv, frame_table, rows, signal, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_OK);
+    CHECK(summary.non_finite == 2 && summary.converted == 5);
+    for (i = 3; i < 8; i++) {
+        CHECK(frame_error(&band, &scene, (double)signal[i], kelvin[i]) <= 1e-2);
+    }
+
+    /* Hostile conversions: neither kelvin nor summary written. */
+    for (i = 0; i < 8; i++) {
+        kelvin[i] = -1.0f;
+    }
+    summary = summary_sentinel();
+    CHECK(bt_frame_convert_counts(NULL, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts(&conv, NULL, rows, counts, 8, NULL, 0, kelvin, 8, &summary) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, NULL, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, NULL, 0, NULL, 8,
+                                  &summary) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, NULL, 0, kelvin, 7,
+                                  &summary) == BT_STATUS_FRAME_LENGTH_MISMATCH);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, emissivity, 7, kelvin, 8,
+                                  &summary) == BT_STATUS_FRAME_LENGTH_MISMATCH);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, SIZE_MAX, NULL, 0, kelvin,
+                                  SIZE_MAX, &summary) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, SIZE_MAX, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, (const uint16_t *)misaligned(counts),
+                                  7, NULL, 0, kelvin, 7, &summary) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 7, NULL, 0,
+                                  (float *)misaligned(big), 7, &summary) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  (bt_frame_summary *)misaligned(big)) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows - 1, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_FRAME_STORAGE_TOO_SMALL);
+    /* In place (output over the input) is refused, not undefined. */
+    CHECK(bt_frame_convert_signal(&conv, frame_table, rows, signal, 8, NULL, 0, signal, 8,
+                                  &summary) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_signal(&conv, frame_table, rows, signal, 8, NULL, 0,
+                                  (float *)frame_table, 8, &summary) == BT_STATUS_INVALID_BUFFER);
+    CHECK(summary_untouched(&summary));
+    for (i = 0; i < 8; i++) {
+        CHECK(kelvin[i] == -1.0f);
+    }
+    /* Zero pixels: a summary of nothing, nothing else. */
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, NULL, 0, NULL, 0, NULL, 0,
+                                  &summary) == BT_STATUS_OK);
+    CHECK(summary.pixels == 0 && summary.converted == 0);
+
+    /* A converter that was never built, and every single-byte corruption of a good one: a
+     * named status or a frame, never a crash. */
+    memset(&copy, 0, sizeof copy);
+    summary = summary_sentinel();
+    CHECK(bt_frame_convert_counts(&copy, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_FRAME_TABLE_INVALID);
+    CHECK(summary_untouched(&summary));
+    for (i = 0; i < sizeof conv; i++) {
+        unsigned char *bytes = (unsigned char *)&copy;
+        copy = conv;
+        bytes[i] ^= 0xFF;
+        status = bt_frame_convert_counts(&copy, frame_table, rows, counts, 8, emissivity, 8,
+                                         kelvin, 8, &summary);
+        CHECK(status == BT_STATUS_OK ? summary.pixels == 8 : known_status(status));
+        status = bt_frame_convert_signal(&copy, frame_table, FRAME_ROWS, signal, 8, NULL, 0,
+                                         kelvin, 8, &summary);
+        CHECK(status == BT_STATUS_OK ? summary.pixels == 8 : known_status(status));
+    }
+
+    /* A new scene without a rebuild; the wrong band is refused and changes nothing. */
+    copy = conv;
+    CHECK(bt_frame_converter_set_scene_band(&copy, frame_table, rows, &other, &scene) ==
+          BT_STATUS_FRAME_CURVE_MISMATCH);
+    CHECK(converter_equal(&copy, &conv));
+    scene.emissivity = 2.0;
+    CHECK(bt_frame_converter_set_scene_band(&copy, frame_table, rows, &band, &scene) ==
+          BT_STATUS_EMISSIVITY_OUT_OF_RANGE);
+    CHECK(bt_frame_converter_set_scene_band(NULL, frame_table, rows, &band, &scene) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_set_scene_band(&copy, frame_table, rows, &band, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(converter_equal(&copy, &conv));
+    scene.emissivity = 0.7;
+    CHECK(bt_frame_converter_set_scene_band(&copy, frame_table, rows, &band, &scene) ==
+          BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts(&copy, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_OK);
+    for (i = 3; i < 8; i++) {
+        CHECK(frame_error(&band, &scene, FRAME_GAIN * counts[i] + FRAME_OFFSET, kelvin[i]) <=
+              geom.max_pixel_error_k);
+    }
+    /* New rails. */
+    rails.dead_counts = 20000;
+    rails.saturation_counts = 60000;
+    CHECK(bt_frame_converter_set_rails(&copy, frame_table, rows, &bad_rails) ==
+          BT_STATUS_FRAME_RAILS_INVALID);
+    CHECK(bt_frame_converter_set_rails(&copy, frame_table, rows, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_set_rails(&copy, frame_table, rows, &rails) == BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts(&copy, frame_table, rows, counts, 8, NULL, 0, kelvin, 8,
+                                  &summary) == BT_STATUS_OK);
+    CHECK(summary.dead == 3 && summary.saturated == 2 && summary.converted == 3);
+}
+
+static void test_frame_sakuma_hattori(void) {
+    /* Invented counts calibration: A = 10.5 um, B = 50 um K, C = 1e6 counts, 1000 dark. */
+    bt_sakuma_hattori sh = {10.5, 50.0, 1.0e6}, bad = {-1.0, 0.0, 1.0};
+    bt_scene scene = plain_scene();
+    bt_rails rails = {0, 16383};
+    bt_frame_converter conv, sentinel;
+    bt_frame_summary summary;
+    uint16_t counts[6] = {0, 16383, 1000, 8000, 12000, 16000};
+    float kelvin[6];
+    size_t i, rows = 0;
+    CHECK(bt_frame_table_rows_sakuma_hattori(&sh, 250.0, 1000.0, 1e-3, &rows) == BT_STATUS_OK);
+    memset(&sentinel, 0x5A, sizeof sentinel);
+    conv = sentinel;
+    CHECK(bt_frame_converter_new_sakuma_hattori(&bad, &scene, 1000.0, &rails, 250.0, 1000.0,
+                                                1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_CALIBRATION_PARAMETER_INVALID);
+    CHECK(bt_frame_converter_new_sakuma_hattori(NULL, &scene, 1000.0, &rails, 250.0, 1000.0,
+                                                1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_converter_new_sakuma_hattori(&sh, &scene, NAN, &rails, 250.0, 1000.0, 1e-3,
+                                                frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_FRAME_COUNTS_MAP_INVALID);
+    CHECK(converter_equal(&conv, &sentinel));
+    CHECK(bt_frame_converter_new_sakuma_hattori(&sh, &scene, 1000.0, &rails, 250.0, 1000.0,
+                                                1e-3, frame_table, rows, &conv) ==
+          BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 6, NULL, 0, kelvin, 6,
+                                  &summary) == BT_STATUS_OK);
+    CHECK(summary.dead == 1 && summary.saturated == 1 && summary.below_background == 1);
+    CHECK(summary.converted == 3);
+    for (i = 3; i < 6; i++) {
+        double exact = SENTINEL;
+        CHECK(bt_sakuma_hattori_object_temperature(&sh, &scene, counts[i] - 1000.0, &exact) ==
+              BT_STATUS_OK);
+        CHECK(fabs((double)kelvin[i] - exact) <= 1e-3);
+    }
+    scene.emissivity = 0.6;
+    CHECK(bt_frame_converter_set_scene_sakuma_hattori(&conv, frame_table, rows, &bad, &scene) ==
+          BT_STATUS_CALIBRATION_PARAMETER_INVALID);
+    CHECK(bt_frame_converter_set_scene_sakuma_hattori(&conv, frame_table, rows, &sh, &scene) ==
+          BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts(&conv, frame_table, rows, counts, 6, NULL, 0, kelvin, 6,
+                                  &summary) == BT_STATUS_OK);
+    for (i = 3; i < 6; i++) {
+        double exact = SENTINEL;
+        CHECK(bt_sakuma_hattori_object_temperature(&sh, &scene, counts[i] - 1000.0, &exact) ==
+              BT_STATUS_OK);
+        CHECK(fabs((double)kelvin[i] - exact) <= 1e-3);
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -792,6 +1179,9 @@ int main(void) {
     test_sakuma_hattori();
     test_fits();
     test_extreme_edges();
+    test_frame_rows();
+    test_frame_band();
+    test_frame_sakuma_hattori();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
