@@ -126,7 +126,7 @@ def saturation_rows():
 
 
 # ---------------------------------------------------------------------------------------
-# Roberts-Selby-Biberman continuum (independent mpmath transcription of the formulas)
+# Roberts-Selby-Biberman continuum (the same formulas written out again with mpmath, independently)
 # ---------------------------------------------------------------------------------------
 
 def cimo_ew_hpa(t_k):
