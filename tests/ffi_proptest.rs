@@ -8,6 +8,7 @@ use bandtemp::band::{Band, SignalCurve, SpectralTable};
 use bandtemp::calibration::{fit_band, fit_points, SakumaHattori};
 use bandtemp::ffi::*;
 use bandtemp::planck::{self, Detector};
+use bandtemp::ratio::RatioPyrometer;
 use bandtemp::scene::Scene;
 use bandtemp::Error;
 use core::ffi::c_int;
@@ -528,6 +529,32 @@ fn bad_pointers_are_answered_with_a_status() {
             bt_status::NullPointer
         );
         assert_eq!(
+            bt_ratio_temperature(
+                core::ptr::null(),
+                &good,
+                900.0,
+                3000.0,
+                1.0,
+                1.0,
+                1.0,
+                &mut out
+            ),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_ratio_temperature(
+                &good,
+                core::ptr::null(),
+                900.0,
+                3000.0,
+                1.0,
+                1.0,
+                1.0,
+                &mut out
+            ),
+            bt_status::NullPointer
+        );
+        assert_eq!(
             bt_sakuma_hattori_signal(core::ptr::null(), 300.0, &mut out),
             bt_status::NullPointer
         );
@@ -602,6 +629,56 @@ fn bad_pointers_are_answered_with_a_status() {
     };
     let s = unsafe { bt_band_radiance(&near_top, 300.0, &mut out) };
     assert_eq!(s, bt_status::InvalidBuffer);
+}
+
+// ---- ratio pyrometry ---------------------------------------------------------------------
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn ratio_temperature(
+        edges in prop_oneof![
+            Just([0.65, 0.75, 0.85, 0.95]),
+            prop::array::uniform4(any_f64()),
+            (0usize..4, any_f64()).prop_map(|(i, x)| {
+                let mut e = [0.65, 0.75, 0.85, 0.95];
+                if let Some(slot) = e.get_mut(i) {
+                    *slot = x;
+                }
+                e
+            }),
+        ],
+        t_min in prop_oneof![Just(900.0), any_f64()],
+        t_max in prop_oneof![Just(3000.0), any_f64()],
+        t in 900.0f64..3000.0,
+        s1 in any_f64(), s2 in any_f64(), kappa in prop_oneof![Just(1.0), any_f64()],
+        from_t in any::<bool>(),
+    ) {
+        let [lo1, hi1, lo2, hi2] = edges;
+        let band1 = rect_band(lo1, hi1, bt_detector::Energy);
+        let band2 = rect_band(lo2, hi2, bt_detector::Energy);
+        let b1 = Band::rectangular(lo1, hi1, Detector::Energy);
+        let b2 = Band::rectangular(lo2, hi2, Detector::Energy);
+        // Half the cases take signals a real surface gives.
+        let (s1, s2) = match (from_t, b1, b2) {
+            (true, Ok(b1), Ok(b2)) => (
+                b1.radiance(t).unwrap_or(s1),
+                b2.radiance(t).unwrap_or(s2),
+            ),
+            _ => (s1, s2),
+        };
+        let mut out = SENTINEL;
+        let s = unsafe {
+            bt_ratio_temperature(&band1, &band2, t_min, t_max, s1, s2, kappa, &mut out)
+        };
+        let want = (|| {
+            let pyrometer = RatioPyrometer::new(b1?, b2?, t_min, t_max)?;
+            Ok(pyrometer.temperature_from_signals(s1, s2, kappa)?.solution.temperature_k)
+        })();
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+    }
 }
 
 // ---- frames ------------------------------------------------------------------------------

@@ -64,6 +64,8 @@ mod scene;
 mod calibration;
 // Whole frames.
 mod frame;
+// Two-colour (ratio) pyrometry.
+mod ratio;
 
 pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
@@ -85,6 +87,7 @@ pub use planck::{
     bt_blackbody_fraction, bt_peak_wavelength_um, bt_spectral_photon_radiance,
     bt_spectral_radiance, bt_total_radiance,
 };
+pub use ratio::bt_ratio_temperature;
 pub use scene::{
     bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,
     bt_sensor_radiance,

@@ -1170,6 +1170,85 @@ static void test_frame_sakuma_hattori(void) {
     }
 }
 
+/* ---- ratio pyrometry ------------------------------------------------------------------- */
+
+static void test_ratio(void) {
+    double out;
+    size_t i;
+    bt_band b1 = rectangular(0.65, 0.75, BT_DETECTOR_ENERGY);
+    bt_band b2 = rectangular(0.85, 0.95, BT_DETECTOR_ENERGY);
+    bt_band p1 = rectangular(3.0, 4.0, BT_DETECTOR_PHOTON);
+    bt_band p2 = rectangular(4.5, 5.0, BT_DETECTOR_PHOTON);
+    double temperatures[] = {1000.0, 1500.0, 2000.0, 2900.0};
+    double t = 2000.0, l1 = band_ref(0.65, 0.75, t, 0), l2 = band_ref(0.85, 0.95, t, 0);
+
+    /* Signals from the independent band integrals: the ratio inverts to T. */
+    for (i = 0; i < sizeof temperatures / sizeof temperatures[0]; i++) {
+        double tk = temperatures[i];
+        EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, band_ref(0.65, 0.75, tk, 0),
+                                         band_ref(0.85, 0.95, tk, 0), 1.0, &out),
+                    tk, 1e-9);
+        EXPECT_NEAR(bt_ratio_temperature(&p1, &p2, 500.0, 3000.0, band_ref(3.0, 4.0, tk, 1),
+                                         band_ref(4.5, 5.0, tk, 1), 1.0, &out),
+                    tk, 1e-9);
+    }
+    /* The emissivity cancels up to its ratio; a common gain cancels. */
+    EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, 0.8 * l1, 0.9 * l2, 0.8 / 0.9,
+                                     &out),
+                t, 1e-9);
+    EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, 3e4 * l1, 3e4 * l2, 1.0, &out),
+                t, 1e-9);
+    /* A working-range end is reachable. */
+    EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 2000.0, l1, l2, 1.0, &out), t, 1e-9);
+
+    /* Named errors, out untouched. */
+    EXPECT(BT_STATUS_NULL_POINTER,
+           bt_ratio_temperature(NULL, &b2, 900.0, 3000.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER,
+           bt_ratio_temperature(&b1, NULL, 900.0, 3000.0, l1, l2, 1.0, &out));
+    CHECK(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 1.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_RATIO_RANGE_INVALID,
+           bt_ratio_temperature(&b1, &b2, 3000.0, 900.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_RATIO_RANGE_INVALID,
+           bt_ratio_temperature(&b1, &b2, 900.0, 900.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 0.0, 3000.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_BANDS_INDISTINGUISHABLE,
+           bt_ratio_temperature(&b1, &b1, 900.0, 3000.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, 0.0, l2, 1.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, -l2, 1.0, &out));
+    EXPECT(BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 0.0, &out));
+    EXPECT(BT_STATUS_RATIO_OUT_OF_RANGE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2 * 1e6, 1.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, NAN, l2, 1.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE,
+           bt_ratio_temperature(&b1, &b2, 900.0, INFINITY, l1, l2, 1.0, &out));
+    b2.lo_um = 2.0;
+    EXPECT(BT_STATUS_INVALID_BAND,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 1.0, &out));
+    b2 = rectangular(0.85, 0.95, BT_DETECTOR_ENERGY);
+    set_raw_detector(&b2, 7);
+    EXPECT(BT_STATUS_INVALID_DETECTOR,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 1.0, &out));
+    b2 = rectangular(0.85, 0.95, BT_DETECTOR_ENERGY);
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        double a = ARGS[i];
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, a, 3000.0, l1, l2, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, a, l1, l2, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, a, l2, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, a, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, a, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, a, a, a, a, a, &out));
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -1182,6 +1261,7 @@ int main(void) {
     test_frame_rows();
     test_frame_band();
     test_frame_sakuma_hattori();
+    test_ratio();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
