@@ -1237,6 +1237,84 @@ bt_status bt_ratio_temperature(const bt_band *band1,
                                double emissivity_ratio,
                                double *temperature_k);
 
+/**
+ * Saturation vapour pressure of pure water vapour over a plane surface of liquid water
+ * at `temperature_k`, hPa, by the CIMO (WMO No. 8) Magnus formula
+ * e_w = 6.112 exp(17.62 t / (243.12 + t)), t in deg C; no enhancement factor.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE` outside
+ * -45..+60 deg C.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_air_saturation_vapour_pressure_hpa(double temperature_k, double *out);
+
+/**
+ * Dew point, K, of air at `temperature_k` with `relative_humidity` (a fraction in
+ * [0, 1], with respect to liquid water): the temperature at which e_w(T_d) = U e_w(T)
+ * (CIMO Magnus). Independent of the air pressure (the enhancement factor cancels).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE` outside
+ * -45..+60 deg C, `BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE`,
+ * `BT_STATUS_VAPOUR_PRESSURE_OUT_OF_RANGE` for dry air (U = 0) or a dew point below
+ * -45 deg C.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_air_dew_point_k(double temperature_k, double relative_humidity, double *out);
+
+/**
+ * Band-effective transmittance of a horizontal air path, weighted by the object's own
+ * spectrum: tau_eff = int r tau L(T_obj) / int r L(T_obj), in [0, 1], with tau(lambda)
+ * from the water-vapour continuum model (valid for bands inside 8-14 um). The value to
+ * put in `bt_scene.atm_transmittance`.
+ *
+ * `air_k` the air temperature, `relative_humidity` a fraction in [0, 1], `pressure_hpa`
+ * in [500, 1100], `distance_m` >= 0 (0 gives 1), `object_k` the object temperature.
+ *
+ * Accuracy: relative 1e-12 against quadrature of the model (the model's own error is
+ * larger; see the crate's atmosphere docs).
+ * Errors: the band's errors (as `bt_band_radiance`), `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE`,
+ * `BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE`, `BT_STATUS_AIR_PRESSURE_OUT_OF_RANGE`,
+ * `BT_STATUS_DISTANCE_NEGATIVE`, `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` for a band
+ * reaching outside 8-14 um, `BT_STATUS_RADIANCE_UNDERFLOW`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
+ * only on success.
+ */
+bt_status bt_path_band_transmittance(const bt_band *band,
+                                     double air_k,
+                                     double relative_humidity,
+                                     double pressure_hpa,
+                                     double distance_m,
+                                     double object_k,
+                                     double *out);
+
+/**
+ * Spectral transmittance tau(lambda) = exp(-k w) in (0, 1] of a horizontal air path at
+ * `wavelength_um` (8-14 um), the water-vapour continuum model; arguments as
+ * `bt_path_band_transmittance`.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, the air's and path's
+ * errors (as `bt_path_band_transmittance`), `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` outside
+ * 8-14 um.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_path_spectral_transmittance(double air_k,
+                                         double relative_humidity,
+                                         double pressure_hpa,
+                                         double distance_m,
+                                         double wavelength_um,
+                                         double *out);
+
 #ifdef __cplusplus
 }  // extern "C"
 #endif  // __cplusplus

@@ -4,6 +4,7 @@
 //! named error. The exports must also agree with the Rust API they wrap, write their out
 //! values only on success, and answer bad pointers with a status.
 
+use bandtemp::atmosphere::{Air, Path, PathTransmittance, Phase, SaturationFormula};
 use bandtemp::band::{Band, SignalCurve, SpectralTable};
 use bandtemp::calibration::{fit_band, fit_points, SakumaHattori};
 use bandtemp::ffi::*;
@@ -678,6 +679,72 @@ proptest! {
         })();
         agrees(s, out, want)?;
         valid_or_named(want, 0.0..=f64::MAX)?;
+    }
+}
+
+// ---- air and air paths -------------------------------------------------------------------
+
+/// Air near valid values with one argument arbitrary, or all arbitrary.
+fn air_args() -> impl Strategy<Value = [f64; 4]> {
+    let valid = [300.0, 0.6, 1013.25, 100.0];
+    prop_oneof![
+        (0usize..4, any_f64()).prop_map(move |(i, x)| {
+            let mut a = valid;
+            if let Some(slot) = a.get_mut(i) {
+                *slot = x;
+            }
+            a
+        }),
+        prop::array::uniform4(any_f64()),
+        (
+            230.0f64..330.0,
+            0.0f64..=1.0,
+            500.0f64..=1100.0,
+            0.0f64..5000.0
+        )
+            .prop_map(|(t, u, p, d)| [t, u, p, d]),
+    ]
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn air_and_paths(
+        [air_k, rh, p, d] in air_args(),
+        wl in prop_oneof![8.0f64..=14.0, any_f64()],
+        object_k in prop_oneof![200.0f64..2000.0, any_f64()],
+        lo in prop_oneof![8.0f64..11.0, any_f64()],
+    ) {
+        let mut out = SENTINEL;
+        let s = unsafe { bt_air_saturation_vapour_pressure_hpa(air_k, &mut out) };
+        agrees(
+            s,
+            out,
+            SaturationFormula::MagnusCimo.saturation_vapour_pressure_hpa(Phase::Water, air_k),
+        )?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_air_dew_point_k(air_k, rh, &mut out) };
+        let want = Air::new(air_k, rh, 1013.25).and_then(|air| air.dew_point_k());
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=air_k)?;
+
+        let path = Air::new(air_k, rh, p).and_then(|air| Path::new(air, d));
+        let mut out = SENTINEL;
+        let s = unsafe { bt_path_spectral_transmittance(air_k, rh, p, d, wl, &mut out) };
+        let want = path.and_then(|path| path.spectral_transmittance(wl));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=1.0)?;
+
+        let band = rect_band(lo, 14.0, bt_detector::Energy);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_path_band_transmittance(&band, air_k, rh, p, d, object_k, &mut out) };
+        let want = Band::rectangular(lo, 14.0, Detector::Energy).and_then(|band| {
+            PathTransmittance::Continuum(path?).band_transmittance(&band, object_k)
+        });
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=1.0)?;
     }
 }
 

@@ -66,7 +66,13 @@ mod calibration;
 mod frame;
 // Two-colour (ratio) pyrometry.
 mod ratio;
+// Humid air and air paths.
+mod atmosphere;
 
+pub use atmosphere::{
+    bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
+    bt_path_spectral_transmittance,
+};
 pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
 };

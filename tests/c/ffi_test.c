@@ -1249,6 +1249,147 @@ static void test_ratio(void) {
     }
 }
 
+/* ---- air and air paths ------------------------------------------------------------------ */
+
+/* CIMO Magnus over water, hPa, and its inverse (WMO No. 8, Annex 4.B), written out. */
+static double magnus_ref(double t_k) {
+    double t = t_k - 273.15;
+    return 6.112 * exp(17.62 * t / (243.12 + t));
+}
+static double dew_point_ref(double e_hpa) {
+    double l = log(e_hpa / 6.112);
+    return 243.12 * l / (17.62 - l) + 273.15;
+}
+
+/* The water-vapour continuum transmittance of a horizontal path written out from
+ * src/atmosphere (self-broadened continuum, CIMO Magnus with the enhancement factor). */
+static double continuum_ref(double air_k, double rh, double p_hpa, double d_m, double wl_um) {
+    double f = 1.0016 + 3.15e-6 * p_hpa - 0.074 / p_hpa;
+    double e = rh * f * magnus_ref(air_k);
+    double w = 216.7 * e / air_k * d_m * 1e-4;
+    double e_atm = e / 1013.25, p_atm = p_hpa / 1013.25;
+    double scale = exp(1800.0 * (1.0 / air_k - 1.0 / 296.0)) *
+                   (e_atm + 0.002 * (p_atm - e_atm)) * w;
+    double c_s = 4.18 + 5578.0 * exp(-7.87e-3 * 1e4 / wl_um);
+    return exp(-c_s * scale);
+}
+
+/* tau_eff = int tau L(T) / int L(T) over [lo, hi], Simpson with 4000 panels. */
+static double band_transmittance_ref(double lo_um, double hi_um, double air_k, double rh,
+                                     double p_hpa, double d_m, double object_k) {
+    const int n = 4000;
+    double step = (hi_um - lo_um) / n, num = 0.0, den = 0.0;
+    int i;
+    for (i = 0; i <= n; i++) {
+        double wl = lo_um + i * step;
+        double weight = (i == 0 || i == n) ? 1.0 : (i % 2 ? 4.0 : 2.0);
+        double l = planck(wl, object_k);
+        num += weight * continuum_ref(air_k, rh, p_hpa, d_m, wl) * l;
+        den += weight * l;
+    }
+    return num / den;
+}
+
+static void test_atmosphere(void) {
+    double out;
+    size_t i;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band narrow = rectangular(10.0, 11.0, BT_DETECTOR_PHOTON);
+    bt_band mwir = rectangular(3.0, 5.0, BT_DETECTOR_ENERGY);
+    double tau1 = SENTINEL, tau2 = SENTINEL;
+
+    /* Saturation pressure and dew point against the Magnus formula written out. */
+    EXPECT_NEAR(bt_air_saturation_vapour_pressure_hpa(273.15, &out), 6.112, 1e-15);
+    EXPECT_NEAR(bt_air_saturation_vapour_pressure_hpa(293.15, &out), magnus_ref(293.15),
+                1e-14);
+    EXPECT_NEAR(bt_air_saturation_vapour_pressure_hpa(233.15, &out), magnus_ref(233.15),
+                1e-14);
+    EXPECT_NEAR(bt_air_dew_point_k(303.15, 0.5, &out), dew_point_ref(0.5 * magnus_ref(303.15)),
+                1e-14);
+    EXPECT_NEAR(bt_air_dew_point_k(293.15, 1.0, &out), 293.15, 1e-14);
+    EXPECT_NEAR(bt_air_dew_point_k(288.0, 0.3, &out), dew_point_ref(0.3 * magnus_ref(288.0)),
+                1e-14);
+
+    /* Spectral transmittance against the continuum written out; Beer-Lambert in d. */
+    EXPECT_NEAR(bt_path_spectral_transmittance(303.15, 0.8, 1013.25, 100.0, 10.0, &out),
+                continuum_ref(303.15, 0.8, 1013.25, 100.0, 10.0), 1e-13);
+    EXPECT_NEAR(bt_path_spectral_transmittance(283.15, 0.4, 900.0, 1000.0, 8.0, &out),
+                continuum_ref(283.15, 0.4, 900.0, 1000.0, 8.0), 1e-13);
+    EXPECT_NEAR(bt_path_spectral_transmittance(303.15, 0.8, 1013.25, 0.0, 12.0, &out), 1.0, 0.0);
+    CHECK(bt_path_spectral_transmittance(300.0, 0.6, 1000.0, 200.0, 11.0, &tau1) ==
+              BT_STATUS_OK &&
+          bt_path_spectral_transmittance(300.0, 0.6, 1000.0, 400.0, 11.0, &tau2) ==
+              BT_STATUS_OK);
+    CHECK(fabs(tau2 - tau1 * tau1) <= 1e-14);
+    CHECK(tau1 > 0.0 && tau1 < 1.0);
+
+    /* Band transmittance against Simpson quadrature of the written-out model. */
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 303.15, 0.8, 1013.25, 100.0, 350.0, &out),
+                band_transmittance_ref(8.0, 14.0, 303.15, 0.8, 1013.25, 100.0, 350.0), 1e-11);
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 290.0, 0.5, 950.0, 1000.0, 1200.0, &out),
+                band_transmittance_ref(8.0, 14.0, 290.0, 0.5, 950.0, 1000.0, 1200.0), 1e-11);
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 303.15, 0.8, 1013.25, 0.0, 350.0, &out), 1.0,
+                0.0);
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 303.15, 0.0, 1013.25, 500.0, 350.0, &out),
+                band_transmittance_ref(8.0, 14.0, 303.15, 0.0, 1013.25, 500.0, 350.0), 1e-11);
+    EXPECT(BT_STATUS_OK,
+           bt_path_band_transmittance(&narrow, 303.15, 0.8, 1013.25, 100.0, 350.0, &out));
+    CHECK(out > 0.0 && out < 1.0);
+
+    /* Named errors, out untouched. */
+    EXPECT(BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE,
+           bt_air_saturation_vapour_pressure_hpa(400.0, &out));
+    EXPECT(BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE,
+           bt_air_saturation_vapour_pressure_hpa(200.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, bt_air_saturation_vapour_pressure_hpa(-1.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_air_saturation_vapour_pressure_hpa(NAN, &out));
+    CHECK(bt_air_saturation_vapour_pressure_hpa(300.0, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_VAPOUR_PRESSURE_OUT_OF_RANGE, bt_air_dew_point_k(300.0, 0.0, &out));
+    EXPECT(BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE, bt_air_dew_point_k(300.0, 1.5, &out));
+    EXPECT(BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE, bt_air_dew_point_k(300.0, -0.1, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_air_dew_point_k(300.0, NAN, &out));
+    CHECK(bt_air_dew_point_k(300.0, 0.5, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_OUTSIDE_CONTINUUM_MODEL,
+           bt_path_spectral_transmittance(300.0, 0.5, 1013.25, 100.0, 4.0, &out));
+    EXPECT(BT_STATUS_DISTANCE_NEGATIVE,
+           bt_path_spectral_transmittance(300.0, 0.5, 1013.25, -1.0, 10.0, &out));
+    EXPECT(BT_STATUS_AIR_PRESSURE_OUT_OF_RANGE,
+           bt_path_spectral_transmittance(300.0, 0.5, 200.0, 100.0, 10.0, &out));
+    CHECK(bt_path_spectral_transmittance(300.0, 0.5, 1013.25, 100.0, 10.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_NULL_POINTER,
+           bt_path_band_transmittance(NULL, 300.0, 0.5, 1013.25, 100.0, 350.0, &out));
+    CHECK(bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, 100.0, 350.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_OUTSIDE_CONTINUUM_MODEL,
+           bt_path_band_transmittance(&mwir, 300.0, 0.5, 1013.25, 100.0, 350.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE,
+           bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, 100.0, 0.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE,
+           bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, INFINITY, 350.0, &out));
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        double a = ARGS[i];
+        EXPECT_SANE(bt_air_saturation_vapour_pressure_hpa(a, &out));
+        EXPECT_SANE(bt_air_dew_point_k(a, 0.5, &out));
+        EXPECT_SANE(bt_air_dew_point_k(300.0, a, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(a, 0.5, 1013.25, 100.0, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, a, 1013.25, 100.0, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, 0.5, a, 100.0, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, 0.5, 1013.25, a, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, 0.5, 1013.25, 100.0, a, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, a, 0.5, 1013.25, 100.0, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, a, 1013.25, 100.0, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, 0.5, a, 100.0, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, a, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, 100.0, a, &out));
+        if (out != SENTINEL) {
+            CHECK(out >= 0.0 && out <= 1.0);
+        }
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -1262,6 +1403,7 @@ int main(void) {
     test_frame_band();
     test_frame_sakuma_hattori();
     test_ratio();
+    test_atmosphere();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
