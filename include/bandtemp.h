@@ -35,6 +35,11 @@
 #define BT_VERSION_PATCH 0
 
 /**
+ * Maximum number of lines of a `bt_budget`.
+ */
+#define BT_BUDGET_MAX_LINES 16
+
+/**
  * What a `bt_` function reports: `BT_STATUS_OK` (0) or the named reason it failed.
  *
  * Values are explicit and never reused: a retired status keeps its number unused. They
@@ -663,6 +668,112 @@ typedef struct {
      */
     uint64_t above_range;
 } bt_frame_summary;
+
+/**
+ * Standard uncertainties of the inputs of a surface-temperature measurement, each in its
+ * input's unit (0 = known exactly; every value finite and >= 0). The order and names of
+ * the inputs are those of `bt_surface_input_name`.
+ */
+typedef struct {
+    /**
+     * Signal noise (repeatability), signal units.
+     */
+    double signal;
+    /**
+     * Calibration, as a temperature: the uncertainty of the blackbody temperature scale
+     * at the apparent temperature of the reading, K.
+     */
+    double calibration_k;
+    /**
+     * Calibration, as a signal offset (e.g. a zero or gain term), signal units.
+     */
+    double calibration_signal;
+    /**
+     * Emissivity e (dimensionless).
+     */
+    double emissivity;
+    /**
+     * Reflected apparent temperature Tr, K.
+     */
+    double reflected_k;
+    /**
+     * Atmosphere transmittance ta (dimensionless).
+     */
+    double atm_transmittance;
+    /**
+     * Atmosphere temperature Ta, K.
+     */
+    double atm_k;
+    /**
+     * Window transmittance tw (dimensionless).
+     */
+    double window_transmittance;
+    /**
+     * Window reflectance rw (dimensionless).
+     */
+    double window_reflectance;
+    /**
+     * Window temperature Tw, K.
+     */
+    double window_k;
+    /**
+     * Temperature the window reflects, Twr, K.
+     */
+    double window_reflected_k;
+} bt_input_uncertainties;
+
+/**
+ * One line of a `bt_budget`.
+ */
+typedef struct {
+    /**
+     * The input's position (0-based) in `bt_input_uncertainties`; its name is
+     * `bt_surface_input_name(index)`.
+     */
+    size_t index;
+    /**
+     * Standard uncertainty u(x_i), input unit.
+     */
+    double standard_uncertainty;
+    /**
+     * Sensitivity coefficient c_i, K per input unit.
+     */
+    double sensitivity;
+    /**
+     * Contribution u_i(T) = |c_i| u(x_i), K.
+     */
+    double contribution_k;
+    /**
+     * Share of the combined variance (dimensionless; the shares sum to 1, 0 each when the
+     * combined uncertainty is 0).
+     */
+    double variance_share;
+} bt_contribution;
+
+/**
+ * An uncertainty budget of a temperature: the estimate, the combined standard
+ * uncertainty, and the contributions ranked largest first.
+ */
+typedef struct {
+    /**
+     * The estimate: the object temperature, K.
+     */
+    double estimate_k;
+    /**
+     * Combined standard uncertainty u_c(T), K (multiply by the coverage factor, e.g. 2,
+     * for an expanded uncertainty).
+     */
+    double combined_standard_uncertainty_k;
+    /**
+     * Number of lines in use in `ranked`.
+     */
+    size_t len;
+    /**
+     * Lines ranked by `contribution_k`, largest first (ties keep input order); lines from
+     * `len` on are zero.
+     */
+    bt_contribution ranked[BT_BUDGET_MAX_LINES];
+} bt_budget;
 
 #ifdef __cplusplus
 extern "C" {
@@ -1314,6 +1425,38 @@ bt_status bt_path_spectral_transmittance(double air_k,
                                          double distance_m,
                                          double wavelength_um,
                                          double *out);
+
+/**
+ * Uncertainty budget of a surface temperature by the law of propagation (GUM, first
+ * order, inputs uncorrelated): the estimate is `bt_object_temperature` of
+ * `sensor_radiance`, and each input of `u` enters with the exact derivative of the
+ * measurement equation as its sensitivity coefficient. Inputs with u = 0 appear with a
+ * zero contribution; `out->len` is 11.
+ *
+ * Valid where the measurement equation is near-linear over the input uncertainties
+ * (low emissivity against a hot background is the classic case where it is not).
+ *
+ * Errors: those of `bt_object_temperature`; `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NON_FINITE` or `BT_STATUS_UNCERTAINTY_NEGATIVE`
+ * for `u`.
+ *
+ * # Safety
+ * `band` and `scene` as in `bt_object_temperature`; `u` null or valid for reading a
+ * `bt_input_uncertainties`; `out` null or valid for writing a `bt_budget`; written only
+ * on success.
+ */
+bt_status bt_surface_budget(const bt_band *band,
+                            const bt_scene *scene,
+                            double sensor_radiance,
+                            const bt_input_uncertainties *u,
+                            bt_budget *out);
+
+/**
+ * The name of input `index` of a surface budget (the field of `bt_input_uncertainties`
+ * at that position, and `bt_contribution.index`), e.g. "signal noise", as a static
+ * NUL-terminated string; NULL for an index past the last input (10). Do not free it.
+ */
+const char *bt_surface_input_name(size_t index);
 
 #ifdef __cplusplus
 }  // extern "C"

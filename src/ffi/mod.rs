@@ -68,6 +68,8 @@ mod frame;
 mod ratio;
 // Humid air and air paths.
 mod atmosphere;
+// Uncertainty budgets.
+mod uncertainty;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -100,6 +102,10 @@ pub use scene::{
 };
 pub use status::{
     bt_status, bt_status_message, bt_version, BT_VERSION_MAJOR, BT_VERSION_MINOR, BT_VERSION_PATCH,
+};
+pub use uncertainty::{
+    bt_budget, bt_contribution, bt_input_uncertainties, bt_surface_budget, bt_surface_input_name,
+    BT_BUDGET_MAX_LINES,
 };
 
 use crate::error::{Error, Result};

@@ -1390,6 +1390,175 @@ static void test_atmosphere(void) {
     }
 }
 
+/* ---- uncertainty budgets ---------------------------------------------------------------- */
+
+static bt_budget budget_sentinel(void) {
+    bt_budget b;
+    memset(&b, 0xA5, sizeof b);
+    return b;
+}
+
+static int budget_untouched(const bt_budget *b) {
+    bt_budget s = budget_sentinel();
+    return memcmp(b, &s, sizeof s) == 0;
+}
+
+/* Success with every number finite, or a named error with the budget untouched. */
+static void expect_budget_sane(bt_status status, const bt_budget *b, const char *what,
+                               int line) {
+    int ok;
+    if (status == BT_STATUS_OK) {
+        size_t i;
+        ok = isfinite(b->estimate_k) && isfinite(b->combined_standard_uncertainty_k) &&
+             b->len == 11;
+        for (i = 0; i < BT_BUDGET_MAX_LINES; i++) {
+            ok = ok && isfinite(b->ranked[i].standard_uncertainty) &&
+                 isfinite(b->ranked[i].sensitivity) && isfinite(b->ranked[i].contribution_k) &&
+                 isfinite(b->ranked[i].variance_share);
+        }
+    } else {
+        ok = budget_untouched(b) && known_status(status);
+    }
+    if (!ok) {
+        printf("  status %d (%s)\n", (int)status, bt_status_message(status));
+    }
+    check(ok, what, line);
+}
+#define EXPECT_BUDGET_SANE(call)                                                               \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        budget = budget_sentinel();                                                            \
+        status_ = (call);                                                                      \
+        expect_budget_sane(status_, &budget, #call, __LINE__);                                 \
+    } while (0)
+
+static void test_uncertainty(void) {
+    double out, s, t = 400.0, t_est = SENTINEL, g, derivative = SENTINEL, sum2 = 0.0;
+    double share = 0.0, h = 1e-4, t_hi = SENTINEL, t_lo = SENTINEL;
+    size_t i, j, seen[11] = {0};
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene(), shifted;
+    bt_input_uncertainties u = {0.05, 0.5, 0.02, 0.02, 2.0, 0.01, 1.0, 0.005, 0.005, 1.0, 1.0};
+    bt_input_uncertainties hostile;
+    bt_budget budget;
+    double fields[11];
+
+    CHECK(bt_sensor_radiance(&lwir, &scene, t, &s) == BT_STATUS_OK);
+    CHECK(bt_object_temperature(&lwir, &scene, s, &t_est) == BT_STATUS_OK);
+    CHECK(sizeof u == sizeof fields);
+    memcpy(fields, &u, sizeof fields);
+    CHECK(bt_band_radiance_derivative(&lwir, t_est, &derivative) == BT_STATUS_OK);
+    budget = budget_sentinel();
+    CHECK(bt_surface_budget(&lwir, &scene, s, &u, &budget) == BT_STATUS_OK);
+    CHECK(budget.len == 11);
+    CHECK(fabs(budget.estimate_k - t_est) <= 1e-12 * t_est);
+    for (i = 0; i < budget.len; i++) {
+        const bt_contribution *c = &budget.ranked[i];
+        double u_i = c->index < 11 ? fields[c->index] : NAN;
+        CHECK(c->index < 11 && !seen[c->index]);
+        if (c->index < 11) {
+            seen[c->index] = 1;
+        }
+        CHECK(c->standard_uncertainty == u_i);
+        CHECK(fabs(c->contribution_k - fabs(c->sensitivity) * u_i) <=
+              1e-15 * c->contribution_k + 1e-300);
+        CHECK(i == 0 || budget.ranked[i - 1].contribution_k >= c->contribution_k);
+        sum2 += c->contribution_k * c->contribution_k;
+        share += c->variance_share;
+        /* Signal noise: c = 1 / (G L'(T)), G = tw ta e (the measurement equation). */
+        if (c->index == 0) {
+            g = scene.window_transmittance * scene.atm_transmittance * scene.emissivity;
+            CHECK(fabs(c->sensitivity - 1.0 / (g * derivative)) <= 1e-12 * fabs(c->sensitivity));
+        }
+        /* Emissivity: against a central difference of bt_object_temperature. */
+        if (c->index == 3) {
+            double fd;
+            shifted = scene;
+            shifted.emissivity = scene.emissivity + h;
+            CHECK(bt_object_temperature(&lwir, &shifted, s, &t_hi) == BT_STATUS_OK);
+            shifted.emissivity = scene.emissivity - h;
+            CHECK(bt_object_temperature(&lwir, &shifted, s, &t_lo) == BT_STATUS_OK);
+            fd = (t_hi - t_lo) / (2.0 * h);
+            CHECK(fabs(c->sensitivity - fd) <= 1e-6 * fabs(fd));
+        }
+    }
+    for (i = budget.len; i < BT_BUDGET_MAX_LINES; i++) {
+        CHECK(budget.ranked[i].contribution_k == 0.0 && budget.ranked[i].sensitivity == 0.0);
+    }
+    CHECK(fabs(budget.combined_standard_uncertainty_k - sqrt(sum2)) <=
+          1e-12 * budget.combined_standard_uncertainty_k);
+    CHECK(fabs(share - 1.0) <= 1e-12);
+    CHECK(budget.combined_standard_uncertainty_k > 0.0);
+
+    /* Input names: static strings, NULL past the end. */
+    CHECK(bt_surface_input_name(0) != NULL &&
+          strcmp(bt_surface_input_name(0), "signal noise") == 0);
+    CHECK(bt_surface_input_name(3) != NULL &&
+          strcmp(bt_surface_input_name(3), "emissivity") == 0);
+    CHECK(bt_surface_input_name(10) != NULL &&
+          strcmp(bt_surface_input_name(10), "window reflected temperature") == 0);
+    for (i = 0; i < 11; i++) {
+        CHECK(bt_surface_input_name(i) != NULL && bt_surface_input_name(i)[0] != '\0');
+        for (j = 0; j < i; j++) {
+            CHECK(strcmp(bt_surface_input_name(i), bt_surface_input_name(j)) != 0);
+        }
+    }
+    CHECK(bt_surface_input_name(11) == NULL);
+    CHECK(bt_surface_input_name(SIZE_MAX) == NULL);
+
+    /* All uncertainties zero: a zero budget. */
+    memset(&hostile, 0, sizeof hostile);
+    budget = budget_sentinel();
+    CHECK(bt_surface_budget(&lwir, &scene, s, &hostile, &budget) == BT_STATUS_OK);
+    CHECK(budget.combined_standard_uncertainty_k == 0.0 && budget.len == 11);
+
+    /* Named errors, budget untouched. */
+#define EXPECT_BUDGET(want, call)                                                              \
+    do {                                                                                       \
+        budget = budget_sentinel();                                                            \
+        CHECK((call) == (want));                                                               \
+        CHECK(budget_untouched(&budget));                                                      \
+    } while (0)
+    EXPECT_BUDGET(BT_STATUS_NULL_POINTER, bt_surface_budget(NULL, &scene, s, &u, &budget));
+    EXPECT_BUDGET(BT_STATUS_NULL_POINTER, bt_surface_budget(&lwir, NULL, s, &u, &budget));
+    EXPECT_BUDGET(BT_STATUS_NULL_POINTER, bt_surface_budget(&lwir, &scene, s, NULL, &budget));
+    CHECK(bt_surface_budget(&lwir, &scene, s, &u, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT_BUDGET(BT_STATUS_INVALID_BUFFER,
+                  bt_surface_budget(&lwir, &scene, s,
+                                    (const bt_input_uncertainties *)misaligned(&u), &budget));
+    EXPECT_BUDGET(BT_STATUS_SIGNAL_BELOW_BACKGROUND,
+                  bt_surface_budget(&lwir, &scene, 1.0, &u, &budget));
+    EXPECT_BUDGET(BT_STATUS_NON_FINITE, bt_surface_budget(&lwir, &scene, NAN, &u, &budget));
+    hostile = u;
+    hostile.emissivity = -0.01;
+    EXPECT_BUDGET(BT_STATUS_UNCERTAINTY_NEGATIVE,
+                  bt_surface_budget(&lwir, &scene, s, &hostile, &budget));
+    hostile = u;
+    hostile.window_k = INFINITY;
+    EXPECT_BUDGET(BT_STATUS_NON_FINITE, bt_surface_budget(&lwir, &scene, s, &hostile, &budget));
+    shifted = scene;
+    shifted.emissivity = 0.0;
+    EXPECT_BUDGET(BT_STATUS_EMISSIVITY_OUT_OF_RANGE,
+                  bt_surface_budget(&lwir, &shifted, s, &u, &budget));
+#undef EXPECT_BUDGET
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        EXPECT_BUDGET_SANE(bt_surface_budget(&lwir, &scene, ARGS[i], &u, &budget));
+        for (j = 0; j < 11; j++) {
+            memcpy(fields, &u, sizeof fields);
+            fields[j] = ARGS[i];
+            memcpy(&hostile, fields, sizeof fields);
+            EXPECT_BUDGET_SANE(bt_surface_budget(&lwir, &scene, s, &hostile, &budget));
+        }
+        hostile = u;
+        shifted = scene;
+        shifted.reflected_k = ARGS[i];
+        EXPECT_BUDGET_SANE(bt_surface_budget(&lwir, &shifted, s, &u, &budget));
+    }
+    (void)out;
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -1404,6 +1573,7 @@ int main(void) {
     test_frame_sakuma_hattori();
     test_ratio();
     test_atmosphere();
+    test_uncertainty();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
