@@ -35,6 +35,11 @@
 #define BT_VERSION_PATCH 0
 
 /**
+ * Maximum number of lines of a `bt_budget`.
+ */
+#define BT_BUDGET_MAX_LINES 16
+
+/**
  * What a `bt_` function reports: `BT_STATUS_OK` (0) or the named reason it failed.
  *
  * Values are explicit and never reused: a retired status keeps its number unused. They
@@ -664,6 +669,112 @@ typedef struct {
     uint64_t above_range;
 } bt_frame_summary;
 
+/**
+ * Standard uncertainties of the inputs of a surface-temperature measurement, each in its
+ * input's unit (0 = known exactly; every value finite and >= 0). The order and names of
+ * the inputs are those of `bt_surface_input_name`.
+ */
+typedef struct {
+    /**
+     * Signal noise (repeatability), signal units.
+     */
+    double signal;
+    /**
+     * Calibration, as a temperature: the uncertainty of the blackbody temperature scale
+     * at the apparent temperature of the reading, K.
+     */
+    double calibration_k;
+    /**
+     * Calibration, as a signal offset (e.g. a zero or gain term), signal units.
+     */
+    double calibration_signal;
+    /**
+     * Emissivity e (dimensionless).
+     */
+    double emissivity;
+    /**
+     * Reflected apparent temperature Tr, K.
+     */
+    double reflected_k;
+    /**
+     * Atmosphere transmittance ta (dimensionless).
+     */
+    double atm_transmittance;
+    /**
+     * Atmosphere temperature Ta, K.
+     */
+    double atm_k;
+    /**
+     * Window transmittance tw (dimensionless).
+     */
+    double window_transmittance;
+    /**
+     * Window reflectance rw (dimensionless).
+     */
+    double window_reflectance;
+    /**
+     * Window temperature Tw, K.
+     */
+    double window_k;
+    /**
+     * Temperature the window reflects, Twr, K.
+     */
+    double window_reflected_k;
+} bt_input_uncertainties;
+
+/**
+ * One line of a `bt_budget`.
+ */
+typedef struct {
+    /**
+     * The input's position (0-based) in `bt_input_uncertainties`; its name is
+     * `bt_surface_input_name(index)`.
+     */
+    size_t index;
+    /**
+     * Standard uncertainty u(x_i), input unit.
+     */
+    double standard_uncertainty;
+    /**
+     * Sensitivity coefficient c_i, K per input unit.
+     */
+    double sensitivity;
+    /**
+     * Contribution u_i(T) = |c_i| u(x_i), K.
+     */
+    double contribution_k;
+    /**
+     * Share of the combined variance (dimensionless; the shares sum to 1, 0 each when the
+     * combined uncertainty is 0).
+     */
+    double variance_share;
+} bt_contribution;
+
+/**
+ * An uncertainty budget of a temperature: the estimate, the combined standard
+ * uncertainty, and the contributions ranked largest first.
+ */
+typedef struct {
+    /**
+     * The estimate: the object temperature, K.
+     */
+    double estimate_k;
+    /**
+     * Combined standard uncertainty u_c(T), K (multiply by the coverage factor, e.g. 2,
+     * for an expanded uncertainty).
+     */
+    double combined_standard_uncertainty_k;
+    /**
+     * Number of lines in use in `ranked`.
+     */
+    size_t len;
+    /**
+     * Lines ranked by `contribution_k`, largest first (ties keep input order); lines from
+     * `len` on are zero.
+     */
+    bt_contribution ranked[BT_BUDGET_MAX_LINES];
+} bt_budget;
+
 #ifdef __cplusplus
 extern "C" {
 #endif // __cplusplus
@@ -1206,6 +1317,146 @@ bt_status bt_frame_convert_signal(const bt_frame_converter *converter,
                                   float *kelvin,
                                   size_t kelvin_len,
                                   bt_frame_summary *summary);
+
+/**
+ * True temperature of a surface, K, from its signals in two bands (two-colour or ratio
+ * pyrometry): solves R = S1/S2 = kappa L1(T)/L2(T) for T over [`t_min_k`, `t_max_k`],
+ * kappa = `emissivity_ratio` = e1/e2 (1 for a grey surface). The signals are band
+ * radiances in the bands' units, or both scaled by one common factor.
+ *
+ * Accuracy: |dT/T| below 1e-12 for any accepted pair of bands.
+ * Errors: the bands' errors (as `bt_band_radiance`), `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_RATIO_RANGE_INVALID` unless
+ * t_min_k < t_max_k, `BT_STATUS_BANDS_INDISTINGUISHABLE` when |d ln R / d ln T| falls
+ * below 0.1 in the range, `BT_STATUS_RADIANCE_NOT_POSITIVE` for a signal <= 0,
+ * `BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE`, `BT_STATUS_RATIO_OUT_OF_RANGE` when R/kappa
+ * is outside what the range produces, `BT_STATUS_NOT_CONVERGED`.
+ *
+ * The working range is checked on every call (65 band-ratio evaluations); a fast path
+ * over many readings is a frame converter's job.
+ *
+ * # Safety
+ * `band1` and `band2` as in `bt_band_radiance`; `temperature_k` null or valid for
+ * writing a double; written only on success.
+ */
+bt_status bt_ratio_temperature(const bt_band *band1,
+                               const bt_band *band2,
+                               double t_min_k,
+                               double t_max_k,
+                               double signal1,
+                               double signal2,
+                               double emissivity_ratio,
+                               double *temperature_k);
+
+/**
+ * Saturation vapour pressure of pure water vapour over a plane surface of liquid water
+ * at `temperature_k`, hPa, by the CIMO (WMO No. 8) Magnus formula
+ * e_w = 6.112 exp(17.62 t / (243.12 + t)), t in deg C; no enhancement factor.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE` outside
+ * -45..+60 deg C.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_air_saturation_vapour_pressure_hpa(double temperature_k, double *out);
+
+/**
+ * Dew point, K, of air at `temperature_k` with `relative_humidity` (a fraction in
+ * [0, 1], with respect to liquid water): the temperature at which e_w(T_d) = U e_w(T)
+ * (CIMO Magnus). Independent of the air pressure (the enhancement factor cancels).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE` outside
+ * -45..+60 deg C, `BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE`,
+ * `BT_STATUS_VAPOUR_PRESSURE_OUT_OF_RANGE` for dry air (U = 0) or a dew point below
+ * -45 deg C.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_air_dew_point_k(double temperature_k, double relative_humidity, double *out);
+
+/**
+ * Band-effective transmittance of a horizontal air path, weighted by the object's own
+ * spectrum: tau_eff = int r tau L(T_obj) / int r L(T_obj), in [0, 1], with tau(lambda)
+ * from the water-vapour continuum model (valid for bands inside 8-14 um). The value to
+ * put in `bt_scene.atm_transmittance`.
+ *
+ * `air_k` the air temperature, `relative_humidity` a fraction in [0, 1], `pressure_hpa`
+ * in [500, 1100], `distance_m` >= 0 (0 gives 1), `object_k` the object temperature.
+ *
+ * Accuracy: relative 1e-12 against quadrature of the model (the model's own error is
+ * larger; see the crate's atmosphere docs).
+ * Errors: the band's errors (as `bt_band_radiance`), `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE`,
+ * `BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE`, `BT_STATUS_AIR_PRESSURE_OUT_OF_RANGE`,
+ * `BT_STATUS_DISTANCE_NEGATIVE`, `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` for a band
+ * reaching outside 8-14 um, `BT_STATUS_RADIANCE_UNDERFLOW`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
+ * only on success.
+ */
+bt_status bt_path_band_transmittance(const bt_band *band,
+                                     double air_k,
+                                     double relative_humidity,
+                                     double pressure_hpa,
+                                     double distance_m,
+                                     double object_k,
+                                     double *out);
+
+/**
+ * Spectral transmittance tau(lambda) = exp(-k w) in (0, 1] of a horizontal air path at
+ * `wavelength_um` (8-14 um), the water-vapour continuum model; arguments as
+ * `bt_path_band_transmittance`.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, the air's and path's
+ * errors (as `bt_path_band_transmittance`), `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` outside
+ * 8-14 um.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_path_spectral_transmittance(double air_k,
+                                         double relative_humidity,
+                                         double pressure_hpa,
+                                         double distance_m,
+                                         double wavelength_um,
+                                         double *out);
+
+/**
+ * Uncertainty budget of a surface temperature by the law of propagation (GUM, first
+ * order, inputs uncorrelated): the estimate is `bt_object_temperature` of
+ * `sensor_radiance`, and each input of `u` enters with the exact derivative of the
+ * measurement equation as its sensitivity coefficient. Inputs with u = 0 appear with a
+ * zero contribution; `out->len` is 11.
+ *
+ * Valid where the measurement equation is near-linear over the input uncertainties
+ * (low emissivity against a hot background is the classic case where it is not).
+ *
+ * Errors: those of `bt_object_temperature`; `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NON_FINITE` or `BT_STATUS_UNCERTAINTY_NEGATIVE`
+ * for `u`.
+ *
+ * # Safety
+ * `band` and `scene` as in `bt_object_temperature`; `u` null or valid for reading a
+ * `bt_input_uncertainties`; `out` null or valid for writing a `bt_budget`; written only
+ * on success.
+ */
+bt_status bt_surface_budget(const bt_band *band,
+                            const bt_scene *scene,
+                            double sensor_radiance,
+                            const bt_input_uncertainties *u,
+                            bt_budget *out);
+
+/**
+ * The name of input `index` of a surface budget (the field of `bt_input_uncertainties`
+ * at that position, and `bt_contribution.index`), e.g. "signal noise", as a static
+ * NUL-terminated string; NULL for an index past the last input (10). Do not free it.
+ */
+const char *bt_surface_input_name(size_t index);
 
 #ifdef __cplusplus
 }  // extern "C"

@@ -4,11 +4,14 @@
 //! named error. The exports must also agree with the Rust API they wrap, write their out
 //! values only on success, and answer bad pointers with a status.
 
+use bandtemp::atmosphere::{Air, Path, PathTransmittance, Phase, SaturationFormula};
 use bandtemp::band::{Band, SignalCurve, SpectralTable};
 use bandtemp::calibration::{fit_band, fit_points, SakumaHattori};
 use bandtemp::ffi::*;
 use bandtemp::planck::{self, Detector};
+use bandtemp::ratio::RatioPyrometer;
 use bandtemp::scene::Scene;
+use bandtemp::uncertainty::{surface_budget, InputUncertainties, SURFACE_INPUT_NAMES};
 use bandtemp::Error;
 use core::ffi::c_int;
 use core::mem::{offset_of, size_of};
@@ -528,6 +531,32 @@ fn bad_pointers_are_answered_with_a_status() {
             bt_status::NullPointer
         );
         assert_eq!(
+            bt_ratio_temperature(
+                core::ptr::null(),
+                &good,
+                900.0,
+                3000.0,
+                1.0,
+                1.0,
+                1.0,
+                &mut out
+            ),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_ratio_temperature(
+                &good,
+                core::ptr::null(),
+                900.0,
+                3000.0,
+                1.0,
+                1.0,
+                1.0,
+                &mut out
+            ),
+            bt_status::NullPointer
+        );
+        assert_eq!(
             bt_sakuma_hattori_signal(core::ptr::null(), 300.0, &mut out),
             bt_status::NullPointer
         );
@@ -602,6 +631,296 @@ fn bad_pointers_are_answered_with_a_status() {
     };
     let s = unsafe { bt_band_radiance(&near_top, 300.0, &mut out) };
     assert_eq!(s, bt_status::InvalidBuffer);
+}
+
+// ---- ratio pyrometry ---------------------------------------------------------------------
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn ratio_temperature(
+        edges in prop_oneof![
+            Just([0.65, 0.75, 0.85, 0.95]),
+            prop::array::uniform4(any_f64()),
+            (0usize..4, any_f64()).prop_map(|(i, x)| {
+                let mut e = [0.65, 0.75, 0.85, 0.95];
+                if let Some(slot) = e.get_mut(i) {
+                    *slot = x;
+                }
+                e
+            }),
+        ],
+        t_min in prop_oneof![Just(900.0), any_f64()],
+        t_max in prop_oneof![Just(3000.0), any_f64()],
+        t in 900.0f64..3000.0,
+        s1 in any_f64(), s2 in any_f64(), kappa in prop_oneof![Just(1.0), any_f64()],
+        from_t in any::<bool>(),
+    ) {
+        let [lo1, hi1, lo2, hi2] = edges;
+        let band1 = rect_band(lo1, hi1, bt_detector::Energy);
+        let band2 = rect_band(lo2, hi2, bt_detector::Energy);
+        let b1 = Band::rectangular(lo1, hi1, Detector::Energy);
+        let b2 = Band::rectangular(lo2, hi2, Detector::Energy);
+        // Half the cases take signals a real surface gives.
+        let (s1, s2) = match (from_t, b1, b2) {
+            (true, Ok(b1), Ok(b2)) => (
+                b1.radiance(t).unwrap_or(s1),
+                b2.radiance(t).unwrap_or(s2),
+            ),
+            _ => (s1, s2),
+        };
+        let mut out = SENTINEL;
+        let s = unsafe {
+            bt_ratio_temperature(&band1, &band2, t_min, t_max, s1, s2, kappa, &mut out)
+        };
+        let want = (|| {
+            let pyrometer = RatioPyrometer::new(b1?, b2?, t_min, t_max)?;
+            Ok(pyrometer.temperature_from_signals(s1, s2, kappa)?.solution.temperature_k)
+        })();
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=f64::MAX)?;
+    }
+}
+
+// ---- air and air paths -------------------------------------------------------------------
+
+/// Air near valid values with one argument arbitrary, or all arbitrary.
+fn air_args() -> impl Strategy<Value = [f64; 4]> {
+    let valid = [300.0, 0.6, 1013.25, 100.0];
+    prop_oneof![
+        (0usize..4, any_f64()).prop_map(move |(i, x)| {
+            let mut a = valid;
+            if let Some(slot) = a.get_mut(i) {
+                *slot = x;
+            }
+            a
+        }),
+        prop::array::uniform4(any_f64()),
+        (
+            230.0f64..330.0,
+            0.0f64..=1.0,
+            500.0f64..=1100.0,
+            0.0f64..5000.0
+        )
+            .prop_map(|(t, u, p, d)| [t, u, p, d]),
+    ]
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn air_and_paths(
+        [air_k, rh, p, d] in air_args(),
+        wl in prop_oneof![8.0f64..=14.0, any_f64()],
+        object_k in prop_oneof![200.0f64..2000.0, any_f64()],
+        lo in prop_oneof![8.0f64..11.0, any_f64()],
+    ) {
+        let mut out = SENTINEL;
+        let s = unsafe { bt_air_saturation_vapour_pressure_hpa(air_k, &mut out) };
+        agrees(
+            s,
+            out,
+            SaturationFormula::MagnusCimo.saturation_vapour_pressure_hpa(Phase::Water, air_k),
+        )?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_air_dew_point_k(air_k, rh, &mut out) };
+        let want = Air::new(air_k, rh, 1013.25).and_then(|air| air.dew_point_k());
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=air_k)?;
+
+        let path = Air::new(air_k, rh, p).and_then(|air| Path::new(air, d));
+        let mut out = SENTINEL;
+        let s = unsafe { bt_path_spectral_transmittance(air_k, rh, p, d, wl, &mut out) };
+        let want = path.and_then(|path| path.spectral_transmittance(wl));
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=1.0)?;
+
+        let band = rect_band(lo, 14.0, bt_detector::Energy);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_path_band_transmittance(&band, air_k, rh, p, d, object_k, &mut out) };
+        let want = Band::rectangular(lo, 14.0, Detector::Energy).and_then(|band| {
+            PathTransmittance::Continuum(path?).band_transmittance(&band, object_k)
+        });
+        agrees(s, out, want)?;
+        valid_or_named(want, 0.0..=1.0)?;
+    }
+}
+
+// ---- uncertainty budgets -----------------------------------------------------------------
+
+fn budget_sentinel() -> bt_budget {
+    bt_budget {
+        estimate_k: SENTINEL,
+        combined_standard_uncertainty_k: SENTINEL,
+        len: 999,
+        ranked: [bt_contribution {
+            index: 999,
+            standard_uncertainty: SENTINEL,
+            sensitivity: SENTINEL,
+            contribution_k: SENTINEL,
+            variance_share: SENTINEL,
+        }; BT_BUDGET_MAX_LINES],
+    }
+}
+
+fn c_uncertainties(f: [f64; 11]) -> bt_input_uncertainties {
+    let [signal, calibration_k, calibration_signal, emissivity, reflected_k, atm_transmittance, atm_k, window_transmittance, window_reflectance, window_k, window_reflected_k] =
+        f;
+    bt_input_uncertainties {
+        signal,
+        calibration_k,
+        calibration_signal,
+        emissivity,
+        reflected_k,
+        atm_transmittance,
+        atm_k,
+        window_transmittance,
+        window_reflectance,
+        window_k,
+        window_reflected_k,
+    }
+}
+
+fn rust_uncertainties(f: [f64; 11]) -> InputUncertainties {
+    let [signal, calibration_k, calibration_signal, emissivity, reflected_k, atm_transmittance, atm_k, window_transmittance, window_reflectance, window_k, window_reflected_k] =
+        f;
+    InputUncertainties {
+        signal,
+        calibration_k,
+        calibration_signal,
+        emissivity,
+        reflected_k,
+        atm_transmittance,
+        atm_k,
+        window_transmittance,
+        window_reflectance,
+        window_k,
+        window_reflected_k,
+    }
+}
+
+fn uncertainty_fields() -> impl Strategy<Value = [f64; 11]> {
+    let valid = [
+        0.05, 0.5, 0.02, 0.02, 2.0, 0.01, 1.0, 0.005, 0.005, 1.0, 1.0,
+    ];
+    prop_oneof![
+        (0usize..11, any_f64()).prop_map(move |(i, x)| {
+            let mut f = valid;
+            if let Some(slot) = f.get_mut(i) {
+                *slot = x;
+            }
+            f
+        }),
+        prop::array::uniform11(any_f64()),
+        prop::array::uniform11(0.0f64..1.0),
+        Just(valid),
+    ]
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn surface_budgets(
+        fields in scene_fields(),
+        u in uncertainty_fields(),
+        signal in prop_oneof![any_f64(), 5.0f64..200.0],
+    ) {
+        let band = rect_band(8.0, 14.0, bt_detector::Energy);
+        let rust_band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+        let scene = c_scene(fields);
+        let c_u = c_uncertainties(u);
+        let mut out = budget_sentinel();
+        let s = unsafe { bt_surface_budget(&band, &scene, signal, &c_u, &mut out) };
+        let want = rust_scene(&scene)
+            .and_then(|sc| surface_budget(&sc, &rust_band, signal, &rust_uncertainties(u)));
+        match want {
+            Ok(b) if s == bt_status::Ok => {
+                prop_assert_eq!(out.estimate_k.to_bits(), b.estimate.to_bits());
+                prop_assert_eq!(
+                    out.combined_standard_uncertainty_k.to_bits(),
+                    b.combined_standard_uncertainty.to_bits()
+                );
+                prop_assert_eq!(out.len, b.len);
+                for (c, r) in out.ranked.iter().zip(b.ranked.iter()) {
+                    prop_assert_eq!(c.index, r.index);
+                    prop_assert_eq!(c.standard_uncertainty.to_bits(), r.standard_uncertainty.to_bits());
+                    prop_assert_eq!(c.sensitivity.to_bits(), r.sensitivity.to_bits());
+                    prop_assert_eq!(c.contribution_k.to_bits(), r.contribution.to_bits());
+                    prop_assert_eq!(c.variance_share.to_bits(), r.variance_share.to_bits());
+                    prop_assert!(c.contribution_k.is_finite() && c.variance_share.is_finite());
+                }
+            }
+            Ok(b) => {
+                // Only the boundary's own finiteness check may refuse a core success.
+                prop_assert!(
+                    s == bt_status::NonFinite || s == bt_status::RadianceOverflow,
+                    "status {:?} for a core success {:?}", s, b
+                );
+                prop_assert_eq!(out, budget_sentinel());
+            }
+            Err(error) => {
+                prop_assert_eq!(s, bt_status::from(error));
+                prop_assert_eq!(out, budget_sentinel());
+            }
+        }
+    }
+
+    #[test]
+    fn surface_input_names(index in any::<usize>()) {
+        let ptr = bt_surface_input_name(index);
+        match SURFACE_INPUT_NAMES.get(index) {
+            Some(name) => {
+                prop_assert!(!ptr.is_null());
+                let text = unsafe { core::ffi::CStr::from_ptr(ptr) };
+                prop_assert_eq!(text.to_str().unwrap(), *name);
+            }
+            None => prop_assert!(ptr.is_null()),
+        }
+    }
+}
+
+#[test]
+fn every_surface_input_has_its_name() {
+    for (i, name) in SURFACE_INPUT_NAMES.iter().enumerate() {
+        let text = unsafe { core::ffi::CStr::from_ptr(bt_surface_input_name(i)) };
+        assert_eq!(text.to_str().unwrap(), *name);
+    }
+    assert!(bt_surface_input_name(SURFACE_INPUT_NAMES.len()).is_null());
+    assert_eq!(size_of::<bt_input_uncertainties>(), 11 * size_of::<f64>());
+    assert_eq!(BT_BUDGET_MAX_LINES, bandtemp::uncertainty::MAX_INPUTS);
+}
+
+#[test]
+fn budget_bad_pointers() {
+    let band = rect_band(8.0, 14.0, bt_detector::Energy);
+    let scene = c_scene([0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0]);
+    let u = c_uncertainties([
+        0.05, 0.5, 0.02, 0.02, 2.0, 0.01, 1.0, 0.005, 0.005, 1.0, 1.0,
+    ]);
+    let mut out = budget_sentinel();
+    unsafe {
+        for s in [
+            bt_surface_budget(core::ptr::null(), &scene, 50.0, &u, &mut out),
+            bt_surface_budget(&band, core::ptr::null(), 50.0, &u, &mut out),
+            bt_surface_budget(&band, &scene, 50.0, core::ptr::null(), &mut out),
+            bt_surface_budget(&band, &scene, 50.0, &u, core::ptr::null_mut()),
+        ] {
+            assert_eq!(s, bt_status::NullPointer);
+        }
+        let misaligned = (&u as *const bt_input_uncertainties)
+            .cast::<u8>()
+            .wrapping_add(4)
+            .cast::<bt_input_uncertainties>();
+        assert_eq!(
+            bt_surface_budget(&band, &scene, 50.0, misaligned, &mut out),
+            bt_status::InvalidBuffer
+        );
+    }
+    assert_eq!(out, budget_sentinel());
 }
 
 // ---- frames ------------------------------------------------------------------------------

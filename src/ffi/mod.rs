@@ -64,7 +64,17 @@ mod scene;
 mod calibration;
 // Whole frames.
 mod frame;
+// Two-colour (ratio) pyrometry.
+mod ratio;
+// Humid air and air paths.
+mod atmosphere;
+// Uncertainty budgets.
+mod uncertainty;
 
+pub use atmosphere::{
+    bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
+    bt_path_spectral_transmittance,
+};
 pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
 };
@@ -85,12 +95,17 @@ pub use planck::{
     bt_blackbody_fraction, bt_peak_wavelength_um, bt_spectral_photon_radiance,
     bt_spectral_radiance, bt_total_radiance,
 };
+pub use ratio::bt_ratio_temperature;
 pub use scene::{
     bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,
     bt_sensor_radiance,
 };
 pub use status::{
     bt_status, bt_status_message, bt_version, BT_VERSION_MAJOR, BT_VERSION_MINOR, BT_VERSION_PATCH,
+};
+pub use uncertainty::{
+    bt_budget, bt_contribution, bt_input_uncertainties, bt_surface_budget, bt_surface_input_name,
+    BT_BUDGET_MAX_LINES,
 };
 
 use crate::error::{Error, Result};

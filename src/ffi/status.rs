@@ -355,7 +355,7 @@ impl bt_status {
 /// Evaluated only in `static` initialisers (at compile time). Cannot fail: an interior NUL
 /// would become '?', a short array truncates (neither happens: `tests/ffi_status.rs` checks
 /// every message against [`Error::message`]).
-const fn nul_terminated<const N: usize>(text: &str) -> [u8; N] {
+pub(super) const fn nul_terminated<const N: usize>(text: &str) -> [u8; N] {
     let bytes = text.as_bytes();
     let mut out = [0u8; N];
     let mut i = 0;

@@ -1170,6 +1170,395 @@ static void test_frame_sakuma_hattori(void) {
     }
 }
 
+/* ---- ratio pyrometry ------------------------------------------------------------------- */
+
+static void test_ratio(void) {
+    double out;
+    size_t i;
+    bt_band b1 = rectangular(0.65, 0.75, BT_DETECTOR_ENERGY);
+    bt_band b2 = rectangular(0.85, 0.95, BT_DETECTOR_ENERGY);
+    bt_band p1 = rectangular(3.0, 4.0, BT_DETECTOR_PHOTON);
+    bt_band p2 = rectangular(4.5, 5.0, BT_DETECTOR_PHOTON);
+    double temperatures[] = {1000.0, 1500.0, 2000.0, 2900.0};
+    double t = 2000.0, l1 = band_ref(0.65, 0.75, t, 0), l2 = band_ref(0.85, 0.95, t, 0);
+
+    /* Signals from the independent band integrals: the ratio inverts to T. */
+    for (i = 0; i < sizeof temperatures / sizeof temperatures[0]; i++) {
+        double tk = temperatures[i];
+        EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, band_ref(0.65, 0.75, tk, 0),
+                                         band_ref(0.85, 0.95, tk, 0), 1.0, &out),
+                    tk, 1e-9);
+        EXPECT_NEAR(bt_ratio_temperature(&p1, &p2, 500.0, 3000.0, band_ref(3.0, 4.0, tk, 1),
+                                         band_ref(4.5, 5.0, tk, 1), 1.0, &out),
+                    tk, 1e-9);
+    }
+    /* The emissivity cancels up to its ratio; a common gain cancels. */
+    EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, 0.8 * l1, 0.9 * l2, 0.8 / 0.9,
+                                     &out),
+                t, 1e-9);
+    EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, 3e4 * l1, 3e4 * l2, 1.0, &out),
+                t, 1e-9);
+    /* A working-range end is reachable. */
+    EXPECT_NEAR(bt_ratio_temperature(&b1, &b2, 900.0, 2000.0, l1, l2, 1.0, &out), t, 1e-9);
+
+    /* Named errors, out untouched. */
+    EXPECT(BT_STATUS_NULL_POINTER,
+           bt_ratio_temperature(NULL, &b2, 900.0, 3000.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER,
+           bt_ratio_temperature(&b1, NULL, 900.0, 3000.0, l1, l2, 1.0, &out));
+    CHECK(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 1.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_RATIO_RANGE_INVALID,
+           bt_ratio_temperature(&b1, &b2, 3000.0, 900.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_RATIO_RANGE_INVALID,
+           bt_ratio_temperature(&b1, &b2, 900.0, 900.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 0.0, 3000.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_BANDS_INDISTINGUISHABLE,
+           bt_ratio_temperature(&b1, &b1, 900.0, 3000.0, l1, l2, 1.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, 0.0, l2, 1.0, &out));
+    EXPECT(BT_STATUS_RADIANCE_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, -l2, 1.0, &out));
+    EXPECT(BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 0.0, &out));
+    EXPECT(BT_STATUS_RATIO_OUT_OF_RANGE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2 * 1e6, 1.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, NAN, l2, 1.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE,
+           bt_ratio_temperature(&b1, &b2, 900.0, INFINITY, l1, l2, 1.0, &out));
+    b2.lo_um = 2.0;
+    EXPECT(BT_STATUS_INVALID_BAND,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 1.0, &out));
+    b2 = rectangular(0.85, 0.95, BT_DETECTOR_ENERGY);
+    set_raw_detector(&b2, 7);
+    EXPECT(BT_STATUS_INVALID_DETECTOR,
+           bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, 1.0, &out));
+    b2 = rectangular(0.85, 0.95, BT_DETECTOR_ENERGY);
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        double a = ARGS[i];
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, a, 3000.0, l1, l2, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, a, l1, l2, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, a, l2, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, a, 1.0, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, 900.0, 3000.0, l1, l2, a, &out));
+        EXPECT_SANE(bt_ratio_temperature(&b1, &b2, a, a, a, a, a, &out));
+    }
+}
+
+/* ---- air and air paths ------------------------------------------------------------------ */
+
+/* CIMO Magnus over water, hPa, and its inverse (WMO No. 8, Annex 4.B), written out. */
+static double magnus_ref(double t_k) {
+    double t = t_k - 273.15;
+    return 6.112 * exp(17.62 * t / (243.12 + t));
+}
+static double dew_point_ref(double e_hpa) {
+    double l = log(e_hpa / 6.112);
+    return 243.12 * l / (17.62 - l) + 273.15;
+}
+
+/* The water-vapour continuum transmittance of a horizontal path written out from
+ * src/atmosphere (self-broadened continuum, CIMO Magnus with the enhancement factor). */
+static double continuum_ref(double air_k, double rh, double p_hpa, double d_m, double wl_um) {
+    double f = 1.0016 + 3.15e-6 * p_hpa - 0.074 / p_hpa;
+    double e = rh * f * magnus_ref(air_k);
+    double w = 216.7 * e / air_k * d_m * 1e-4;
+    double e_atm = e / 1013.25, p_atm = p_hpa / 1013.25;
+    double scale = exp(1800.0 * (1.0 / air_k - 1.0 / 296.0)) *
+                   (e_atm + 0.002 * (p_atm - e_atm)) * w;
+    double c_s = 4.18 + 5578.0 * exp(-7.87e-3 * 1e4 / wl_um);
+    return exp(-c_s * scale);
+}
+
+/* tau_eff = int tau L(T) / int L(T) over [lo, hi], Simpson with 4000 panels. */
+static double band_transmittance_ref(double lo_um, double hi_um, double air_k, double rh,
+                                     double p_hpa, double d_m, double object_k) {
+    const int n = 4000;
+    double step = (hi_um - lo_um) / n, num = 0.0, den = 0.0;
+    int i;
+    for (i = 0; i <= n; i++) {
+        double wl = lo_um + i * step;
+        double weight = (i == 0 || i == n) ? 1.0 : (i % 2 ? 4.0 : 2.0);
+        double l = planck(wl, object_k);
+        num += weight * continuum_ref(air_k, rh, p_hpa, d_m, wl) * l;
+        den += weight * l;
+    }
+    return num / den;
+}
+
+static void test_atmosphere(void) {
+    double out;
+    size_t i;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band narrow = rectangular(10.0, 11.0, BT_DETECTOR_PHOTON);
+    bt_band mwir = rectangular(3.0, 5.0, BT_DETECTOR_ENERGY);
+    double tau1 = SENTINEL, tau2 = SENTINEL;
+
+    /* Saturation pressure and dew point against the Magnus formula written out. */
+    EXPECT_NEAR(bt_air_saturation_vapour_pressure_hpa(273.15, &out), 6.112, 1e-15);
+    EXPECT_NEAR(bt_air_saturation_vapour_pressure_hpa(293.15, &out), magnus_ref(293.15),
+                1e-14);
+    EXPECT_NEAR(bt_air_saturation_vapour_pressure_hpa(233.15, &out), magnus_ref(233.15),
+                1e-14);
+    EXPECT_NEAR(bt_air_dew_point_k(303.15, 0.5, &out), dew_point_ref(0.5 * magnus_ref(303.15)),
+                1e-14);
+    EXPECT_NEAR(bt_air_dew_point_k(293.15, 1.0, &out), 293.15, 1e-14);
+    EXPECT_NEAR(bt_air_dew_point_k(288.0, 0.3, &out), dew_point_ref(0.3 * magnus_ref(288.0)),
+                1e-14);
+
+    /* Spectral transmittance against the continuum written out; Beer-Lambert in d. */
+    EXPECT_NEAR(bt_path_spectral_transmittance(303.15, 0.8, 1013.25, 100.0, 10.0, &out),
+                continuum_ref(303.15, 0.8, 1013.25, 100.0, 10.0), 1e-13);
+    EXPECT_NEAR(bt_path_spectral_transmittance(283.15, 0.4, 900.0, 1000.0, 8.0, &out),
+                continuum_ref(283.15, 0.4, 900.0, 1000.0, 8.0), 1e-13);
+    EXPECT_NEAR(bt_path_spectral_transmittance(303.15, 0.8, 1013.25, 0.0, 12.0, &out), 1.0, 0.0);
+    CHECK(bt_path_spectral_transmittance(300.0, 0.6, 1000.0, 200.0, 11.0, &tau1) ==
+              BT_STATUS_OK &&
+          bt_path_spectral_transmittance(300.0, 0.6, 1000.0, 400.0, 11.0, &tau2) ==
+              BT_STATUS_OK);
+    CHECK(fabs(tau2 - tau1 * tau1) <= 1e-14);
+    CHECK(tau1 > 0.0 && tau1 < 1.0);
+
+    /* Band transmittance against Simpson quadrature of the written-out model. */
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 303.15, 0.8, 1013.25, 100.0, 350.0, &out),
+                band_transmittance_ref(8.0, 14.0, 303.15, 0.8, 1013.25, 100.0, 350.0), 1e-11);
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 290.0, 0.5, 950.0, 1000.0, 1200.0, &out),
+                band_transmittance_ref(8.0, 14.0, 290.0, 0.5, 950.0, 1000.0, 1200.0), 1e-11);
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 303.15, 0.8, 1013.25, 0.0, 350.0, &out), 1.0,
+                0.0);
+    EXPECT_NEAR(bt_path_band_transmittance(&lwir, 303.15, 0.0, 1013.25, 500.0, 350.0, &out),
+                band_transmittance_ref(8.0, 14.0, 303.15, 0.0, 1013.25, 500.0, 350.0), 1e-11);
+    EXPECT(BT_STATUS_OK,
+           bt_path_band_transmittance(&narrow, 303.15, 0.8, 1013.25, 100.0, 350.0, &out));
+    CHECK(out > 0.0 && out < 1.0);
+
+    /* Named errors, out untouched. */
+    EXPECT(BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE,
+           bt_air_saturation_vapour_pressure_hpa(400.0, &out));
+    EXPECT(BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE,
+           bt_air_saturation_vapour_pressure_hpa(200.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, bt_air_saturation_vapour_pressure_hpa(-1.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_air_saturation_vapour_pressure_hpa(NAN, &out));
+    CHECK(bt_air_saturation_vapour_pressure_hpa(300.0, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_VAPOUR_PRESSURE_OUT_OF_RANGE, bt_air_dew_point_k(300.0, 0.0, &out));
+    EXPECT(BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE, bt_air_dew_point_k(300.0, 1.5, &out));
+    EXPECT(BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE, bt_air_dew_point_k(300.0, -0.1, &out));
+    EXPECT(BT_STATUS_NON_FINITE, bt_air_dew_point_k(300.0, NAN, &out));
+    CHECK(bt_air_dew_point_k(300.0, 0.5, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_OUTSIDE_CONTINUUM_MODEL,
+           bt_path_spectral_transmittance(300.0, 0.5, 1013.25, 100.0, 4.0, &out));
+    EXPECT(BT_STATUS_DISTANCE_NEGATIVE,
+           bt_path_spectral_transmittance(300.0, 0.5, 1013.25, -1.0, 10.0, &out));
+    EXPECT(BT_STATUS_AIR_PRESSURE_OUT_OF_RANGE,
+           bt_path_spectral_transmittance(300.0, 0.5, 200.0, 100.0, 10.0, &out));
+    CHECK(bt_path_spectral_transmittance(300.0, 0.5, 1013.25, 100.0, 10.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_NULL_POINTER,
+           bt_path_band_transmittance(NULL, 300.0, 0.5, 1013.25, 100.0, 350.0, &out));
+    CHECK(bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, 100.0, 350.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT(BT_STATUS_OUTSIDE_CONTINUUM_MODEL,
+           bt_path_band_transmittance(&mwir, 300.0, 0.5, 1013.25, 100.0, 350.0, &out));
+    EXPECT(BT_STATUS_TEMPERATURE_NOT_POSITIVE,
+           bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, 100.0, 0.0, &out));
+    EXPECT(BT_STATUS_NON_FINITE,
+           bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, INFINITY, 350.0, &out));
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        double a = ARGS[i];
+        EXPECT_SANE(bt_air_saturation_vapour_pressure_hpa(a, &out));
+        EXPECT_SANE(bt_air_dew_point_k(a, 0.5, &out));
+        EXPECT_SANE(bt_air_dew_point_k(300.0, a, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(a, 0.5, 1013.25, 100.0, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, a, 1013.25, 100.0, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, 0.5, a, 100.0, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, 0.5, 1013.25, a, 10.0, &out));
+        EXPECT_SANE(bt_path_spectral_transmittance(300.0, 0.5, 1013.25, 100.0, a, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, a, 0.5, 1013.25, 100.0, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, a, 1013.25, 100.0, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, 0.5, a, 100.0, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, a, 350.0, &out));
+        EXPECT_SANE(bt_path_band_transmittance(&lwir, 300.0, 0.5, 1013.25, 100.0, a, &out));
+        if (out != SENTINEL) {
+            CHECK(out >= 0.0 && out <= 1.0);
+        }
+    }
+}
+
+/* ---- uncertainty budgets ---------------------------------------------------------------- */
+
+static bt_budget budget_sentinel(void) {
+    bt_budget b;
+    memset(&b, 0xA5, sizeof b);
+    return b;
+}
+
+static int budget_untouched(const bt_budget *b) {
+    bt_budget s = budget_sentinel();
+    return memcmp(b, &s, sizeof s) == 0;
+}
+
+/* Success with every number finite, or a named error with the budget untouched. */
+static void expect_budget_sane(bt_status status, const bt_budget *b, const char *what,
+                               int line) {
+    int ok;
+    if (status == BT_STATUS_OK) {
+        size_t i;
+        ok = isfinite(b->estimate_k) && isfinite(b->combined_standard_uncertainty_k) &&
+             b->len == 11;
+        for (i = 0; i < BT_BUDGET_MAX_LINES; i++) {
+            ok = ok && isfinite(b->ranked[i].standard_uncertainty) &&
+                 isfinite(b->ranked[i].sensitivity) && isfinite(b->ranked[i].contribution_k) &&
+                 isfinite(b->ranked[i].variance_share);
+        }
+    } else {
+        ok = budget_untouched(b) && known_status(status);
+    }
+    if (!ok) {
+        printf("  status %d (%s)\n", (int)status, bt_status_message(status));
+    }
+    check(ok, what, line);
+}
+#define EXPECT_BUDGET_SANE(call)                                                               \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        budget = budget_sentinel();                                                            \
+        status_ = (call);                                                                      \
+        expect_budget_sane(status_, &budget, #call, __LINE__);                                 \
+    } while (0)
+
+static void test_uncertainty(void) {
+    double out, s, t = 400.0, t_est = SENTINEL, g, derivative = SENTINEL, sum2 = 0.0;
+    double share = 0.0, h = 1e-4, t_hi = SENTINEL, t_lo = SENTINEL;
+    size_t i, j, seen[11] = {0};
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene(), shifted;
+    bt_input_uncertainties u = {0.05, 0.5, 0.02, 0.02, 2.0, 0.01, 1.0, 0.005, 0.005, 1.0, 1.0};
+    bt_input_uncertainties hostile;
+    bt_budget budget;
+    double fields[11];
+
+    CHECK(bt_sensor_radiance(&lwir, &scene, t, &s) == BT_STATUS_OK);
+    CHECK(bt_object_temperature(&lwir, &scene, s, &t_est) == BT_STATUS_OK);
+    CHECK(sizeof u == sizeof fields);
+    memcpy(fields, &u, sizeof fields);
+    CHECK(bt_band_radiance_derivative(&lwir, t_est, &derivative) == BT_STATUS_OK);
+    budget = budget_sentinel();
+    CHECK(bt_surface_budget(&lwir, &scene, s, &u, &budget) == BT_STATUS_OK);
+    CHECK(budget.len == 11);
+    CHECK(fabs(budget.estimate_k - t_est) <= 1e-12 * t_est);
+    for (i = 0; i < budget.len; i++) {
+        const bt_contribution *c = &budget.ranked[i];
+        double u_i = c->index < 11 ? fields[c->index] : NAN;
+        CHECK(c->index < 11 && !seen[c->index]);
+        if (c->index < 11) {
+            seen[c->index] = 1;
+        }
+        CHECK(c->standard_uncertainty == u_i);
+        CHECK(fabs(c->contribution_k - fabs(c->sensitivity) * u_i) <=
+              1e-15 * c->contribution_k + 1e-300);
+        CHECK(i == 0 || budget.ranked[i - 1].contribution_k >= c->contribution_k);
+        sum2 += c->contribution_k * c->contribution_k;
+        share += c->variance_share;
+        /* Signal noise: c = 1 / (G L'(T)), G = tw ta e (the measurement equation). */
+        if (c->index == 0) {
+            g = scene.window_transmittance * scene.atm_transmittance * scene.emissivity;
+            CHECK(fabs(c->sensitivity - 1.0 / (g * derivative)) <= 1e-12 * fabs(c->sensitivity));
+        }
+        /* Emissivity: against a central difference of bt_object_temperature. */
+        if (c->index == 3) {
+            double fd;
+            shifted = scene;
+            shifted.emissivity = scene.emissivity + h;
+            CHECK(bt_object_temperature(&lwir, &shifted, s, &t_hi) == BT_STATUS_OK);
+            shifted.emissivity = scene.emissivity - h;
+            CHECK(bt_object_temperature(&lwir, &shifted, s, &t_lo) == BT_STATUS_OK);
+            fd = (t_hi - t_lo) / (2.0 * h);
+            CHECK(fabs(c->sensitivity - fd) <= 1e-6 * fabs(fd));
+        }
+    }
+    for (i = budget.len; i < BT_BUDGET_MAX_LINES; i++) {
+        CHECK(budget.ranked[i].contribution_k == 0.0 && budget.ranked[i].sensitivity == 0.0);
+    }
+    CHECK(fabs(budget.combined_standard_uncertainty_k - sqrt(sum2)) <=
+          1e-12 * budget.combined_standard_uncertainty_k);
+    CHECK(fabs(share - 1.0) <= 1e-12);
+    CHECK(budget.combined_standard_uncertainty_k > 0.0);
+
+    /* Input names: static strings, NULL past the end. */
+    CHECK(bt_surface_input_name(0) != NULL &&
+          strcmp(bt_surface_input_name(0), "signal noise") == 0);
+    CHECK(bt_surface_input_name(3) != NULL &&
+          strcmp(bt_surface_input_name(3), "emissivity") == 0);
+    CHECK(bt_surface_input_name(10) != NULL &&
+          strcmp(bt_surface_input_name(10), "window reflected temperature") == 0);
+    for (i = 0; i < 11; i++) {
+        CHECK(bt_surface_input_name(i) != NULL && bt_surface_input_name(i)[0] != '\0');
+        for (j = 0; j < i; j++) {
+            CHECK(strcmp(bt_surface_input_name(i), bt_surface_input_name(j)) != 0);
+        }
+    }
+    CHECK(bt_surface_input_name(11) == NULL);
+    CHECK(bt_surface_input_name(SIZE_MAX) == NULL);
+
+    /* All uncertainties zero: a zero budget. */
+    memset(&hostile, 0, sizeof hostile);
+    budget = budget_sentinel();
+    CHECK(bt_surface_budget(&lwir, &scene, s, &hostile, &budget) == BT_STATUS_OK);
+    CHECK(budget.combined_standard_uncertainty_k == 0.0 && budget.len == 11);
+
+    /* Named errors, budget untouched. */
+#define EXPECT_BUDGET(want, call)                                                              \
+    do {                                                                                       \
+        budget = budget_sentinel();                                                            \
+        CHECK((call) == (want));                                                               \
+        CHECK(budget_untouched(&budget));                                                      \
+    } while (0)
+    EXPECT_BUDGET(BT_STATUS_NULL_POINTER, bt_surface_budget(NULL, &scene, s, &u, &budget));
+    EXPECT_BUDGET(BT_STATUS_NULL_POINTER, bt_surface_budget(&lwir, NULL, s, &u, &budget));
+    EXPECT_BUDGET(BT_STATUS_NULL_POINTER, bt_surface_budget(&lwir, &scene, s, NULL, &budget));
+    CHECK(bt_surface_budget(&lwir, &scene, s, &u, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT_BUDGET(BT_STATUS_INVALID_BUFFER,
+                  bt_surface_budget(&lwir, &scene, s,
+                                    (const bt_input_uncertainties *)misaligned(&u), &budget));
+    EXPECT_BUDGET(BT_STATUS_SIGNAL_BELOW_BACKGROUND,
+                  bt_surface_budget(&lwir, &scene, 1.0, &u, &budget));
+    EXPECT_BUDGET(BT_STATUS_NON_FINITE, bt_surface_budget(&lwir, &scene, NAN, &u, &budget));
+    hostile = u;
+    hostile.emissivity = -0.01;
+    EXPECT_BUDGET(BT_STATUS_UNCERTAINTY_NEGATIVE,
+                  bt_surface_budget(&lwir, &scene, s, &hostile, &budget));
+    hostile = u;
+    hostile.window_k = INFINITY;
+    EXPECT_BUDGET(BT_STATUS_NON_FINITE, bt_surface_budget(&lwir, &scene, s, &hostile, &budget));
+    shifted = scene;
+    shifted.emissivity = 0.0;
+    EXPECT_BUDGET(BT_STATUS_EMISSIVITY_OUT_OF_RANGE,
+                  bt_surface_budget(&lwir, &shifted, s, &u, &budget));
+#undef EXPECT_BUDGET
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        EXPECT_BUDGET_SANE(bt_surface_budget(&lwir, &scene, ARGS[i], &u, &budget));
+        for (j = 0; j < 11; j++) {
+            memcpy(fields, &u, sizeof fields);
+            fields[j] = ARGS[i];
+            memcpy(&hostile, fields, sizeof fields);
+            EXPECT_BUDGET_SANE(bt_surface_budget(&lwir, &scene, s, &hostile, &budget));
+        }
+        hostile = u;
+        shifted = scene;
+        shifted.reflected_k = ARGS[i];
+        EXPECT_BUDGET_SANE(bt_surface_budget(&lwir, &shifted, s, &u, &budget));
+    }
+    (void)out;
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -1182,6 +1571,9 @@ int main(void) {
     test_frame_rows();
     test_frame_band();
     test_frame_sakuma_hattori();
+    test_ratio();
+    test_atmosphere();
+    test_uncertainty();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
