@@ -732,6 +732,27 @@ pub struct InputUncertainties {
     pub window_reflected_k: f64,
 }
 
+impl InputUncertainties {
+    /// The eleven standard uncertainties in the order of [`SURFACE_INPUT_NAMES`] (the one
+    /// place that order is written for the fields).
+    #[must_use]
+    pub fn as_array(&self) -> [f64; SURFACE_INPUTS] {
+        [
+            self.signal,
+            self.calibration_k,
+            self.calibration_signal,
+            self.emissivity,
+            self.reflected_k,
+            self.atm_transmittance,
+            self.atm_k,
+            self.window_transmittance,
+            self.window_reflectance,
+            self.window_k,
+            self.window_reflected_k,
+        ]
+    }
+}
+
 /// Number of inputs of the surface-temperature budget.
 pub const SURFACE_INPUTS: usize = 11;
 
@@ -751,19 +772,7 @@ pub const SURFACE_INPUT_NAMES: [&str; SURFACE_INPUTS] = [
 ];
 
 fn check_uncertainties(u: &InputUncertainties) -> Result<()> {
-    for value in [
-        u.signal,
-        u.calibration_k,
-        u.calibration_signal,
-        u.emissivity,
-        u.reflected_k,
-        u.atm_transmittance,
-        u.atm_k,
-        u.window_transmittance,
-        u.window_reflectance,
-        u.window_k,
-        u.window_reflected_k,
-    ] {
+    for value in u.as_array() {
         if finite(value)? < 0.0 {
             return Err(Error::UncertaintyNegative);
         }
@@ -814,23 +823,25 @@ pub fn surface_inputs<C: SignalCurve + ?Sized>(
     } else {
         0.0
     };
-    let u = uncertainties;
-    let pairs = [
-        (u.signal, s.signal),
-        (u.calibration_k, calibration_k),
-        (u.calibration_signal, s.signal),
-        (u.emissivity, s.emissivity),
-        (u.reflected_k, s.reflected_k),
-        (u.atm_transmittance, s.atm_transmittance),
-        (u.atm_k, s.atm_k),
-        (u.window_transmittance, s.window_transmittance),
-        (u.window_reflectance, s.window_reflectance),
-        (u.window_k, s.window_k),
-        (u.window_reflected_k, s.window_reflected_k),
+    let sensitivities = [
+        s.signal,
+        calibration_k,
+        s.signal,
+        s.emissivity,
+        s.reflected_k,
+        s.atm_transmittance,
+        s.atm_k,
+        s.window_transmittance,
+        s.window_reflectance,
+        s.window_k,
+        s.window_reflected_k,
     ];
     let mut inputs = [Input::new("", 0.0, 0.0); SURFACE_INPUTS];
-    for ((slot, name), (uncertainty, sensitivity)) in
-        inputs.iter_mut().zip(SURFACE_INPUT_NAMES).zip(pairs)
+    for (((slot, name), uncertainty), sensitivity) in inputs
+        .iter_mut()
+        .zip(SURFACE_INPUT_NAMES)
+        .zip(uncertainties.as_array())
+        .zip(sensitivities)
     {
         *slot = Input::new(name, uncertainty, finite(sensitivity)?);
     }

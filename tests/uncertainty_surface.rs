@@ -159,19 +159,7 @@ fn second_order_shift<C: SignalCurve>(
     s: f64,
     u: &InputUncertainties,
 ) -> f64 {
-    let us = [
-        u.signal,
-        u.calibration_k,
-        u.calibration_signal,
-        u.emissivity,
-        u.reflected_k,
-        u.atm_transmittance,
-        u.atm_k,
-        u.window_transmittance,
-        u.window_reflectance,
-        u.window_k,
-        u.window_reflected_k,
-    ];
+    let us = u.as_array();
     let x = point(scene, s);
     let f0 = model(curve, &x);
     us.iter()
