@@ -44,7 +44,7 @@ includedir=$prefix/include
 profile_dir=${profile_dir:-$root/target/release}
 
 if [ "$build" = 1 ]; then
-    (cd "$root" && cargo build --release --lib)
+    (cd "$root" && cargo build --release --lib -p bandtemp-capi)
 fi
 
 # Native libraries the Rust staticlib needs, as
@@ -56,10 +56,12 @@ esac
 
 install -d "$destdir$includedir/bandtemp" "$destdir$libdir/pkgconfig"
 install -m 644 "$root/include/bandtemp.h" "$destdir$includedir/bandtemp/bandtemp.h"
-install -m 644 "$profile_dir/libbandtemp.a" "$destdir$libdir/libbandtemp.a"
-for shared in libbandtemp.so libbandtemp.dylib; do
-    if [ -f "$profile_dir/$shared" ]; then
-        install -m 755 "$profile_dir/$shared" "$destdir$libdir/$shared"
+install -m 644 "$profile_dir/libbandtemp_capi.a" "$destdir$libdir/libbandtemp.a"
+# The build tree names the libraries after the crate (bandtemp_capi); installed, they are
+# libbandtemp.
+for ext in so dylib; do
+    if [ -f "$profile_dir/libbandtemp_capi.$ext" ]; then
+        install -m 755 "$profile_dir/libbandtemp_capi.$ext" "$destdir$libdir/libbandtemp.$ext"
     fi
 done
 sed -e "s|@PREFIX@|$prefix|g" \

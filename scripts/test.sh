@@ -12,8 +12,8 @@ cargo test --all-targets
 cargo test --doc
 
 # The C ABI from Python: ctypes against scipy quad and mpmath (seeded cases).
-cargo build --lib
-python3 tests/python/ctypes_check.py target/debug/libbandtemp.so
+cargo build --lib -p bandtemp-capi
+python3 capi/tests/python/ctypes_check.py target/debug/libbandtemp_capi.so
 
 # Regenerate a sample of the stored reference vectors with mpmath and compare.
 python3 tools/refgen/planck_refs.py --check

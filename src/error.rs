@@ -9,8 +9,12 @@ use core::fmt;
 /// Everything that can go wrong in `bandtemp`.
 ///
 /// Fieldless and `Copy`, so it costs nothing to return from firmware code paths.
+///
+/// Deliberately not `#[non_exhaustive]`: the C library (`bandtemp-capi`) maps every
+/// variant to a `bt_status` with an exhaustive `match`, so a new variant does not compile
+/// until it has its status code. A new variant is therefore a breaking change of the Rust
+/// API (a minor version bump while the crate is 0.x).
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
-#[non_exhaustive]
 pub enum Error {
     // ---- general inputs -------------------------------------------------------------------
     /// An input was NaN or infinite.

@@ -5,7 +5,8 @@
 //!
 //! Layers, one direction only: [`constants`] -> [`planck`] (spectral laws) -> [`band`]
 //! (band integrals and their inversion) -> scene, calibration, uncertainty, ratio,
-//! atmosphere, frame -> ffi (the C ABI).
+//! atmosphere, frame. The C ABI is the sibling crate `bandtemp-capi` (`capi/`), a thin skin
+//! over this one.
 //!
 //! Units: kelvin (`_k`), micrometres (`_um`), um*K (`_umk`); spectral radiance in
 //! W m^-2 sr^-1 um^-1; band radiance in W m^-2 sr^-1 (energy detectors) or
@@ -26,7 +27,7 @@
 //! # Ok::<(), bandtemp::Error>(())
 //! ```
 #![no_std]
-#![deny(unsafe_code)]
+#![forbid(unsafe_code)]
 #![deny(missing_docs)]
 #![warn(clippy::pedantic)]
 // Allowed pedantic lints, with the reason:
@@ -53,7 +54,6 @@ pub mod band;
 pub mod calibration;
 pub mod constants;
 mod error;
-pub mod ffi;
 pub mod frame;
 pub mod planck;
 pub mod ratio;
@@ -61,20 +61,6 @@ pub mod scene;
 pub mod uncertainty;
 
 pub use error::{Error, Result};
-
-/// Without `std`, the staticlib and cdylib of this crate need a panic handler of their own.
-/// The library never panics by design (see DEVELOPERS.md); this handler only makes the
-/// no_std C libraries link, and halts. A Rust firmware that links the rlib with its own
-/// handler enables the `external-panic-handler` feature to leave this one out.
-#[cfg(all(
-    not(feature = "std"),
-    not(test),
-    not(feature = "external-panic-handler")
-))]
-#[panic_handler]
-fn halt_on_panic(_: &core::panic::PanicInfo<'_>) -> ! {
-    loop {}
-}
 
 /// The README's Rust examples, compiled and run as doc tests.
 #[cfg(doctest)]

@@ -1,5 +1,5 @@
 //! The README cannot rot: its Rust blocks run as doc tests (`src/lib.rs`), and every C
-//! block must stand verbatim in a C file under `tests/c/` that `tests/ffi_c.rs` compiles
+//! block must stand verbatim in a C file under `capi/tests/c/` that `capi/tests/ffi_c.rs` compiles
 //! and runs. Commands it names must exist.
 
 use std::path::Path;
@@ -25,8 +25,8 @@ fn blocks<'a>(text: &'a str, info: &str) -> Vec<&'a str> {
 #[test]
 fn every_c_block_is_a_compiled_test_program() {
     let readme = std::fs::read_to_string(root().join("README.md")).expect("README.md");
-    let c_files: Vec<String> = std::fs::read_dir(root().join("tests/c"))
-        .expect("tests/c")
+    let c_files: Vec<String> = std::fs::read_dir(root().join("capi/tests/c"))
+        .expect("capi/tests/c")
         .filter_map(|entry| {
             let path = entry.ok()?.path();
             (path.extension()? == "c").then(|| std::fs::read_to_string(path).ok())?

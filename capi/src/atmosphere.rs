@@ -3,9 +3,9 @@
 
 use super::band::{band_from_c, bt_band};
 use super::{bt_status, deliver};
-use crate::atmosphere::humidity::STANDARD_PRESSURE_HPA;
-use crate::atmosphere::{Air, Path, PathTransmittance, Phase, SaturationFormula};
-use crate::error::Result;
+use bandtemp::atmosphere::humidity::STANDARD_PRESSURE_HPA;
+use bandtemp::atmosphere::{Air, Path, PathTransmittance, Phase, SaturationFormula};
+use bandtemp::Result;
 
 /// A continuum path of `distance_m` through air at `air_k`, `relative_humidity` (a
 /// fraction in [0, 1]) and `pressure_hpa`.

@@ -16,7 +16,7 @@ Loads the cdylib with ctypes and compares, for seeded random cases,
 
 Usage:
     cargo build --release --lib
-    python3 tests/python/ctypes_check.py [path/to/libbandtemp.so]
+    python3 capi/tests/python/ctypes_check.py [path/to/libbandtemp_capi.so]
 
 Prints the largest relative error per check and 'N passed, N failed'; exits 1 on any
 failure. Tolerances are in TOL (one place).
@@ -200,8 +200,8 @@ class Tally:
 
 
 def main():
-    root = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
-    default = os.path.join(root, "target", "release", "libbandtemp.so")
+    root = os.path.dirname(os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__)))))
+    default = os.path.join(root, "target", "release", "libbandtemp_capi.so")
     path = sys.argv[1] if len(sys.argv) > 1 else default
     lib = load(path)
     print(f"bandtemp {lib.bt_version().decode()} from {path}")

@@ -1,7 +1,7 @@
 //! Status codes: pinned values, one mapping to `Error`, and static NUL-terminated messages.
 
-use bandtemp::ffi::{bt_status, bt_status_message, bt_version};
 use bandtemp::Error;
+use bandtemp_capi::{bt_status, bt_status_message, bt_version};
 use std::collections::HashSet;
 use std::ffi::{c_int, CStr};
 
@@ -158,9 +158,9 @@ fn messages_are_static_and_stable() {
     assert_eq!(
         parts,
         [
-            bandtemp::ffi::BT_VERSION_MAJOR,
-            bandtemp::ffi::BT_VERSION_MINOR,
-            bandtemp::ffi::BT_VERSION_PATCH
+            bandtemp_capi::BT_VERSION_MAJOR,
+            bandtemp_capi::BT_VERSION_MINOR,
+            bandtemp_capi::BT_VERSION_PATCH
         ]
     );
 }

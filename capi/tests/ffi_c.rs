@@ -11,8 +11,9 @@ use std::path::{Path, PathBuf};
 use std::process::Command;
 use std::sync::OnceLock;
 
+/// The workspace root (this crate lives in `capi/`).
 fn root() -> &'static Path {
-    Path::new(env!("CARGO_MANIFEST_DIR"))
+    Path::new(concat!(env!("CARGO_MANIFEST_DIR"), "/.."))
 }
 
 fn scratch() -> PathBuf {
@@ -28,7 +29,14 @@ fn library_dir() -> &'static Path {
         let target_dir = scratch().join("target");
         let cargo = std::env::var("CARGO").unwrap_or_else(|_| "cargo".to_owned());
         let status = Command::new(cargo)
-            .args(["build", "--lib", "--quiet", "--manifest-path"])
+            .args([
+                "build",
+                "--lib",
+                "--quiet",
+                "-p",
+                "bandtemp-capi",
+                "--manifest-path",
+            ])
             .arg(root().join("Cargo.toml"))
             .arg("--target-dir")
             .arg(&target_dir)
@@ -37,8 +45,8 @@ fn library_dir() -> &'static Path {
         assert!(status.success(), "cargo build --lib failed");
         let dir = target_dir.join("debug");
         assert!(
-            dir.join("libbandtemp.a").is_file(),
-            "no libbandtemp.a in {}",
+            dir.join("libbandtemp_capi.a").is_file(),
+            "no libbandtemp_capi.a in {}",
             dir.display()
         );
         dir
@@ -83,7 +91,7 @@ fn build(compiler: &str, flags: &[&str], source: &str, name: &str) -> PathBuf {
         .arg(&exe)
         // Ends any `-x c++`: the archive is linker input, not source.
         .args(["-x", "none"])
-        .arg(library_dir().join("libbandtemp.a"))
+        .arg(library_dir().join("libbandtemp_capi.a"))
         .args(native_libs())
         .output()
         .unwrap_or_else(|e| panic!("cannot run the compiler `{compiler}`: {e} (set CC/CXX)"));
@@ -143,7 +151,7 @@ fn c99_program_passes() {
     let exe = build(
         &cc,
         &["-std=c99", "-O1"],
-        "tests/c/ffi_test.c",
+        "capi/tests/c/ffi_test.c",
         "ffi_test_c99",
     );
     assert_summary(&run(&exe));
@@ -155,7 +163,7 @@ fn cpp17_program_passes() {
     let exe = build(
         &cxx,
         &["-x", "c++", "-std=c++17", "-O1"],
-        "tests/c/ffi_test.c",
+        "capi/tests/c/ffi_test.c",
         "ffi_test_cpp17",
     );
     assert_summary(&run(&exe));
@@ -195,7 +203,7 @@ fn c99_program_passes_under_address_and_undefined_sanitizers() {
     }
     let mut flags = vec!["-std=c99", "-O1", "-g"];
     flags.extend(sanitize);
-    let exe = build(&cc, &flags, "tests/c/ffi_test.c", "ffi_test_asan");
+    let exe = build(&cc, &flags, "capi/tests/c/ffi_test.c", "ffi_test_asan");
     assert_summary(&run(&exe));
 }
 
@@ -215,7 +223,7 @@ fn cpp17_program_passes_under_address_and_undefined_sanitizers() {
     }
     let mut flags = vec!["-x", "c++", "-std=c++17", "-O1", "-g"];
     flags.extend(sanitize);
-    let exe = build(&cxx, &flags, "tests/c/ffi_test.c", "ffi_test_cpp_asan");
+    let exe = build(&cxx, &flags, "capi/tests/c/ffi_test.c", "ffi_test_cpp_asan");
     assert_summary(&run(&exe));
 }
 
@@ -229,14 +237,19 @@ fn readme_example_compiles_and_runs() {
     let cxx = compiler("CXX", "c++");
     for (exe, name) in [
         (
-            build(&cc, &["-std=c99"], "tests/c/readme_example.c", "readme_c99"),
+            build(
+                &cc,
+                &["-std=c99"],
+                "capi/tests/c/readme_example.c",
+                "readme_c99",
+            ),
             "C99",
         ),
         (
             build(
                 &cxx,
                 &["-x", "c++", "-std=c++17"],
-                "tests/c/readme_example.c",
+                "capi/tests/c/readme_example.c",
                 "readme_cpp17",
             ),
             "C++17",
@@ -296,7 +309,7 @@ fn pkg_config_install_recipe_builds_the_readme_example() {
     let output = Command::new(compiler("CC", "cc"))
         .args(["-std=c99"])
         .args(WARNINGS)
-        .arg(root().join("tests/c/readme_example.c"))
+        .arg(root().join("capi/tests/c/readme_example.c"))
         .args(flags.split_whitespace())
         .arg(format!("-Wl,-rpath,{}", prefix.join("lib").display()))
         .arg("-o")
@@ -321,7 +334,7 @@ fn frame_example_compiles_and_runs() {
     let exe = build(
         &cc,
         &["-std=c99"],
-        "tests/c/frame_example.c",
+        "capi/tests/c/frame_example.c",
         "frame_example_c99",
     );
     let stdout = run(&exe);

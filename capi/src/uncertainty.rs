@@ -4,11 +4,11 @@ use super::band::{band_from_c, bt_band};
 use super::scene::{bt_scene, read_scene};
 use super::status::nul_terminated;
 use super::{bt_status, deliver, read_input, Output};
-use crate::error::Result;
-use crate::uncertainty::{
+use bandtemp::uncertainty::{
     surface_budget, Budget, Contribution, InputUncertainties, MAX_INPUTS, SURFACE_INPUTS,
     SURFACE_INPUT_NAMES,
 };
+use bandtemp::Result;
 use core::ffi::c_char;
 
 /// Standard uncertainties of the inputs of a surface-temperature measurement, each in its

@@ -1,12 +1,12 @@
-//! The checked-in C header equals what cbindgen generates from src/ffi, carries the
+//! The checked-in C header equals what cbindgen generates from capi/src, carries the
 //! version of Cargo.toml, and declares the C ABI that DESIGN.md fixes.
 //!
-//! Regenerate the header after changing src/ffi:
-//!     BANDTEMP_BLESS=1 cargo test --test ffi_header
+//! Regenerate the header after changing capi/src:
+//!     BANDTEMP_BLESS=1 cargo test -p bandtemp-capi --test ffi_header
 
 use std::path::Path;
 
-const REGENERATE: &str = "BANDTEMP_BLESS=1 cargo test --test ffi_header";
+const REGENERATE: &str = "BANDTEMP_BLESS=1 cargo test -p bandtemp-capi --test ffi_header";
 
 fn generate() -> String {
     let root = Path::new(env!("CARGO_MANIFEST_DIR"));
@@ -14,9 +14,9 @@ fn generate() -> String {
         .unwrap_or_else(|e| panic!("cbindgen.toml does not parse: {e}"));
     let bindings = cbindgen::Builder::new()
         .with_config(config)
-        .with_src(root.join("src/ffi/mod.rs"))
+        .with_src(root.join("src/lib.rs"))
         .generate()
-        .unwrap_or_else(|e| panic!("cbindgen failed on src/ffi: {e}"));
+        .unwrap_or_else(|e| panic!("cbindgen failed on capi/src: {e}"));
     let mut bytes = Vec::new();
     bindings.write(&mut bytes);
     String::from_utf8(bytes).expect("cbindgen writes UTF-8")
@@ -27,7 +27,7 @@ fn checked_in() -> String {
     if std::env::var_os("BANDTEMP_BLESS").is_some() {
         return generate();
     }
-    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("include/bandtemp.h");
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("../include/bandtemp.h");
     std::fs::read_to_string(&path).unwrap_or_default()
 }
 
@@ -45,7 +45,7 @@ fn normalise(text: &str) -> String {
 #[test]
 fn header_matches_cbindgen_output() {
     let fresh = generate();
-    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("include/bandtemp.h");
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("../include/bandtemp.h");
     if std::env::var_os("BANDTEMP_BLESS").is_some() {
         std::fs::write(&path, &fresh).expect("write include/bandtemp.h");
         return;
@@ -58,7 +58,7 @@ fn header_matches_cbindgen_output() {
             .position(|(a, b)| a != b)
             .unwrap_or_else(|| current.lines().count().min(fresh.lines().count()));
         panic!(
-            "include/bandtemp.h differs from the cbindgen output for src/ffi (first \
+            "include/bandtemp.h differs from the cbindgen output for capi/src (first \
              difference at line {}).\nRegenerate it with:\n    {REGENERATE}\nand commit the result.",
             first_difference + 1
         );
@@ -77,12 +77,12 @@ fn header_version_defines_match_cargo_toml() {
         assert!(
             header.contains(&define),
             "include/bandtemp.h lacks `{}` (Cargo.toml version {}): update the constant in \
-             src/ffi/status.rs and regenerate with `{REGENERATE}`",
+             capi/src/status.rs and regenerate with `{REGENERATE}`",
             define.trim(),
             env!("CARGO_PKG_VERSION")
         );
     }
-    let version = bandtemp::ffi::bt_version();
+    let version = bandtemp_capi::bt_version();
     // SAFETY: bt_version returns a static NUL-terminated string.
     let version = unsafe { std::ffi::CStr::from_ptr(version) };
     assert_eq!(version.to_str().unwrap(), env!("CARGO_PKG_VERSION"));

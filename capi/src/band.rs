@@ -1,9 +1,9 @@
 //! Spectral bands through the C ABI: `bt_band` and its band integrals and inversion.
 
 use super::{bt_status, check_ptr, deliver, slice_from_c};
-use crate::band::{Band, SpectralTable};
-use crate::error::Result;
-use crate::planck::Detector;
+use bandtemp::band::{Band, SpectralTable};
+use bandtemp::planck::Detector;
+use bandtemp::Result;
 use core::mem::size_of;
 use core::ptr::addr_of;
 

@@ -7,12 +7,12 @@
 use bandtemp::atmosphere::{Air, Path, PathTransmittance, Phase, SaturationFormula};
 use bandtemp::band::{Band, SignalCurve, SpectralTable};
 use bandtemp::calibration::{fit_band, fit_points, SakumaHattori};
-use bandtemp::ffi::*;
 use bandtemp::planck::{self, Detector};
 use bandtemp::ratio::RatioPyrometer;
 use bandtemp::scene::Scene;
 use bandtemp::uncertainty::{surface_budget, InputUncertainties, SURFACE_INPUT_NAMES};
 use bandtemp::Error;
+use bandtemp_capi::*;
 use core::ffi::c_int;
 use core::mem::{offset_of, size_of};
 use proptest::prelude::*;

@@ -1,6 +1,6 @@
 //! Status codes, their messages, and the library version.
 
-use crate::error::Error;
+use bandtemp::Error;
 use core::ffi::{c_char, c_int};
 
 /// Major version of the library this header belongs to (Cargo.toml's; `tests/ffi_header.rs`

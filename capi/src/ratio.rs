@@ -2,7 +2,7 @@
 
 use super::band::{band_from_c, bt_band};
 use super::{bt_status, deliver};
-use crate::ratio::RatioPyrometer;
+use bandtemp::ratio::RatioPyrometer;
 
 /// True temperature of a surface, K, from its signals in two bands (two-colour or ratio
 /// pyrometry): solves R = S1/S2 = kappa L1(T)/L2(T) for T over [`t_min_k`, `t_max_k`],

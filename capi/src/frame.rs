@@ -10,12 +10,12 @@ use super::band::{band_from_c, bt_band};
 use super::calibration::{bt_sakuma_hattori, read_curve};
 use super::scene::{bt_scene, read_scene};
 use super::{bt_status, deliver, read_input, slice_from_c, slice_from_c_mut, Output};
-use crate::band::SignalCurve;
-use crate::error::{Error, Result};
-use crate::frame::{
+use bandtemp::band::SignalCurve;
+use bandtemp::frame::{
     ConverterState, CountsMap, FrameConverter, FrameSummary, FrameTable, Rails, TableRow,
     TemperatureRange,
 };
+use bandtemp::{Error, Result};
 use core::mem::{align_of, size_of};
 
 /// One table row: a cubic in the segment position, four floats (see the Rust

@@ -36,7 +36,16 @@
 //!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.82) a
 //!    panic reaching an `extern "C"` function aborts in every profile instead of
 //!    unwinding into C.
-#![allow(unsafe_code)]
+//!
+//! # Crate layout
+//! This crate is the C library of `bandtemp` (`libbandtemp_capi.a` / `.so` in the build tree,
+//! installed as `libbandtemp`); the physics is the `bandtemp` core crate, which it wraps.
+//! Built without the `std` feature it is `no_std` and brings the panic handler the C
+//! libraries need: a trap (an undefined instruction), never reached by design. With the
+//! `panic-proof` feature the handler instead references an undefined symbol, so a build
+//! that still contains a reachable panic path fails to link (the link-time proof, run in
+//! CI for the firmware target).
+#![no_std]
 #![deny(unsafe_op_in_unsafe_fn)]
 #![deny(
     clippy::unwrap_used,
@@ -51,6 +60,26 @@
 // The C ABI names (`bt_status`, `bt_band`) are the contract: lower snake case, `bt_`
 // prefix, as DESIGN.md fixes them.
 #![allow(non_camel_case_types)]
+#![warn(clippy::pedantic)]
+// Allowed pedantic lints, with the reason:
+// - `doc_markdown`: docs carry C names and formulas in plain text.
+// - `missing_errors_doc`, `missing_safety_doc`: every export documents its statuses and
+//   the caller's guarantees in the module docs above and in its own doc comment.
+// - `float_cmp`, `similar_names`, `many_single_char_names`, `module_name_repetitions`,
+//   `neg_cmp_op_on_partial_ord`: as in the core crate.
+#![allow(
+    clippy::doc_markdown,
+    clippy::missing_errors_doc,
+    clippy::missing_safety_doc,
+    clippy::float_cmp,
+    clippy::similar_names,
+    clippy::many_single_char_names,
+    clippy::module_name_repetitions,
+    clippy::neg_cmp_op_on_partial_ord
+)]
+
+#[cfg(feature = "std")]
+extern crate std;
 
 // Declared in the order the header lists them (cbindgen follows this order).
 mod status;
@@ -108,7 +137,47 @@ pub use uncertainty::{
     BT_BUDGET_MAX_LINES,
 };
 
-use crate::error::{Error, Result};
+use bandtemp::{Error, Result};
+
+/// The C libraries' panic handler without `std`: a trap. The exports never panic by
+/// design (see the module docs); should one ever be reached, an undefined instruction
+/// stops the program where a debugger or a fault handler sees it, instead of a silent
+/// spin that a watchdog would have to find.
+#[cfg(all(not(feature = "std"), not(test), not(feature = "panic-proof")))]
+#[panic_handler]
+fn trap_on_panic(_: &core::panic::PanicInfo<'_>) -> ! {
+    #[cfg(any(target_arch = "arm", target_arch = "aarch64"))]
+    // SAFETY: `udf` raises an undefined-instruction exception; it touches no memory.
+    unsafe {
+        core::arch::asm!("udf #0", options(noreturn, nomem, nostack));
+    }
+    #[cfg(any(target_arch = "x86", target_arch = "x86_64"))]
+    // SAFETY: `ud2` raises an invalid-opcode exception; it touches no memory.
+    unsafe {
+        core::arch::asm!("ud2", options(noreturn, nomem, nostack));
+    }
+    #[cfg(not(any(
+        target_arch = "arm",
+        target_arch = "aarch64",
+        target_arch = "x86",
+        target_arch = "x86_64"
+    )))]
+    loop {}
+}
+
+/// The link-time proof that no panic path survives: this handler calls a symbol that no
+/// library defines, so the final link of a firmware image fails if any reachable code can
+/// still panic (the optimiser removes the handler when nothing calls it).
+#[cfg(all(not(feature = "std"), not(test), feature = "panic-proof"))]
+#[panic_handler]
+fn link_error_on_panic(_: &core::panic::PanicInfo<'_>) -> ! {
+    extern "C" {
+        /// Defined nowhere, on purpose.
+        fn bandtemp_panic_path_reachable() -> !;
+    }
+    // SAFETY: never executes in a build that links; the point is the unresolved symbol.
+    unsafe { bandtemp_panic_path_reachable() }
+}
 
 /// Checks a pointer from the caller: non-null and aligned for `T`.
 fn check_ptr<T>(ptr: *const T) -> Result<()> {

@@ -2,8 +2,8 @@
 
 use super::band::{band_from_c, bt_band};
 use super::{bt_status, deliver, read_input};
-use crate::error::Result;
-use crate::scene::Scene;
+use bandtemp::scene::Scene;
+use bandtemp::Result;
 
 /// The scene of a measurement: the surface, its surroundings, the air and the window.
 ///

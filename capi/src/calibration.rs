@@ -3,9 +3,9 @@
 use super::band::{band_from_c, bt_band};
 use super::scene::read_scene;
 use super::{bt_status, deliver, deliver2, read_input, slice_from_c, Output};
-use crate::band::SignalCurve;
-use crate::calibration::{fit_band, fit_points, SakumaHattori};
-use crate::error::{Error, Result};
+use bandtemp::band::SignalCurve;
+use bandtemp::calibration::{fit_band, fit_points, SakumaHattori};
+use bandtemp::{Error, Result};
 
 /// Sakuma-Hattori (Planck form) calibration parameters:
 /// S(T) = C / (exp(c2 / (A T + B)) - 1), c2 = 14387.768775 um K.

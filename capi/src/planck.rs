@@ -1,7 +1,7 @@
 //! Spectral laws of a blackbody through the C ABI.
 
 use super::{bt_status, deliver};
-use crate::planck;
+use bandtemp::planck;
 
 /// Spectral radiance of a blackbody, Planck's law:
 /// L = c1L / lambda^5 / (exp(c2 / (lambda T)) - 1), in W m^-2 sr^-1 um^-1.
