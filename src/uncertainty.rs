@@ -816,13 +816,11 @@ pub fn surface_inputs<C: SignalCurve + ?Sized>(
 ) -> Result<(f64, [Input; SURFACE_INPUTS])> {
     check_uncertainties(uncertainties)?;
     let s = scene.sensitivities(curve, sensor_signal)?;
-    let calibration_k = if uncertainties.calibration_k > 0.0 {
-        let apparent_k = curve.temperature(sensor_signal)?;
-        let (_, slope) = curve.signal_and_derivative(apparent_k)?;
-        s.signal * slope
-    } else {
-        0.0
-    };
+    // Always computed, whatever the input's uncertainty: a zero uncertainty gives a zero
+    // contribution, never a zero sensitivity.
+    let apparent_k = curve.temperature(sensor_signal)?;
+    let (_, slope) = curve.signal_and_derivative(apparent_k)?;
+    let calibration_k = s.signal * slope;
     let sensitivities = [
         s.signal,
         calibration_k,

@@ -150,8 +150,8 @@ impl Output for bt_budget {
 /// Uncertainty budget of a surface temperature by the law of propagation (GUM, first
 /// order, inputs uncorrelated): the estimate is `bt_object_temperature` of
 /// `sensor_radiance`, and each input of `u` enters with the exact derivative of the
-/// measurement equation as its sensitivity coefficient. Inputs with u = 0 appear with a
-/// zero contribution; `out->len` is 11.
+/// measurement equation as its sensitivity coefficient, whatever its uncertainty. Inputs
+/// with u = 0 appear with their real sensitivity and a zero contribution; `out->len` is 11.
 ///
 /// Valid where the measurement equation is near-linear over the input uncertainties
 /// (low emissivity against a hot background is the classic case where it is not).

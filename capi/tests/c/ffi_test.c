@@ -1512,6 +1512,26 @@ static void test_uncertainty(void) {
     CHECK(bt_surface_budget(&lwir, &scene, s, &hostile, &budget) == BT_STATUS_OK);
     CHECK(budget.combined_standard_uncertainty_k == 0.0 && budget.len == 11);
 
+    /* Regression: a zero uncertainty keeps the real sensitivity (the calibration line read 0).
+       8-14 um, e 0.93, reflected 291 K, air 0.97 at 288 K, no window; an independent
+       high-precision check gives 1.07840989006 K/K for the calibration (temperature) line. */
+    {
+        bt_scene plain = {0.93, 291.0, 0.97, 288.0, 1.0, 0.0, 288.0, 288.0};
+        bt_input_uncertainties zero_cal = {0.051, 0.0, 0.0, 0.02, 2.0, 0.01, 1.0, 0, 0, 0, 0};
+        int found = 0;
+        budget = budget_sentinel();
+        CHECK(bt_surface_budget(&lwir, &plain, 88.04078527399884, &zero_cal, &budget) ==
+              BT_STATUS_OK);
+        for (i = 0; i < budget.len; i++) {
+            if (budget.ranked[i].index == 1) {
+                found = 1;
+                CHECK(fabs(budget.ranked[i].sensitivity - 1.07840989006) <= 1e-7);
+                CHECK(budget.ranked[i].contribution_k == 0.0);
+            }
+        }
+        CHECK(found);
+    }
+
     /* Named errors, budget untouched. */
 #define EXPECT_BUDGET(want, call)                                                              \
     do {                                                                                       \
