@@ -181,6 +181,9 @@ pub enum Error {
     TransmittanceTableAboveOne,
     /// The band reaches beyond the spectral transmittance table.
     BandOutsideTransmittanceTable,
+    /// The air path is opaque: its transmittance underflows a double (an optical depth
+    /// above about 745), so no radiance of the object reaches the sensor.
+    PathOpaque,
     // ---- frame --------------------------------------------------------------------------------
     /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
     FrameRangeInvalid,
@@ -325,6 +328,9 @@ impl Error {
             Error::TransmittanceTableAboveOne => "spectral transmittance values must not exceed 1",
             Error::BandOutsideTransmittanceTable => {
                 "the band reaches beyond the spectral transmittance table"
+            }
+            Error::PathOpaque => {
+                "the air path is opaque: its transmittance underflows (optical depth above ~745)"
             }
 
             // frame

@@ -179,6 +179,8 @@ pub enum bt_status {
     TransmittanceTableAboveOne = 606,
     /// The band reaches beyond the spectral transmittance table.
     BandOutsideTransmittanceTable = 607,
+    /// The air path is opaque: its transmittance underflows a double.
+    PathOpaque = 608,
 
     // 700: frame
     /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
@@ -325,6 +327,7 @@ status_table!(
     OutsideContinuumModel,
     TransmittanceTableAboveOne,
     BandOutsideTransmittanceTable,
+    PathOpaque,
     FrameRangeInvalid,
     FrameToleranceInvalid,
     FrameToleranceUnreachable,

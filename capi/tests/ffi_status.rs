@@ -80,6 +80,7 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::OutsideContinuumModel, 605),
     (bt_status::TransmittanceTableAboveOne, 606),
     (bt_status::BandOutsideTransmittanceTable, 607),
+    (bt_status::PathOpaque, 608),
     (bt_status::FrameRangeInvalid, 700),
     (bt_status::FrameToleranceInvalid, 701),
     (bt_status::FrameToleranceUnreachable, 702),

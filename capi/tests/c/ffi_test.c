@@ -1336,6 +1336,23 @@ static void test_atmosphere(void) {
            bt_path_band_transmittance(&narrow, 303.15, 0.8, 1013.25, 100.0, 350.0, &out));
     CHECK(out > 0.0 && out < 1.0);
 
+    /* Regression, thick path: 2 km of saturated air at 60 C and 1100 hPa, 2000 K object,
+       8-14 um photon band; an independent high-precision quadrature (two methods agreeing
+       to 1e-31) gives 1.2724080802391162e-06 (the quadrature sized by the Planck variable
+       alone missed it by -1.1e-7 relative). */
+    {
+        bt_band lwir_photon = rectangular(8.0, 14.0, BT_DETECTOR_PHOTON);
+        EXPECT_NEAR(
+            bt_path_band_transmittance(&lwir_photon, 333.15, 1.0, 1100.0, 2000.0, 2000.0, &out),
+            1.2724080802391162e-06, 1e-12);
+    }
+    /* An opaque path is an error, never a transmittance of 0 with success: 10,000 km at
+       10 um, 100,000 km over the whole band. */
+    EXPECT(BT_STATUS_PATH_OPAQUE,
+           bt_path_spectral_transmittance(293.15, 0.5, 1013.25, 1.0e7, 10.0, &out));
+    EXPECT(BT_STATUS_PATH_OPAQUE,
+           bt_path_band_transmittance(&lwir, 293.15, 0.5, 1013.25, 1.0e8, 300.0, &out));
+
     /* Named errors, out untouched. */
     EXPECT(BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE,
            bt_air_saturation_vapour_pressure_hpa(400.0, &out));
