@@ -33,7 +33,7 @@
 //!    them with arbitrary f64 bit patterns; `tests/c/ffi_test.c` drives every export with
 //!    hostile input from C and C++, under AddressSanitizer and UndefinedBehaviorSanitizer.
 //! 3. By configuration: the release profile sets `panic = "abort"`, so even a panic that
-//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.82) a
+//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.88) a
 //!    panic reaching an `extern "C"` function aborts in every profile instead of
 //!    unwinding into C.
 //!
