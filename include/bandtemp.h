@@ -392,6 +392,11 @@ typedef enum {
      * The curve given to update a converter is not the one its table was built from.
      */
     BT_STATUS_FRAME_CURVE_MISMATCH = 711,
+    /**
+     * A calibration-curve form outside its declared values (`bt_curve.form`, or a form
+     * argument, not 0 or 1).
+     */
+    BT_STATUS_INVALID_CURVE_FORM = 1100,
 } bt_status;
 
 /**
@@ -412,6 +417,23 @@ typedef enum {
      */
     BT_DETECTOR_PHOTON = 1,
 } bt_detector;
+
+/**
+ * The form of a calibration curve. Read as an integer and validated: any value other than
+ * 0 or 1 is `BT_STATUS_INVALID_CURVE_FORM`, never undefined behaviour.
+ */
+typedef enum {
+    /**
+     * Sakuma-Hattori, Planck form: S(T) = C / (exp(c2 / (A T + B)) - 1). The default;
+     * right at any wavelength.
+     */
+    BT_CURVE_FORM_PLANCK = 0,
+    /**
+     * Sakuma-Hattori, Wien form: S(T) = C exp(-c2 / (A T + B)). For short-wavelength
+     * pyrometers only (lambda T below about 3000 um K); not for thermal imagers.
+     */
+    BT_CURVE_FORM_WIEN = 1,
+} bt_curve_form;
 
 /**
  * A spectral band of an instrument: [lo_um, hi_um], a detector kind, and an optional
@@ -546,6 +568,65 @@ typedef struct {
 } bt_points_fit;
 
 /**
+ * A calibration curve: the Sakuma-Hattori equation in either form, behind a dark offset:
+ * the instrument reads S = `offset` + S_c(T), with S_c the curve of `form`
+ * (c2 = 14387.768775 um K). `offset` = 0 for a curve without one.
+ *
+ * Valid when A > 0, C > 0 and every number finite; the curve is defined where
+ * A T + B > 0. The Wien form's inverse needs S - offset < C.
+ */
+typedef struct {
+    /**
+     * The form of S_c.
+     */
+    bt_curve_form form;
+    /**
+     * A, um (an effective wavelength).
+     */
+    double a_um;
+    /**
+     * B, um K.
+     */
+    double b_umk;
+    /**
+     * C, signal units.
+     */
+    double c;
+    /**
+     * Dark offset (signal with the shutter closed), signal units; may be negative.
+     */
+    double offset;
+} bt_curve;
+
+/**
+ * The report of a curve fitted to blackbody readings.
+ */
+typedef struct {
+    /**
+     * The fitted curve, with the dark offset it was fitted behind.
+     */
+    bt_curve curve;
+    /**
+     * Covariance of (A um, B um K, C signal units), rows and columns in that order; first
+     * order. Without signal uncertainties it is estimated from the scatter of the
+     * temperature residuals, and with exactly three points every entry is NaN.
+     */
+    double covariance[3][3];
+    /**
+     * max |T_fit(S_i) - T_i| over the points, K.
+     */
+    double max_residual_k;
+    /**
+     * sqrt(mean (T_fit(S_i) - T_i)^2) over the points, K.
+     */
+    double rms_residual_k;
+    /**
+     * Levenberg-Marquardt iterations used.
+     */
+    uint32_t iterations;
+} bt_curve_fit;
+
+/**
  * The detector's rails: counts at or below `dead_counts` are dead pixels, counts at or
  * above `saturation_counts` saturated. A 16-bit converter: 0 and 65535; 14-bit: 0 and
  * 16383. Valid when `dead_counts < saturation_counts`.
@@ -674,6 +755,32 @@ typedef struct {
 } bt_frame_summary;
 
 /**
+ * The Wien-approximation model of a two-colour pyrometer, in closed form:
+ * R = S1/S2 = kappa W exp(-c2 / (lambda_R T)), 1/lambda_R = 1/lambda1 - 1/lambda2,
+ * kappa = e1/e2. `prefactor` W is the parameter the closed form needs besides the two
+ * wavelengths: the ratio a grey body would give at infinite temperature in the Wien
+ * approximation, W = (c1 lambda1^-n D1) / (c1 lambda2^-n D2) for bands of response
+ * integral D_i (n = 5 energy, 4 photon). `bt_wien_ratio_from_bands` fills all three
+ * from two bands; a calibrated instrument may set W from its own ratio calibration.
+ *
+ * Valid when both wavelengths are positive and differ, and W > 0 (all finite).
+ */
+typedef struct {
+    /**
+     * Effective wavelength of band 1, um.
+     */
+    double lambda1_um;
+    /**
+     * Effective wavelength of band 2, um.
+     */
+    double lambda2_um;
+    /**
+     * Prefactor W, ratio units (S1/S2).
+     */
+    double prefactor;
+} bt_wien_ratio;
+
+/**
  * Standard uncertainties of the inputs of a surface-temperature measurement, each in its
  * input's unit (0 = known exactly; every value finite and >= 0). The order and names of
  * the inputs are those of `bt_surface_input_name`.
@@ -778,6 +885,87 @@ typedef struct {
      */
     bt_contribution ranked[BT_BUDGET_MAX_LINES];
 } bt_budget;
+
+/**
+ * The result of a Monte Carlo propagation (JCGM 101:2008) of a surface temperature.
+ */
+typedef struct {
+    /**
+     * Number of trials M.
+     */
+    size_t trials;
+    /**
+     * Mean of the trial temperatures, the Monte Carlo estimate, K. Standard error
+     * sigma / sqrt(M) for a spread sigma.
+     */
+    double mean_k;
+    /**
+     * Standard deviation of the trial temperatures, the standard uncertainty, K
+     * (relative standard error about 1 / sqrt(2 (M - 1))).
+     */
+    double standard_deviation_k;
+    /**
+     * The coverage probability of the intervals, as requested (e.g. 0.95).
+     */
+    double probability;
+    /**
+     * Probabilistically symmetric interval: the (1-p)/2 and (1+p)/2 quantiles, K.
+     */
+    double low_k;
+    /**
+     * Upper end of the symmetric interval, K.
+     */
+    double high_k;
+    /**
+     * Shortest interval holding the fraction p of the trials, K.
+     */
+    double shortest_low_k;
+    /**
+     * Upper end of the shortest interval, K.
+     */
+    double shortest_high_k;
+} bt_monte_carlo;
+
+/**
+ * The tables of a spectral (non-grey) scene: emissivity e(lambda) and air-path
+ * transmittance ta(lambda), each a table of wavelengths (um, positive, strictly
+ * increasing) and values in [0, 1], linear between points. Each table must cover the
+ * whole band (a table reads zero outside its span, which would silently make the surface
+ * a perfect reflector there, so a short table is an error). A length of 0 keeps the
+ * scene's grey value (`bt_scene.emissivity` or `bt_scene.atm_transmittance`) and accepts
+ * NULL pointers. The air path emits (1 - ta(lambda)) L(lambda, Ta) at
+ * `bt_scene.atm_k`; the window stays grey.
+ *
+ * Measurement equation, r the band's response:
+ * S = tw * integral r [ ta e L(T) + ta (1-e) L(Tr) + (1-ta) L(Ta) ] dlambda
+ *     + rw Lb(Twr) + (1-tw-rw) Lb(Tw).
+ */
+typedef struct {
+    /**
+     * Wavelengths of the emissivity table, um; `emissivity_len` entries.
+     */
+    const double *emissivity_um;
+    /**
+     * Emissivity at `emissivity_um`, each in [0, 1].
+     */
+    const double *emissivity;
+    /**
+     * Points in the emissivity table; 0 for the grey `bt_scene.emissivity`.
+     */
+    size_t emissivity_len;
+    /**
+     * Wavelengths of the transmittance table, um; `transmittance_len` entries.
+     */
+    const double *transmittance_um;
+    /**
+     * Air-path transmittance at `transmittance_um`, each in [0, 1].
+     */
+    const double *transmittance;
+    /**
+     * Points in the transmittance table; 0 for the grey `bt_scene.atm_transmittance`.
+     */
+    size_t transmittance_len;
+} bt_spectral_tables;
 
 #ifdef __cplusplus
 extern "C" {
@@ -1098,6 +1286,113 @@ bt_status bt_sakuma_hattori_fit_points_report(const double *t_k,
                                               bt_points_fit *out);
 
 /**
+ * Signal of a blackbody at `temperature_k` on the curve, S = offset + S_c(T), signal
+ * units: S_c = C / (exp(c2/(A T + B)) - 1) (Planck form) or C exp(-c2/(A T + B)) (Wien).
+ *
+ * Accuracy: a few ulp (one exp or expm1 and a division).
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_INVALID_CURVE_FORM`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_CALIBRATION_PARAMETER_INVALID`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN` where A T + B <= 0,
+ * `BT_STATUS_RADIANCE_UNDERFLOW` where S_c underflows.
+ *
+ * # Safety
+ * `curve` null or valid for reading a `bt_curve`; `out` null or valid for writing a
+ * double; written only on success.
+ */
+bt_status bt_curve_signal(const bt_curve *curve, double temperature_k, double *out);
+
+/**
+ * Temperature, K, whose signal on the curve is `signal`, in closed form:
+ * T = (c2 / ln(C/(S - offset) + 1) - B) / A (Planck form) or
+ * T = (c2 / ln(C/(S - offset)) - B) / A (Wien form).
+ *
+ * Accuracy: a few ulp of the closed form. Errors: those of `bt_curve_signal` for the
+ * curve, `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for S <= offset,
+ * `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN` when the result is not a positive temperature
+ * (in the Wien form also for S - offset >= C).
+ *
+ * # Safety
+ * As `bt_curve_signal`, with `temperature_k` the out-pointer.
+ */
+bt_status bt_curve_temperature(const bt_curve *curve, double signal, double *temperature_k);
+
+/**
+ * Instrument signal for an object at `object_k` in the scene: the measurement equation
+ * with L(T) replaced by the curve's S(T) (the offset enters once, since the weights sum
+ * to 1), signal units.
+ *
+ * Errors: those of `bt_curve_signal` and of the scene (`bt_sensor_radiance`).
+ *
+ * # Safety
+ * `curve` as in `bt_curve_signal`; `scene` null or valid for reading a `bt_scene`; `out`
+ * null or valid for writing a double; written only on success.
+ */
+bt_status bt_curve_sensor_signal(const bt_curve *curve,
+                                 const bt_scene *scene,
+                                 double object_k,
+                                 double *out);
+
+/**
+ * True temperature of the object, K, from the instrument signal in the scene: the
+ * measurement equation solved over the curve (as `bt_object_temperature`, within 1e-12 T).
+ *
+ * Errors: those of `bt_curve_sensor_signal` and `bt_curve_temperature`, and
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND`.
+ *
+ * # Safety
+ * As `bt_curve_sensor_signal`, with `object_k` the out-pointer.
+ */
+bt_status bt_curve_object_temperature(const bt_curve *curve,
+                                      const bt_scene *scene,
+                                      double signal,
+                                      double *object_k);
+
+/**
+ * Fits a curve of `form` (a `bt_curve_form` value: `BT_CURVE_FORM_PLANCK` or
+ * `BT_CURVE_FORM_WIEN`) to a band's exact radiance over [t_lo_k, t_hi_k]; `out->offset`
+ * is 0 and C is in band-radiance units. `max_error_k` receives
+ * max |T_fit(L_band(T)) - T| over 2001 temperatures of the range, measured against the
+ * exact band integral (for example 14 uK for 0.645-0.655 um over 700-1400 K, Planck form).
+ *
+ * Errors: `BT_STATUS_INVALID_CURVE_FORM`, and those of `bt_sakuma_hattori_fit_band`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a `bt_curve`;
+ * `max_error_k` null or valid for writing a double; both written only on success.
+ */
+bt_status bt_curve_fit_band(int form,
+                            const bt_band *band,
+                            double t_lo_k,
+                            double t_hi_k,
+                            bt_curve *out,
+                            double *max_error_k);
+
+/**
+ * Fits a curve of `form` (`BT_CURVE_FORM_PLANCK` or `BT_CURVE_FORM_WIEN`) to `n` >= 3
+ * blackbody readings (`t_k[i]` K, `signal[i]` signal units) behind a known
+ * `dark_offset`: the curve is fitted to signal[i] - dark_offset by Levenberg-Marquardt,
+ * in temperature without `signal_u` (NULL), or by maximum likelihood in signal with the
+ * signals' standard uncertainties `signal_u` (n positive doubles). `out->curve.offset`
+ * is `dark_offset`. Exact data from a curve of the form are recovered to below 1 uK.
+ *
+ * Errors: `BT_STATUS_INVALID_CURVE_FORM`, those of
+ * `bt_sakuma_hattori_fit_points_report`, `BT_STATUS_NON_FINITE` for the offset and
+ * `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for a signal at or below it.
+ *
+ * # Safety
+ * `t_k`, `signal` and (unless NULL) `signal_u` valid for reading `n` doubles; `out` null
+ * or valid for writing a `bt_curve_fit`; written only on success.
+ */
+bt_status bt_curve_fit_points(int form,
+                              const double *t_k,
+                              const double *signal,
+                              const double *signal_u,
+                              size_t n,
+                              double dark_offset,
+                              bt_curve_fit *out);
+
+/**
  * Rows a table of the band's radiance over [lo_k, hi_k] needs so that every pixel of a
  * uniform scene is within `tolerance_k` (K) of exact inversion: the coarsest of
  * 2^0..2^12 rows per octave of signal that meets it. Storage is 16 bytes per row.
@@ -1353,6 +1648,76 @@ bt_status bt_ratio_temperature(const bt_band *band1,
                                double *temperature_k);
 
 /**
+ * The Wien model of two bands: lambda_i the response-weighted mean wavelength of band i
+ * (exact for piecewise-linear responses), W from the bands' response integrals and
+ * detector kinds.
+ *
+ * The closed form agrees with the exact solver (`bt_ratio_temperature`) for narrow
+ * short-wave bands (0.4 K at 800 K for 10 nm bands at 0.65 and 0.90 um) and not for wide
+ * ones (hundreds of kelvin off for 3-5 and 8-14 um bands).
+ * Errors: the bands' errors (as `bt_band_radiance`), `BT_STATUS_WAVELENGTH_NOT_POSITIVE`,
+ * `BT_STATUS_BANDS_INDISTINGUISHABLE` for equal effective wavelengths,
+ * `BT_STATUS_RATIO_NOT_POSITIVE`, `BT_STATUS_NON_FINITE`.
+ *
+ * # Safety
+ * `band1` and `band2` as in `bt_band_radiance`; `out` null or valid for writing a
+ * `bt_wien_ratio`; written only on success.
+ */
+bt_status bt_wien_ratio_from_bands(const bt_band *band1, const bt_band *band2, bt_wien_ratio *out);
+
+/**
+ * Signal ratio R = S1/S2 = kappa W exp(-c2 / (lambda_R T)) of the Wien model at
+ * `temperature_k`, kappa = `emissivity_ratio` = e1/e2 (1 for a grey surface).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, the model's errors (as
+ * `bt_wien_ratio_from_bands`), `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE`,
+ * `BT_STATUS_RATIO_OUT_OF_RANGE` when R is not a normal double.
+ *
+ * # Safety
+ * `model` null or valid for reading a `bt_wien_ratio`; `ratio` null or valid for writing
+ * a double; written only on success.
+ */
+bt_status bt_wien_ratio_signal_ratio(const bt_wien_ratio *model,
+                                     double temperature_k,
+                                     double emissivity_ratio,
+                                     double *ratio);
+
+/**
+ * Temperature from a signal ratio in the Wien model, closed form:
+ * 1/T = (lambda_R / c2) ln(kappa W / R), K. Exact inverse of
+ * `bt_wien_ratio_signal_ratio` (to a few ulp); its error against Planck's law is the
+ * model's (see `bt_wien_ratio_from_bands`).
+ *
+ * Errors: as `bt_wien_ratio_signal_ratio`, `BT_STATUS_RATIO_NOT_POSITIVE` for R <= 0,
+ * `BT_STATUS_RATIO_OUT_OF_RANGE` when no positive temperature gives R (R beyond
+ * kappa W, the infinite-temperature limit).
+ *
+ * # Safety
+ * As `bt_wien_ratio_signal_ratio`, with `temperature_k` the out-pointer.
+ */
+bt_status bt_wien_ratio_temperature(const bt_wien_ratio *model,
+                                    double ratio,
+                                    double emissivity_ratio,
+                                    double *temperature_k);
+
+/**
+ * Emissivity-slope correction of a grey ratio temperature in the Wien model:
+ * 1/T = 1/T_grey + (lambda_R / c2) ln kappa, K (kappa = e1/e2 > 1, emissivity falling
+ * with wavelength as for most metals, lowers the temperature). Exact within the model.
+ *
+ * Errors: as `bt_wien_ratio_signal_ratio`; `BT_STATUS_RATIO_OUT_OF_RANGE` when the
+ * corrected 1/T is not positive.
+ *
+ * # Safety
+ * As `bt_wien_ratio_signal_ratio`, with `temperature_k` the out-pointer.
+ */
+bt_status bt_wien_ratio_correct_grey(const bt_wien_ratio *model,
+                                     double grey_temperature_k,
+                                     double emissivity_ratio,
+                                     double *temperature_k);
+
+/**
  * Saturation vapour pressure of pure water vapour over a plane surface of liquid water
  * at `temperature_k`, hPa, by the CIMO (WMO No. 8) Magnus formula
  * e_w = 6.112 exp(17.62 t / (243.12 + t)), t in deg C; no enhancement factor.
@@ -1467,6 +1832,200 @@ bt_status bt_surface_budget(const bt_band *band,
  * NUL-terminated string; NULL for an index past the last input (10). Do not free it.
  */
 const char *bt_surface_input_name(size_t index);
+
+/**
+ * Monte Carlo propagation (JCGM 101:2008) of the uncertainty of a surface temperature,
+ * seeded and reproducible: `n_samples` trials, each drawing every input of `u` and
+ * solving the measurement equation again (`bt_object_temperature`). Signal noise,
+ * calibration terms and temperatures are drawn normal; emissivity, transmittances and
+ * reflectance rectangular with the same standard uncertainty (half-width sqrt(3) u). The
+ * generator is xoshiro256** seeded from `seed` through SplitMix64: the same seed and
+ * inputs give the same result, bit for bit, on every platform.
+ *
+ * `samples` is the caller's storage for the M = `n_samples` trial temperatures (K); on
+ * success it holds them sorted ascending (for histograms or other quantiles). On error its
+ * contents are unspecified (some trials may have been written); `out` is untouched.
+ *
+ * Errors: those of `bt_surface_budget`; `BT_STATUS_TOO_FEW_TRIALS` for `n_samples` < 2
+ * (and, after the trials, when M is too small to hold an interval of `probability`),
+ * `BT_STATUS_COVERAGE_PROBABILITY_OUT_OF_RANGE` unless 0 < `probability` < 1 (both
+ * checked before any draw); any error of a trial: a draw outside the model's domain
+ * (e + sqrt(3) u(e) > 1, a transmittance above 1, or a signal at or below the background,
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND`) stops the run, since the stated distributions then
+ * put probability where the model is undefined.
+ *
+ * # Safety
+ * `band`, `scene`, `u` as in `bt_surface_budget`; `samples` null or valid for reading and
+ * writing `n_samples` doubles, overlapping no other argument; `out` null or valid for
+ * writing a `bt_monte_carlo`; written only on success.
+ */
+bt_status bt_surface_monte_carlo(const bt_band *band,
+                                 const bt_scene *scene,
+                                 double sensor_radiance,
+                                 const bt_input_uncertainties *u,
+                                 uint64_t seed,
+                                 double probability,
+                                 double *samples,
+                                 size_t n_samples,
+                                 bt_monte_carlo *out);
+
+/**
+ * As `bt_surface_monte_carlo` without a buffer: `trials` trials of the same draws,
+ * streamed into a running mean and standard deviation (Welford; no coverage interval,
+ * which needs the sorted trials). With the same seed, `mean_k` and
+ * `standard_deviation_k` equal those of `bt_surface_monte_carlo` with `trials` samples,
+ * bit for bit. Both are written only on success.
+ *
+ * Errors: as `bt_surface_monte_carlo` (`BT_STATUS_TOO_FEW_TRIALS` below 2 trials).
+ *
+ * # Safety
+ * `band`, `scene`, `u` as in `bt_surface_budget`; `mean_k` and `standard_deviation_k`
+ * each null or valid for writing a double.
+ */
+bt_status bt_surface_monte_carlo_streaming(const bt_band *band,
+                                           const bt_scene *scene,
+                                           double sensor_radiance,
+                                           const bt_input_uncertainties *u,
+                                           uint64_t seed,
+                                           size_t trials,
+                                           double *mean_k,
+                                           double *standard_deviation_k);
+
+/**
+ * Emissivity of a surface from its sensor radiance and its true temperature
+ * `reference_k` (K, from a contact probe): the measurement equation is linear in e,
+ * e = (S - W - tw ta L(Tr)) / (tw ta (L(Tref) - L(Tr))),
+ * W = tw (1-ta) L(Ta) + rw L(Twr) + (1-tw-rw) L(Tw). The scene's emissivity is ignored
+ * (it must still be a valid value in (0, 1]); every other input is used. An error dS in
+ * the reading gives de = dS / (tw ta (L(Tref) - L(Tr))): keep the surface well away from
+ * the reflected temperature. For an apparent reading, pass `bt_band_radiance` of it.
+ *
+ * Accuracy: closed form over the band radiances (full double precision for a rectangular
+ * band).
+ * Errors: those of `bt_sensor_radiance`; `BT_STATUS_TEMPERATURE_NOT_POSITIVE` for the
+ * reference; `BT_STATUS_EMISSIVITY_NOT_DETERMINED` when the surface is at the reflected
+ * temperature (every emissivity gives the same signal);
+ * `BT_STATUS_EMISSIVITY_READING_INCONSISTENT` when the result is outside (0, 1].
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` null or valid for reading a `bt_scene`;
+ * `emissivity` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_from_reference(const bt_band *band,
+                                       const bt_scene *scene,
+                                       double sensor_radiance,
+                                       double reference_k,
+                                       double *emissivity);
+
+/**
+ * Emissivity of a surface from a reference coating (tape or paint of known emissivity
+ * `coating_emissivity`) applied beside the spot: the coating's radiance gives the common
+ * temperature T (the scene solved with e = `coating_emissivity`), then the surface's
+ * emissivity follows as in `bt_emissivity_from_reference` at T. Both spots share the
+ * scene's reflected temperature, air path and window; the scene's own emissivity is
+ * ignored (it must still be valid). Writes the surface emissivity and T (K).
+ *
+ * Errors: those of `bt_object_temperature` for the coating
+ * (`BT_STATUS_EMISSIVITY_OUT_OF_RANGE` for a coating emissivity outside (0, 1],
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND`) and of `bt_emissivity_from_reference`.
+ *
+ * # Safety
+ * As `bt_emissivity_from_reference`; `emissivity` and `temperature_k` each null or valid
+ * for writing a double; both written only on success.
+ */
+bt_status bt_emissivity_from_reference_coating(const bt_band *band,
+                                               const bt_scene *scene,
+                                               double surface_radiance,
+                                               double coating_radiance,
+                                               double coating_emissivity,
+                                               double *emissivity,
+                                               double *temperature_k);
+
+/**
+ * Reflected apparent temperature Tr, K, from the sensor radiance of a diffuse reflector
+ * (crumpled aluminium foil, say) placed at the target in the same orientation:
+ * L(Tr) = [ (S_f - W) / (tw ta) - ef L(Tf) ] / (1 - ef), Tr = L^-1(L(Tr)), with
+ * `reflector_emissivity` ef in [0, 1) (0 for an ideal reflector) and its temperature
+ * `reflector_k` Tf (K; matters only when ef > 0). The scene's emissivity and reflected
+ * temperature are ignored (they must still be valid); air path and window are used.
+ *
+ * Accuracy: closed form, then the band inversion (1e-12 T).
+ * Errors: those of `bt_sensor_radiance`; `BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE` for the reflector;
+ * `BT_STATUS_REFLECTED_NOT_DETERMINED` when the reading is at or below what the
+ * reflector's own emission, the air and the window give; the errors of
+ * `bt_band_temperature`.
+ *
+ * # Safety
+ * As `bt_emissivity_from_reference`, with `reflected_k` the out-pointer.
+ */
+bt_status bt_reflected_temperature_from_reflector(const bt_band *band,
+                                                  const bt_scene *scene,
+                                                  double reflector_radiance,
+                                                  double reflector_emissivity,
+                                                  double reflector_k,
+                                                  double *reflected_k);
+
+/**
+ * Sensor radiance S of an object at `object_k` (K) in a spectral scene, band-radiance
+ * units (the equation at `bt_spectral_tables`).
+ *
+ * Accuracy: each band integral is Gauss-Legendre with panel edges at every table node,
+ * relative error below 1e-13 (checked against mpmath quadrature in
+ * `tests/scene_reference.rs` and scipy in `capi/tests/python/ctypes_check.py`).
+ * Errors: those of `bt_sensor_radiance`; for the tables `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, the table errors (`BT_STATUS_TABLE_*`),
+ * `BT_STATUS_SPECTRAL_TABLE_DOES_NOT_COVER_BAND`,
+ * `BT_STATUS_SPECTRAL_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_SPECTRAL_TRANSMITTANCE_OUT_OF_RANGE` for a value above 1,
+ * `BT_STATUS_OBJECT_NOT_VISIBLE` when response x ta x e is zero over the band.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` null or valid for reading a `bt_scene`;
+ * `tables` null or valid for reading a `bt_spectral_tables` (and its tables); `out` null
+ * or valid for writing a double; written only on success.
+ */
+bt_status bt_spectral_sensor_radiance(const bt_band *band,
+                                      const bt_scene *scene,
+                                      const bt_spectral_tables *tables,
+                                      double object_k,
+                                      double *out);
+
+/**
+ * Object temperature, K, from the sensor radiance in a spectral scene: solves
+ * tw integral r ta e L(T) = S - B by safeguarded Newton (within about 1e-12 T of the
+ * tabulated equation's solution).
+ *
+ * Errors: those of `bt_spectral_sensor_radiance`, `BT_STATUS_SIGNAL_BELOW_BACKGROUND`
+ * when S is at or below what reflections, path and window alone give,
+ * `BT_STATUS_RADIANCE_SUBNORMAL`, `BT_STATUS_RADIANCE_OUT_OF_RANGE`,
+ * `BT_STATUS_NOT_CONVERGED`.
+ *
+ * # Safety
+ * As `bt_spectral_sensor_radiance`, with `object_k` the out-pointer.
+ */
+bt_status bt_spectral_object_temperature(const bt_band *band,
+                                         const bt_scene *scene,
+                                         const bt_spectral_tables *tables,
+                                         double sensor_radiance,
+                                         double *object_k);
+
+/**
+ * Object temperature, K, from an apparent (blackbody-equivalent) temperature
+ * `apparent_k` in a spectral scene: S = Lb(T_app), then as
+ * `bt_spectral_object_temperature`.
+ *
+ * Errors: those of `bt_band_radiance` for `apparent_k` and of
+ * `bt_spectral_object_temperature`.
+ *
+ * # Safety
+ * As `bt_spectral_sensor_radiance`, with `object_k` the out-pointer.
+ */
+bt_status bt_spectral_object_temperature_from_apparent(const bt_band *band,
+                                                       const bt_scene *scene,
+                                                       const bt_spectral_tables *tables,
+                                                       double apparent_k,
+                                                       double *object_k);
 
 #ifdef __cplusplus
 }  // extern "C"

@@ -212,6 +212,9 @@ pub enum Error {
     FrameEmissivityMapUnavailable,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch,
+    // ---- calibration curves through the C ABI ---------------------------------------------
+    /// A calibration-curve form outside its declared values (C ABI only).
+    InvalidCurveForm,
 }
 
 impl Error {
@@ -356,6 +359,7 @@ impl Error {
                 "no signal at the reflected temperature: emissivity maps unavailable"
             }
             Error::FrameCurveMismatch => "the curve is not the one the table was built from",
+            Error::InvalidCurveForm => "calibration curve form is not Planck (0) or Wien (1)",
         }
     }
 }

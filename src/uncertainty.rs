@@ -759,8 +759,8 @@ pub const SURFACE_INPUTS: usize = 11;
 /// Labels of the surface-temperature inputs, in the order of [`surface_inputs`].
 pub const SURFACE_INPUT_NAMES: [&str; SURFACE_INPUTS] = [
     "signal noise",
-    "calibration (K)",
-    "calibration (signal)",
+    "calibration, temperature scale",
+    "calibration, signal offset",
     "emissivity",
     "reflected temperature",
     "atmosphere transmittance",
@@ -785,8 +785,8 @@ fn check_uncertainties(u: &InputUncertainties) -> Result<()> {
 ///
 /// ```text
 /// G = tw ta e,  dS/dT = G L'(T),  k = -1 / (G L'(T))
-/// signal noise, calibration (signal):  c = 1 / (G L'(T))               K per signal unit
-/// calibration (K):                     c = L'(T_app) / (G L'(T))      K/K, T_app = L^-1(S)
+/// signal noise, calibration offset:    c = 1 / (G L'(T))               K per signal unit
+/// calibration, temperature scale:      c = L'(T_app) / (G L'(T))      K/K, T_app = L^-1(S)
 /// emissivity:                          c = k tw ta (L(T) - L(Tr))
 /// reflected temperature:               c = k tw ta (1-e) L'(Tr)
 /// atmosphere transmittance:            c = k tw (e L(T) + (1-e) L(Tr) - L(Ta))
@@ -928,6 +928,31 @@ pub fn surface_monte_carlo<C: SignalCurve + ?Sized>(
     check_uncertainties(uncertainties)?;
     finite(sensor_signal)?;
     monte_carlo(rng, samples, probability, |rng| {
+        surface_draw(scene, curve, sensor_signal, uncertainties, rng)
+    })
+}
+
+/// As [`surface_monte_carlo`] without a buffer: `trials` draws of the same model, in the
+/// same order from the same `rng`, streamed into a [`RunningStats`] (mean and standard
+/// deviation by Welford's method; no coverage interval, which needs the sorted values).
+/// With the same `rng` state the mean and standard deviation equal those of
+/// [`surface_monte_carlo`] with `trials` samples, bit for bit.
+///
+/// # Errors
+/// [`Error::UncertaintyNegative`], [`Error::NonFinite`], [`Error::TooFewTrials`] below 2
+/// trials (checked before any draw), and any error of a trial, as in
+/// [`surface_monte_carlo`].
+pub fn surface_monte_carlo_streaming<C: SignalCurve + ?Sized>(
+    scene: &Scene,
+    curve: &C,
+    sensor_signal: f64,
+    uncertainties: &InputUncertainties,
+    rng: &mut Xoshiro256StarStar,
+    trials: usize,
+) -> Result<RunningStats> {
+    check_uncertainties(uncertainties)?;
+    finite(sensor_signal)?;
+    monte_carlo_streaming(rng, trials, |rng| {
         surface_draw(scene, curve, sensor_signal, uncertainties, rng)
     })
 }

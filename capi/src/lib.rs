@@ -33,7 +33,7 @@
 //!    them with arbitrary f64 bit patterns; `tests/c/ffi_test.c` drives every export with
 //!    hostile input from C and C++, under AddressSanitizer and UndefinedBehaviorSanitizer.
 //! 3. By configuration: the release profile sets `panic = "abort"`, so even a panic that
-//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.82) a
+//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.88) a
 //!    panic reaching an `extern "C"` function aborts in every profile instead of
 //!    unwinding into C.
 //!
@@ -99,6 +99,9 @@ mod ratio;
 mod atmosphere;
 // Uncertainty budgets.
 mod uncertainty;
+// Spectral (non-grey) scenes and the site methods.
+mod site;
+mod spectral;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -106,6 +109,10 @@ pub use atmosphere::{
 };
 pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
+};
+pub use calibration::{
+    bt_curve, bt_curve_fit, bt_curve_fit_band, bt_curve_fit_points, bt_curve_form,
+    bt_curve_object_temperature, bt_curve_sensor_signal, bt_curve_signal, bt_curve_temperature,
 };
 pub use calibration::{
     bt_points_fit, bt_sakuma_hattori, bt_sakuma_hattori_fit_band, bt_sakuma_hattori_fit_points,
@@ -125,9 +132,21 @@ pub use planck::{
     bt_spectral_radiance, bt_total_radiance,
 };
 pub use ratio::bt_ratio_temperature;
+pub use ratio::{
+    bt_wien_ratio, bt_wien_ratio_correct_grey, bt_wien_ratio_from_bands,
+    bt_wien_ratio_signal_ratio, bt_wien_ratio_temperature,
+};
 pub use scene::{
     bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,
     bt_sensor_radiance,
+};
+pub use site::{
+    bt_emissivity_from_reference, bt_emissivity_from_reference_coating,
+    bt_reflected_temperature_from_reflector,
+};
+pub use spectral::{
+    bt_spectral_object_temperature, bt_spectral_object_temperature_from_apparent,
+    bt_spectral_sensor_radiance, bt_spectral_tables,
 };
 pub use status::{
     bt_status, bt_status_message, bt_version, BT_VERSION_MAJOR, BT_VERSION_MINOR, BT_VERSION_PATCH,
@@ -136,6 +155,7 @@ pub use uncertainty::{
     bt_budget, bt_contribution, bt_input_uncertainties, bt_surface_budget, bt_surface_input_name,
     BT_BUDGET_MAX_LINES,
 };
+pub use uncertainty::{bt_monte_carlo, bt_surface_monte_carlo, bt_surface_monte_carlo_streaming};
 
 use bandtemp::{Error, Result};
 

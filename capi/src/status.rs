@@ -210,6 +210,9 @@ pub enum bt_status {
     FrameEmissivityMapUnavailable = 710,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch = 711,
+    /// A calibration-curve form outside its declared values (`bt_curve.form`, or a form
+    /// argument, not 0 or 1).
+    InvalidCurveForm = 1100,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -340,6 +343,7 @@ status_table!(
     FrameCoefficientOverflow,
     FrameEmissivityMapUnavailable,
     FrameCurveMismatch,
+    InvalidCurveForm,
 );
 
 impl bt_status {

@@ -1596,6 +1596,583 @@ static void test_uncertainty(void) {
     (void)out;
 }
 
+/* ---- site methods: emissivity from a reference, reflected temperature from a reflector ---- */
+
+/* The scene below with emissivity e, over Simpson band radiances of 8-14 um. */
+static double site_signal(const bt_scene *s, double e, double t_object, double t_reflected) {
+    bt_scene with_e = *s;
+    with_e.emissivity = e;
+    return measurement(&with_e, band_ref(8.0, 14.0, t_object, 0),
+                       band_ref(8.0, 14.0, t_reflected, 0), band_ref(8.0, 14.0, s->atm_k, 0),
+                       band_ref(8.0, 14.0, s->window_reflected_k, 0),
+                       band_ref(8.0, 14.0, s->window_k, 0));
+}
+
+static void test_site(void) {
+    double out, e = SENTINEL, t = SENTINEL;
+    size_t i;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene(); /* e 0.9, Tr 295 K, ta 0.95, tw 0.9, rw 0.05 */
+    /* An invented surface of emissivity 0.62 at 400 K, a coating of 0.95 beside it. */
+    double s_surface = site_signal(&scene, 0.62, 400.0, scene.reflected_k);
+    double s_coating = site_signal(&scene, 0.95, 400.0, scene.reflected_k);
+    /* A foil reflector of emissivity 0.05 at 300 K reflecting 330 K. */
+    double s_foil = site_signal(&scene, 0.05, 300.0, 330.0);
+    bt_status status;
+
+    /* Values against the written-out equation (Simpson band radiances, ~1e-12). */
+    EXPECT_NEAR(bt_emissivity_from_reference(&lwir, &scene, s_surface, 400.0, &out), 0.62, 1e-9);
+    status = bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, s_coating, 0.95, &e, &t);
+    expect_near(status, e, 0.62, 1e-9, "coating: surface emissivity", __LINE__);
+    expect_near(status, t, 400.0, 1e-9, "coating: common temperature", __LINE__);
+    EXPECT_NEAR(bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, 0.05, 300.0, &out),
+                330.0, 1e-9);
+    /* An ideal reflector (ef = 0) sees Tr through the path and window alone. */
+    EXPECT_NEAR(bt_reflected_temperature_from_reflector(&lwir, &scene,
+                                                        site_signal(&scene, 0.0, 300.0, 330.0),
+                                                        0.0, 300.0, &out),
+                330.0, 1e-9);
+
+    /* Named errors. */
+    EXPECT(BT_STATUS_EMISSIVITY_NOT_DETERMINED,
+           bt_emissivity_from_reference(&lwir, &scene, s_surface, scene.reflected_k, &out));
+    EXPECT(BT_STATUS_EMISSIVITY_READING_INCONSISTENT,
+           bt_emissivity_from_reference(&lwir, &scene, s_surface, 330.0, &out));
+    EXPECT(BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE,
+           bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, 1.0, 300.0, &out));
+    EXPECT(BT_STATUS_REFLECTED_NOT_DETERMINED,
+           bt_reflected_temperature_from_reflector(&lwir, &scene, 0.0, 0.05, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_emissivity_from_reference(NULL, &scene, s_surface, 400.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_emissivity_from_reference(&lwir, NULL, s_surface, 400.0, &out));
+    CHECK(bt_emissivity_from_reference(&lwir, &scene, s_surface, 400.0, NULL) == BT_STATUS_NULL_POINTER);
+    e = SENTINEL;
+    t = SENTINEL;
+    status = bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, s_coating, 1.5, &e, &t);
+    CHECK(status == BT_STATUS_EMISSIVITY_OUT_OF_RANGE && untouched(e) && untouched(t));
+    CHECK(bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, s_coating, 0.95, &e, NULL) ==
+              BT_STATUS_NULL_POINTER &&
+          untouched(e));
+    status = bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, 0.0, 0.95, &e, &t);
+    CHECK(status == BT_STATUS_SIGNAL_BELOW_BACKGROUND && untouched(e) && untouched(t));
+
+    /* Hostile scalars in every position. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        EXPECT_SANE(bt_emissivity_from_reference(&lwir, &scene, x, 400.0, &out));
+        EXPECT_SANE(bt_emissivity_from_reference(&lwir, &scene, s_surface, x, &out));
+        EXPECT_SANE(bt_reflected_temperature_from_reflector(&lwir, &scene, x, 0.05, 300.0, &out));
+        EXPECT_SANE(bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, x, 300.0, &out));
+        EXPECT_SANE(bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, 0.05, x, &out));
+        {
+            size_t j;
+            for (j = 0; j < 3; j++) {
+                double args[3] = {s_surface, s_coating, 0.95};
+                args[j] = x;
+                e = SENTINEL;
+                t = SENTINEL;
+                status = bt_emissivity_from_reference_coating(&lwir, &scene, args[0], args[1],
+                                                              args[2], &e, &t);
+                CHECK(status == BT_STATUS_OK ? isfinite(e) && isfinite(t)
+                                             : untouched(e) && untouched(t) && known_status(status));
+            }
+        }
+    }
+}
+
+/* ---- spectral scenes ------------------------------------------------------------------- */
+
+/* Linear interpolation in a table (inside its span). */
+static double lerp_table(const double *wl, const double *v, size_t n, double x) {
+    size_t i;
+    for (i = 0; i + 1 < n; i++) {
+        if (x <= wl[i + 1]) {
+            return v[i] + (v[i + 1] - v[i]) * (x - wl[i]) / (wl[i + 1] - wl[i]);
+        }
+    }
+    return v[n - 1];
+}
+
+static const double SPEC_E_WL[] = {8.0, 11.0, 14.0};
+static const double SPEC_E[] = {0.95, 0.85, 0.75};  /* invented: emissivity falling with lambda */
+static const double SPEC_TA_WL[] = {7.5, 10.0, 12.0, 14.5};
+static const double SPEC_TA[] = {0.90, 0.97, 0.95, 0.85}; /* invented air transmittance */
+
+/* The spectral equation of bt_spectral_tables written out: Simpson on each piece between the
+ * tables' nodes (where the integrand is smooth), 1000 panels per piece. */
+static double spectral_ref(const bt_scene *s, double t_k) {
+    static const double edges[] = {8.0, 10.0, 11.0, 12.0, 14.0};
+    double integral = 0.0;
+    size_t k;
+    for (k = 0; k + 1 < sizeof edges / sizeof edges[0]; k++) {
+        const int n = 1000;
+        double lo = edges[k], step = (edges[k + 1] - edges[k]) / n, sum = 0.0;
+        int i;
+        for (i = 0; i <= n; i++) {
+            double wl = lo + i * step;
+            double e = lerp_table(SPEC_E_WL, SPEC_E, 3, wl);
+            double ta = lerp_table(SPEC_TA_WL, SPEC_TA, 4, wl);
+            double f = ta * e * planck(wl, t_k) + ta * (1.0 - e) * planck(wl, s->reflected_k) +
+                       (1.0 - ta) * planck(wl, s->atm_k);
+            sum += ((i == 0 || i == n) ? 1.0 : (i % 2 ? 4.0 : 2.0)) * f;
+        }
+        integral += sum * step / 3.0;
+    }
+    return s->window_transmittance * integral +
+           s->window_reflectance * band_ref(8.0, 14.0, s->window_reflected_k, 0) +
+           (1.0 - s->window_transmittance - s->window_reflectance) *
+               band_ref(8.0, 14.0, s->window_k, 0);
+}
+
+static void test_spectral(void) {
+    double out, s_ref, apparent = SENTINEL, grey = SENTINEL;
+    double bad[3] = {0.9, 1.5, 0.9}, short_wl[3] = {9.0, 11.0, 14.0};
+    size_t i;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene();
+    bt_spectral_tables tables = {SPEC_E_WL, SPEC_E, 3, SPEC_TA_WL, SPEC_TA, 4};
+    bt_spectral_tables none = {NULL, NULL, 0, NULL, NULL, 0};
+    bt_spectral_tables broken;
+
+    /* Against the written-out integral (Simpson, ~1e-12; the library claims 1e-13). */
+    for (i = 0; i < 4; i++) {
+        double t = 320.0 + 250.0 * (double)i;
+        s_ref = spectral_ref(&scene, t);
+        EXPECT_NEAR(bt_spectral_sensor_radiance(&lwir, &scene, &tables, t, &out), s_ref, 1e-10);
+        EXPECT_NEAR(bt_spectral_object_temperature(&lwir, &scene, &tables, s_ref, &out), t, 1e-10);
+        CHECK(bt_band_temperature(&lwir, s_ref, &apparent) == BT_STATUS_OK);
+        EXPECT_NEAR(bt_spectral_object_temperature_from_apparent(&lwir, &scene, &tables, apparent,
+                                                                 &out),
+                    t, 1e-9);
+    }
+    /* Without tables the spectral scene is the grey one. */
+    CHECK(bt_sensor_radiance(&lwir, &scene, 500.0, &grey) == BT_STATUS_OK);
+    EXPECT_NEAR(bt_spectral_sensor_radiance(&lwir, &scene, &none, 500.0, &out), grey, 1e-13);
+
+    /* Named errors. */
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(&lwir, &scene, NULL, 500.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(NULL, &scene, &tables, 500.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(&lwir, NULL, &tables, 500.0, &out));
+    CHECK(bt_spectral_sensor_radiance(&lwir, &scene, &tables, 500.0, NULL) == BT_STATUS_NULL_POINTER);
+    broken = tables;
+    broken.emissivity_um = short_wl; /* starts at 9 um: does not cover 8-14 um */
+    EXPECT(BT_STATUS_SPECTRAL_TABLE_DOES_NOT_COVER_BAND,
+           bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity = bad;
+    EXPECT(BT_STATUS_SPECTRAL_EMISSIVITY_OUT_OF_RANGE,
+           bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.transmittance = bad;
+    broken.transmittance_len = 3;
+    broken.transmittance_um = SPEC_E_WL;
+    EXPECT(BT_STATUS_SPECTRAL_TRANSMITTANCE_OUT_OF_RANGE,
+           bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity = NULL;
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.transmittance_um = (const double *)misaligned((void *)SPEC_TA_WL);
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity_len = SIZE_MAX;
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity_len = 1;
+    EXPECT(BT_STATUS_TABLE_TOO_SHORT, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    EXPECT(BT_STATUS_SIGNAL_BELOW_BACKGROUND,
+           bt_spectral_object_temperature(&lwir, &scene, &tables, 1e-3, &out));
+
+    /* Hostile scalars, and hostile table values. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i], values[4];
+        size_t j;
+        EXPECT_SANE(bt_spectral_sensor_radiance(&lwir, &scene, &tables, x, &out));
+        EXPECT_SANE(bt_spectral_object_temperature(&lwir, &scene, &tables, x, &out));
+        EXPECT_SANE(bt_spectral_object_temperature_from_apparent(&lwir, &scene, &tables, x, &out));
+        for (j = 0; j < 4; j++) {
+            memcpy(values, SPEC_TA, sizeof values);
+            values[j] = x;
+            broken = tables;
+            broken.transmittance = values;
+            EXPECT_SANE(bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+            broken = tables;
+            broken.transmittance_um = values;
+            EXPECT_SANE(bt_spectral_object_temperature(&lwir, &scene, &broken, 150.0, &out));
+        }
+    }
+}
+
+/* ---- Wien ratio model ---------------------------------------------------------------- */
+
+static int wien_untouched(const bt_wien_ratio *w) {
+    return untouched(w->lambda1_um) && untouched(w->lambda2_um) && untouched(w->prefactor);
+}
+
+static void test_wien_ratio(void) {
+    double out, exact = SENTINEL;
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    size_t i;
+    bt_band b1 = rectangular(0.645, 0.655, BT_DETECTOR_ENERGY);
+    bt_band b2 = rectangular(0.895, 0.905, BT_DETECTOR_ENERGY);
+    bt_wien_ratio w = {SENTINEL, SENTINEL, SENTINEL}, bad;
+    double lambda_r, r_ref, r_planck;
+    bt_status status;
+
+    /* The model of two rectangular bands: centre wavelengths, W = (l1^-5 D1)/(l2^-5 D2). */
+    status = bt_wien_ratio_from_bands(&b1, &b2, &w);
+    expect_near(status, w.lambda1_um, 0.65, 1e-14, "Wien lambda1", __LINE__);
+    expect_near(status, w.lambda2_um, 0.90, 1e-14, "Wien lambda2", __LINE__);
+    expect_near(status, w.prefactor, pow(0.65, -5.0) * 0.01 / (pow(0.90, -5.0) * 0.01), 1e-13,
+                "Wien prefactor", __LINE__);
+    lambda_r = w.lambda1_um * w.lambda2_um / (w.lambda2_um - w.lambda1_um);
+
+    /* R = kappa W exp(-c2 / (lambda_R T)) and its inverse, written out. */
+    r_ref = 1.1 * w.prefactor * exp(-c2_umk / (lambda_r * 1500.0));
+    EXPECT_NEAR(bt_wien_ratio_signal_ratio(&w, 1500.0, 1.1, &out), r_ref, 1e-13);
+    EXPECT_NEAR(bt_wien_ratio_temperature(&w, r_ref, 1.1, &out), 1500.0, 1e-12);
+    EXPECT_NEAR(bt_wien_ratio_correct_grey(&w, 1500.0, 1.1, &out),
+                1.0 / (1.0 / 1500.0 + lambda_r / c2_umk * log(1.1)), 1e-13);
+
+    /* Against Planck's law: the documented agreement of the closed form with the exact solver
+     * for 10 nm bands at 0.65/0.90 um is within 0.4 K at 800 K. */
+    r_planck = band_ref(0.645, 0.655, 800.0, 0) / band_ref(0.895, 0.905, 800.0, 0);
+    status = bt_wien_ratio_temperature(&w, r_planck, 1.0, &out);
+    CHECK(status == BT_STATUS_OK && fabs(out - 800.0) < 0.4);
+    CHECK(bt_ratio_temperature(&b1, &b2, 600.0, 2000.0, r_planck, 1.0, 1.0, &exact) ==
+              BT_STATUS_OK &&
+          fabs(exact - 800.0) < 1e-6);
+
+    /* Named errors. */
+    bad = w;
+    bad.lambda2_um = bad.lambda1_um;
+    EXPECT(BT_STATUS_BANDS_INDISTINGUISHABLE, bt_wien_ratio_temperature(&bad, 0.1, 1.0, &out));
+    bad = w;
+    bad.prefactor = 0.0;
+    EXPECT(BT_STATUS_RATIO_NOT_POSITIVE, bt_wien_ratio_temperature(&bad, 0.1, 1.0, &out));
+    bad = w;
+    bad.lambda1_um = -0.65;
+    EXPECT(BT_STATUS_WAVELENGTH_NOT_POSITIVE, bt_wien_ratio_signal_ratio(&bad, 900.0, 1.0, &out));
+    EXPECT(BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE, bt_wien_ratio_temperature(&w, 0.1, 0.0, &out));
+    EXPECT(BT_STATUS_RATIO_NOT_POSITIVE, bt_wien_ratio_temperature(&w, 0.0, 1.0, &out));
+    EXPECT(BT_STATUS_RATIO_OUT_OF_RANGE, bt_wien_ratio_temperature(&w, 2.0 * w.prefactor, 1.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_wien_ratio_temperature(NULL, 0.1, 1.0, &out));
+    EXPECT(BT_STATUS_INVALID_BUFFER,
+           bt_wien_ratio_temperature((const bt_wien_ratio *)misaligned(&w), 0.1, 1.0, &out));
+    bad.lambda1_um = SENTINEL;
+    bad.lambda2_um = SENTINEL;
+    bad.prefactor = SENTINEL;
+    CHECK(bt_wien_ratio_from_bands(&b1, &b1, &bad) == BT_STATUS_BANDS_INDISTINGUISHABLE &&
+          wien_untouched(&bad));
+    CHECK(bt_wien_ratio_from_bands(&b1, NULL, &bad) == BT_STATUS_NULL_POINTER && wien_untouched(&bad));
+    CHECK(bt_wien_ratio_from_bands(&b1, &b2, NULL) == BT_STATUS_NULL_POINTER);
+
+    /* Hostile scalars in every position, in the struct and as arguments. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        size_t j;
+        EXPECT_SANE(bt_wien_ratio_signal_ratio(&w, x, 1.0, &out));
+        EXPECT_SANE(bt_wien_ratio_signal_ratio(&w, 1000.0, x, &out));
+        EXPECT_SANE(bt_wien_ratio_temperature(&w, x, 1.0, &out));
+        EXPECT_SANE(bt_wien_ratio_temperature(&w, 0.01, x, &out));
+        EXPECT_SANE(bt_wien_ratio_correct_grey(&w, x, 1.1, &out));
+        EXPECT_SANE(bt_wien_ratio_correct_grey(&w, 1500.0, x, &out));
+        for (j = 0; j < 3; j++) {
+            double fields[3];
+            fields[0] = w.lambda1_um;
+            fields[1] = w.lambda2_um;
+            fields[2] = w.prefactor;
+            fields[j] = x;
+            bad.lambda1_um = fields[0];
+            bad.lambda2_um = fields[1];
+            bad.prefactor = fields[2];
+            EXPECT_SANE(bt_wien_ratio_temperature(&bad, 0.01, 1.0, &out));
+            EXPECT_SANE(bt_wien_ratio_signal_ratio(&bad, 1000.0, 1.0, &out));
+        }
+        b2 = rectangular(x, 0.905, BT_DETECTOR_PHOTON);
+        bad.lambda1_um = SENTINEL;
+        bad.lambda2_um = SENTINEL;
+        bad.prefactor = SENTINEL;
+        status = bt_wien_ratio_from_bands(&b1, &b2, &bad);
+        CHECK(status == BT_STATUS_OK
+                  ? isfinite(bad.lambda1_um) && isfinite(bad.lambda2_um) && isfinite(bad.prefactor)
+                  : wien_untouched(&bad) && known_status(status));
+    }
+}
+
+/* ---- calibration curves of either form, behind a dark offset --------------------------- */
+
+static void set_raw_form(bt_curve *curve, unsigned int value) {
+    if (sizeof curve->form == sizeof(unsigned int)) {
+        memcpy(&curve->form, &value, sizeof curve->form);
+    } else if (sizeof curve->form == sizeof(unsigned short)) {
+        unsigned short narrow = (unsigned short)value;
+        memcpy(&curve->form, &narrow, sizeof curve->form);
+    } else {
+        unsigned char narrow = (unsigned char)value;
+        memcpy(&curve->form, &narrow, sizeof curve->form);
+    }
+}
+
+/* The two forms written out: offset + C/(exp(c2/(A T + B)) - 1), offset + C exp(-c2/(A T + B)). */
+static double curve_ref(const bt_curve *p, double t_k) {
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    double y = c2_umk / (p->a_um * t_k + p->b_umk);
+    return p->offset + (p->form == BT_CURVE_FORM_WIEN ? p->c * exp(-y) : p->c / expm1(y));
+}
+
+static int curve_untouched(const bt_curve *p) {
+    return untouched(p->a_um) && untouched(p->b_umk) && untouched(p->c) && untouched(p->offset);
+}
+
+static void test_curves(void) {
+    double out, max_error = SENTINEL, t_k[6], counts[6];
+    size_t i;
+    bt_curve planck_curve = {BT_CURVE_FORM_PLANCK, 10.2, 25.0, 5.0e4, 1024.0};
+    bt_curve wien_curve = {BT_CURVE_FORM_WIEN, 0.905, 1.5, 2.0e9, 250.0};
+    bt_curve bad, fitted;
+    bt_curve_fit fit;
+    bt_scene scene = full_scene();
+    bt_band narrow = rectangular(0.645, 0.655, BT_DETECTOR_ENERGY);
+    bt_status status;
+
+    /* Both forms against the written-out curves, and their closed-form inverses. */
+    for (i = 0; i < 5; i++) {
+        double t_ir = 260.0 + 60.0 * (double)i, t_nir = 900.0 + 250.0 * (double)i;
+        EXPECT_NEAR(bt_curve_signal(&planck_curve, t_ir, &out), curve_ref(&planck_curve, t_ir), 1e-14);
+        EXPECT_NEAR(bt_curve_temperature(&planck_curve, curve_ref(&planck_curve, t_ir), &out), t_ir,
+                    1e-12);
+        EXPECT_NEAR(bt_curve_signal(&wien_curve, t_nir, &out), curve_ref(&wien_curve, t_nir), 1e-14);
+        EXPECT_NEAR(bt_curve_temperature(&wien_curve, curve_ref(&wien_curve, t_nir), &out), t_nir,
+                    1e-12);
+    }
+    /* The measurement equation over a curve: the offset enters once. */
+    {
+        double s = measurement(&scene, curve_ref(&planck_curve, 350.0) - 1024.0,
+                               curve_ref(&planck_curve, scene.reflected_k) - 1024.0,
+                               curve_ref(&planck_curve, scene.atm_k) - 1024.0,
+                               curve_ref(&planck_curve, scene.window_reflected_k) - 1024.0,
+                               curve_ref(&planck_curve, scene.window_k) - 1024.0) +
+                   1024.0;
+        EXPECT_NEAR(bt_curve_sensor_signal(&planck_curve, &scene, 350.0, &out), s, 1e-13);
+        EXPECT_NEAR(bt_curve_object_temperature(&planck_curve, &scene, s, &out), 350.0, 1e-11);
+    }
+
+    /* Fits: exact readings of the invented Wien-form pyrometer behind its 250-count dark
+     * offset come back to below 1 uK (the documented recovery), parameters to 1e-6. */
+    for (i = 0; i < 6; i++) {
+        t_k[i] = 873.15 + 120.0 * (double)i;
+        counts[i] = curve_ref(&wien_curve, t_k[i]);
+    }
+    memset(&fit, 0, sizeof fit);
+    status = bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 6, 250.0, &fit);
+    CHECK(status == BT_STATUS_OK && fit.curve.form == BT_CURVE_FORM_WIEN &&
+          fit.max_residual_k < 1e-6 && fabs(fit.curve.a_um / 0.905 - 1.0) < 1e-6 &&
+          fit.curve.offset == 250.0);
+    /* The band fit in the Wien form: 0.645-0.655 um over 700-1400 K interpolates to well
+     * under a millikelvin, and its curve inverts Simpson band radiance within that. */
+    fitted.a_um = SENTINEL;
+    fitted.b_umk = SENTINEL;
+    fitted.c = SENTINEL;
+    fitted.offset = SENTINEL;
+    status = bt_curve_fit_band(BT_CURVE_FORM_WIEN, &narrow, 700.0, 1400.0, &fitted, &max_error);
+    CHECK(status == BT_STATUS_OK && fitted.form == BT_CURVE_FORM_WIEN && fitted.offset == 0.0 &&
+          max_error > 0.0 && max_error < 1e-3);
+    EXPECT_NEAR(bt_curve_temperature(&fitted, band_ref(0.645, 0.655, 1000.0, 0), &out), 1000.0,
+                (max_error + 1e-6) / 1000.0);
+
+    /* Named errors. */
+    bad = planck_curve;
+    set_raw_form(&bad, 7);
+    EXPECT(BT_STATUS_INVALID_CURVE_FORM, bt_curve_signal(&bad, 300.0, &out));
+    set_raw_form(&bad, 0xFFFFFFFFu);
+    EXPECT(BT_STATUS_INVALID_CURVE_FORM, bt_curve_temperature(&bad, 2000.0, &out));
+    EXPECT(BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET, bt_curve_temperature(&planck_curve, 1024.0, &out));
+    EXPECT(BT_STATUS_CALIBRATION_OUT_OF_DOMAIN, bt_curve_temperature(&wien_curve, 3.0e9, &out));
+    bad = planck_curve;
+    bad.a_um = 0.0;
+    EXPECT(BT_STATUS_CALIBRATION_PARAMETER_INVALID, bt_curve_signal(&bad, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_curve_signal(NULL, 300.0, &out));
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_curve_signal((const bt_curve *)misaligned(&bad), 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_curve_sensor_signal(&planck_curve, NULL, 300.0, &out));
+    CHECK(bt_curve_signal(&planck_curve, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    bad.a_um = SENTINEL;
+    bad.b_umk = SENTINEL;
+    bad.c = SENTINEL;
+    bad.offset = SENTINEL;
+    max_error = SENTINEL;
+    CHECK(bt_curve_fit_band(2, &narrow, 700.0, 1400.0, &bad, &max_error) ==
+              BT_STATUS_INVALID_CURVE_FORM &&
+          curve_untouched(&bad) && untouched(max_error));
+    CHECK(bt_curve_fit_band(-1, &narrow, 700.0, 1400.0, &bad, &max_error) ==
+              BT_STATUS_INVALID_CURVE_FORM &&
+          curve_untouched(&bad));
+    CHECK(bt_curve_fit_band(BT_CURVE_FORM_PLANCK, &narrow, 1400.0, 700.0, &bad, &max_error) ==
+              BT_STATUS_CALIBRATION_RANGE_INVALID &&
+          curve_untouched(&bad) && untouched(max_error));
+    CHECK(bt_curve_fit_points(5, t_k, counts, NULL, 6, 250.0, &fit) == BT_STATUS_INVALID_CURVE_FORM);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 2, 250.0, &fit) ==
+          BT_STATUS_CALIBRATION_TOO_FEW_POINTS);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 6, 1e12, &fit) ==
+          BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, NULL, counts, NULL, 6, 250.0, &fit) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, SIZE_MAX, 250.0, &fit) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 6, 250.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+
+    /* Hostile scalars in every field and argument. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        size_t j;
+        for (j = 0; j < 4; j++) {
+            bad = (j % 2 == 0) ? planck_curve : wien_curve;
+            if (j == 0) bad.a_um = x;
+            if (j == 1) bad.b_umk = x;
+            if (j == 2) bad.c = x;
+            if (j == 3) bad.offset = x;
+            EXPECT_SANE(bt_curve_signal(&bad, 1000.0, &out));
+            EXPECT_SANE(bt_curve_temperature(&bad, 5000.0, &out));
+            EXPECT_SANE(bt_curve_object_temperature(&bad, &scene, 5000.0, &out));
+        }
+        EXPECT_SANE(bt_curve_signal(&planck_curve, x, &out));
+        EXPECT_SANE(bt_curve_temperature(&planck_curve, x, &out));
+        EXPECT_SANE(bt_curve_signal(&wien_curve, x, &out));
+        EXPECT_SANE(bt_curve_temperature(&wien_curve, x, &out));
+        EXPECT_SANE(bt_curve_sensor_signal(&wien_curve, &scene, x, &out));
+        EXPECT_SANE(bt_curve_object_temperature(&planck_curve, &scene, x, &out));
+        status = bt_curve_fit_points(BT_CURVE_FORM_PLANCK, t_k, counts, NULL, 6, x, &fit);
+        CHECK(status == BT_STATUS_OK ? isfinite(fit.curve.a_um) : known_status(status));
+    }
+}
+
+/* ---- Monte Carlo uncertainty of a surface temperature --------------------------------- */
+
+#define MC_TRIALS 20000
+static double mc_samples[MC_TRIALS];
+static double mc_again[MC_TRIALS];
+
+static int mc_untouched(const bt_monte_carlo *m) {
+    return m->trials == 7 && untouched(m->mean_k) && untouched(m->standard_deviation_k) &&
+           untouched(m->low_k) && untouched(m->high_k);
+}
+
+static bt_monte_carlo mc_sentinel(void) {
+    bt_monte_carlo m;
+    memset(&m, 0, sizeof m);
+    m.trials = 7;
+    m.mean_k = SENTINEL;
+    m.standard_deviation_k = SENTINEL;
+    m.probability = SENTINEL;
+    m.low_k = SENTINEL;
+    m.high_k = SENTINEL;
+    m.shortest_low_k = SENTINEL;
+    m.shortest_high_k = SENTINEL;
+    return m;
+}
+
+static void test_monte_carlo(void) {
+    double mean = SENTINEL, sd = SENTINEL, slope, sigma_t, s;
+    size_t i, sorted = 1;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = plain_scene(); /* e 0.95, no air, no window */
+    bt_input_uncertainties u, bad_u;
+    bt_monte_carlo mc = mc_sentinel(), again = mc_sentinel();
+    bt_status status;
+
+    /* Only signal noise: for a small noise the temperature spread is u(S) / (e L'(T)), L' by
+     * a central difference of Simpson band radiance (independent of the library). */
+    memset(&u, 0, sizeof u);
+    u.signal = 0.05;
+    s = measurement(&scene, band_ref(8.0, 14.0, 350.0, 0), band_ref(8.0, 14.0, 293.15, 0), 0.0,
+                    0.0, 0.0);
+    slope = (band_ref(8.0, 14.0, 350.01, 0) - band_ref(8.0, 14.0, 349.99, 0)) / 0.02;
+    sigma_t = u.signal / (scene.emissivity * slope);
+    status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 2024, 0.95, mc_samples, MC_TRIALS, &mc);
+    CHECK(status == BT_STATUS_OK && mc.trials == MC_TRIALS && mc.probability == 0.95);
+    /* Statistical bounds (JCGM 101 7.6 standard errors, 4 sigma): mean sigma/sqrt(M), standard
+     * deviation sigma/sqrt(2(M-1)); plus 1e-3 relative for the linearisation. */
+    CHECK(fabs(mc.mean_k - 350.0) < 4.0 * sigma_t / sqrt((double)MC_TRIALS) + 1e-3 * sigma_t);
+    CHECK(fabs(mc.standard_deviation_k / sigma_t - 1.0) < 4.0 / sqrt(2.0 * (MC_TRIALS - 1)) + 1e-3);
+    /* A normal output: the 95 % interval is mean -+ 1.96 sigma (quantile standard error about
+     * 2.7 sigma/sqrt(M) at 1.96 sigma; 4 of them allowed). */
+    CHECK(fabs(mc.low_k - (350.0 - 1.959964 * sigma_t)) < 12.0 * sigma_t / sqrt((double)MC_TRIALS));
+    CHECK(fabs(mc.high_k - (350.0 + 1.959964 * sigma_t)) < 12.0 * sigma_t / sqrt((double)MC_TRIALS));
+    CHECK(mc.shortest_low_k >= mc_samples[0] && mc.shortest_high_k <= mc_samples[MC_TRIALS - 1]);
+    for (i = 1; i < MC_TRIALS; i++) {
+        sorted = sorted && mc_samples[i - 1] <= mc_samples[i];
+    }
+    CHECK(sorted && mc.low_k >= mc_samples[0] && mc.high_k <= mc_samples[MC_TRIALS - 1]);
+
+    /* Reproducible bit for bit; another seed gives another run; streaming agrees exactly. */
+    status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 2024, 0.95, mc_again, MC_TRIALS, &again);
+    CHECK(status == BT_STATUS_OK && memcmp(&mc, &again, sizeof mc) == 0 &&
+          memcmp(mc_samples, mc_again, sizeof mc_samples) == 0);
+    status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 2025, 0.95, mc_again, MC_TRIALS, &again);
+    CHECK(status == BT_STATUS_OK && again.mean_k != mc.mean_k);
+    status = bt_surface_monte_carlo_streaming(&lwir, &scene, s, &u, 2024, MC_TRIALS, &mean, &sd);
+    CHECK(status == BT_STATUS_OK && memcmp(&mean, &mc.mean_k, sizeof mean) == 0 &&
+          memcmp(&sd, &mc.standard_deviation_k, sizeof sd) == 0);
+
+    /* Named errors; out values untouched. */
+    mc = mc_sentinel();
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, mc_samples, 1, &mc) ==
+              BT_STATUS_TOO_FEW_TRIALS && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, NULL, 0, &mc) ==
+              BT_STATUS_TOO_FEW_TRIALS && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 1.0, mc_samples, 64, &mc) ==
+              BT_STATUS_COVERAGE_PROBABILITY_OUT_OF_RANGE && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, NULL, 64, &mc) ==
+              BT_STATUS_NULL_POINTER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, (double *)misaligned(mc_samples), 64,
+                                 &mc) == BT_STATUS_INVALID_BUFFER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, mc_samples, SIZE_MAX, &mc) ==
+              BT_STATUS_INVALID_BUFFER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, NULL, 1, 0.95, mc_samples, 64, &mc) ==
+              BT_STATUS_NULL_POINTER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, mc_samples, 64, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    bad_u = u;
+    bad_u.emissivity = -0.01;
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &bad_u, 1, 0.95, mc_samples, 64, &mc) ==
+              BT_STATUS_UNCERTAINTY_NEGATIVE && mc_untouched(&mc));
+    /* e = 0.95 with u(e) = 0.05 draws up to 0.95 + sqrt(3) 0.05 > 1: outside the model. */
+    bad_u.emissivity = 0.05;
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &bad_u, 1, 0.95, mc_samples, 256, &mc) ==
+              BT_STATUS_EMISSIVITY_OUT_OF_RANGE && mc_untouched(&mc));
+    mean = SENTINEL;
+    sd = SENTINEL;
+    CHECK(bt_surface_monte_carlo_streaming(&lwir, &scene, s, &u, 1, 1, &mean, &sd) ==
+              BT_STATUS_TOO_FEW_TRIALS && untouched(mean) && untouched(sd));
+    CHECK(bt_surface_monte_carlo_streaming(&lwir, &scene, s, &u, 1, 64, &mean, NULL) ==
+              BT_STATUS_NULL_POINTER && untouched(mean));
+
+    /* Hostile scalars: the reading, the probability, and every uncertainty (64 trials). */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        size_t j;
+        mc = mc_sentinel();
+        status = bt_surface_monte_carlo(&lwir, &scene, x, &u, 7, 0.95, mc_samples, 64, &mc);
+        CHECK(status == BT_STATUS_OK ? isfinite(mc.mean_k) && mc.trials == 64
+                                     : mc_untouched(&mc) && known_status(status));
+        mc = mc_sentinel();
+        status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 7, x, mc_samples, 64, &mc);
+        CHECK(status == BT_STATUS_OK ? isfinite(mc.low_k) && isfinite(mc.high_k)
+                                     : mc_untouched(&mc) && known_status(status));
+        for (j = 0; j < 11; j++) {
+            double fields[11];
+            memset(fields, 0, sizeof fields);
+            fields[j] = x;
+            memcpy(&bad_u, fields, sizeof bad_u);
+            mean = SENTINEL;
+            sd = SENTINEL;
+            status = bt_surface_monte_carlo_streaming(&lwir, &scene, s, &bad_u, 7, 16, &mean, &sd);
+            CHECK(status == BT_STATUS_OK ? isfinite(mean) && isfinite(sd)
+                                         : untouched(mean) && untouched(sd) && known_status(status));
+        }
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -1611,6 +2188,11 @@ int main(void) {
     test_ratio();
     test_atmosphere();
     test_uncertainty();
+    test_site();
+    test_spectral();
+    test_wien_ratio();
+    test_curves();
+    test_monte_carlo();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }

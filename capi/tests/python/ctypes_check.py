@@ -12,7 +12,14 @@ Loads the cdylib with ctypes and compares, for seeded random cases,
 - inversion: the library's temperature for the reference radiance of a known temperature;
 - the measurement equation (DESIGN.md) written out here over reference band radiances,
   against bt_sensor_radiance, and its inversion bt_object_temperature;
-- the Sakuma-Hattori signal and its closed-form inverse in mpmath at 40 digits.
+- the Sakuma-Hattori signal and its closed-form inverse in mpmath at 40 digits;
+- spectral scenes against scipy quad of the tabulated equation split at every node;
+- the site methods (emissivity from a reference or a coating, reflected temperature from
+  a reflector) on readings written out in mpmath;
+- the Wien ratio model and curves of both forms behind a dark offset, in mpmath, and a
+  Wien-form fit recovering a known curve from exact readings;
+- Monte Carlo (seeded) against the GUM law of propagation with sensitivities from
+  mpmath derivatives of the written-out equation.
 
 Usage:
     cargo build --release --lib
@@ -50,6 +57,29 @@ TOL = {
     "object temperature": 1e-12,
     "sakuma-hattori signal vs mpmath": 1e-13,
     "sakuma-hattori temperature vs mpmath": 1e-12,
+    # Spectral scenes: Gauss-Legendre panels at every table node, 1e-13 claimed (quad 1e-13).
+    "spectral sensor radiance vs scipy quad": 1e-11,
+    "spectral object temperature": 1e-11,
+    # Site methods: closed forms over band radiances (full double precision claimed); the
+    # emissivity's error is the signal's amplified by S / (tw ta (L(Tref) - L(Tr))) <= ~20.
+    "emissivity from reference": 1e-11,
+    "coating emissivity": 1e-10,
+    "coating temperature": 1e-12,
+    "reflected temperature from reflector": 1e-11,
+    # Wien ratio model: closed forms, a few ulp.
+    # lambda^-5 amplifies the rounding of the band centres (measured: 6e-14).
+    "wien ratio model vs mpmath": 3e-13,
+    "wien ratio temperature vs mpmath": 1e-12,
+    # Calibration curves: closed forms (a few ulp); fits recover exact data to < 1 uK.
+    "curve signal vs mpmath": 1e-13,
+    "curve temperature vs mpmath": 1e-12,
+    "curve fit recovers A": 1e-7,
+    # Monte Carlo against the GUM law of propagation with sensitivities from mpmath
+    # derivatives of the written-out equation, for a near-linear case: 4 standard errors
+    # of the standard deviation (1/sqrt(2(M-1)) relative) plus 2 % for what is left
+    # nonlinear. The mean: |mean - T| / (4 u/sqrt(M) + 0.02 u) must be at most 1.
+    "monte carlo standard deviation vs law of propagation": 4.0 / math.sqrt(2 * 39999) + 0.02,
+    "monte carlo mean vs estimate (error / bound)": 1.0,
 }
 
 H = mp.mpf(constants.h)  # 6.62607015e-34 J s, exact (SI 2019)
@@ -91,6 +121,75 @@ class SakumaHattori(ctypes.Structure):
     _fields_ = [("a_um", ctypes.c_double), ("b_umk", ctypes.c_double), ("c", ctypes.c_double)]
 
 
+class SpectralTables(ctypes.Structure):
+    _fields_ = [
+        ("emissivity_um", ctypes.POINTER(ctypes.c_double)),
+        ("emissivity", ctypes.POINTER(ctypes.c_double)),
+        ("emissivity_len", ctypes.c_size_t),
+        ("transmittance_um", ctypes.POINTER(ctypes.c_double)),
+        ("transmittance", ctypes.POINTER(ctypes.c_double)),
+        ("transmittance_len", ctypes.c_size_t),
+    ]
+
+
+class WienRatio(ctypes.Structure):
+    _fields_ = [("lambda1_um", ctypes.c_double), ("lambda2_um", ctypes.c_double), ("prefactor", ctypes.c_double)]
+
+
+class Curve(ctypes.Structure):
+    _fields_ = [
+        ("form", ctypes.c_uint),  # a C enum: 0 Planck, 1 Wien
+        ("a_um", ctypes.c_double),
+        ("b_umk", ctypes.c_double),
+        ("c", ctypes.c_double),
+        ("offset", ctypes.c_double),
+    ]
+
+
+class CurveFit(ctypes.Structure):
+    _fields_ = [
+        ("curve", Curve),
+        ("covariance", (ctypes.c_double * 3) * 3),
+        ("max_residual_k", ctypes.c_double),
+        ("rms_residual_k", ctypes.c_double),
+        ("iterations", ctypes.c_uint32),
+    ]
+
+
+class Uncertainties(ctypes.Structure):
+    _fields_ = [
+        (name, ctypes.c_double)
+        for name in (
+            "signal",
+            "calibration_k",
+            "calibration_signal",
+            "emissivity",
+            "reflected_k",
+            "atm_transmittance",
+            "atm_k",
+            "window_transmittance",
+            "window_reflectance",
+            "window_k",
+            "window_reflected_k",
+        )
+    ]
+
+
+class MonteCarlo(ctypes.Structure):
+    _fields_ = [("trials", ctypes.c_size_t)] + [
+        (name, ctypes.c_double)
+        for name in (
+            "mean_k",
+            "standard_deviation_k",
+            "probability",
+            "low_k",
+            "high_k",
+            "shortest_low_k",
+            "shortest_high_k",
+        )
+    ]
+
+
 def load(path):
     lib = ctypes.CDLL(path)
     d, p = ctypes.c_double, ctypes.POINTER(ctypes.c_double)
@@ -101,6 +200,20 @@ def load(path):
         "bt_object_temperature": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, p],
         "bt_sakuma_hattori_signal": [ctypes.POINTER(SakumaHattori), d, p],
         "bt_sakuma_hattori_temperature": [ctypes.POINTER(SakumaHattori), d, p],
+        "bt_spectral_sensor_radiance": [ctypes.POINTER(Band), ctypes.POINTER(Scene), ctypes.POINTER(SpectralTables), d, p],
+        "bt_spectral_object_temperature": [ctypes.POINTER(Band), ctypes.POINTER(Scene), ctypes.POINTER(SpectralTables), d, p],
+        "bt_emissivity_from_reference": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, d, p],
+        "bt_emissivity_from_reference_coating": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, d, d, p, p],
+        "bt_reflected_temperature_from_reflector": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, d, d, p],
+        "bt_wien_ratio_from_bands": [ctypes.POINTER(Band), ctypes.POINTER(Band), ctypes.POINTER(WienRatio)],
+        "bt_wien_ratio_temperature": [ctypes.POINTER(WienRatio), d, d, p],
+        "bt_curve_signal": [ctypes.POINTER(Curve), d, p],
+        "bt_curve_temperature": [ctypes.POINTER(Curve), d, p],
+        "bt_curve_fit_points": [ctypes.c_int, p, p, p, ctypes.c_size_t, d, ctypes.POINTER(CurveFit)],
+        "bt_surface_monte_carlo": [
+            ctypes.POINTER(Band), ctypes.POINTER(Scene), d, ctypes.POINTER(Uncertainties),
+            ctypes.c_uint64, d, p, ctypes.c_size_t, ctypes.POINTER(MonteCarlo),
+        ],
     }
     for name, args in signatures.items():
         fn = getattr(lib, name)
@@ -188,6 +301,15 @@ class Tally:
         self.failed = 0
         self.worst = {}
 
+    def ratio(self, what, value):
+        """A nonnegative figure that must not exceed TOL[what]."""
+        self.worst[what] = max(self.worst.get(what, 0.0), value)
+        if value <= TOL[what]:
+            self.passed += 1
+        else:
+            self.failed += 1
+            print(f"FAIL {what}: {value:.3g} > {TOL[what]:.3g}")
+
     def rel(self, what, got, want):
         want = float(want)
         err = abs(got - want) / abs(want)
@@ -197,6 +319,155 @@ class Tally:
         else:
             self.failed += 1
             print(f"FAIL {what}: got {got!r}, want {want!r}, rel err {err:.3g}")
+
+
+def status_of(lib, name, *args):
+    status = getattr(lib, name)(*args)
+    if status != 0:
+        raise RuntimeError(f"{name}: status {status} ({lib.bt_status_message(status).decode()})")
+
+
+def doubles(values):
+    return (ctypes.c_double * len(values))(*values)
+
+
+def check_rest(lib, rng, tally):
+    """Spectral scenes, site methods, the Wien ratio model, calibration curves, Monte Carlo."""
+    lwir = Band(8.0, 14.0, 0, None, None, 0)
+
+    def lb(temperature):
+        return band_mpmath(8.0, 14.0, temperature, False)
+
+    # Spectral scenes: 20 invented tables over 7.5-14.5 um; reference by scipy quad split at
+    # every node of both tables.
+    for _ in range(20):
+        e_wl = np.sort(rng.uniform(7.5, 14.5, 3)).tolist()
+        e_wl = [7.5] + e_wl + [14.5]
+        e_v = rng.uniform(0.3, 1.0, len(e_wl)).tolist()
+        ta_wl = [7.0, float(rng.uniform(8.5, 12.5)), 15.0]
+        ta_v = rng.uniform(0.6, 1.0, 3).tolist()
+        tr, tatm, twin, twr = (float(x) for x in rng.uniform(260.0, 320.0, 4))
+        tw = float(rng.uniform(0.7, 1.0))
+        rw = float(rng.uniform(0.0, 1.0 - tw))
+        t = float(rng.uniform(300.0, 1200.0))
+        scene = Scene(0.5, tr, 0.9, tatm, tw, rw, twin, twr)  # grey e, ta replaced by tables
+        tables = SpectralTables(doubles(e_wl), doubles(e_v), len(e_wl), doubles(ta_wl), doubles(ta_v), 3)
+
+        def integrand(wl):
+            e = float(np.interp(wl, e_wl, e_v))
+            ta = float(np.interp(wl, ta_wl, ta_v))
+            return ta * e * planck_si(wl, t, False) + ta * (1 - e) * planck_si(wl, tr, False) + (1 - ta) * planck_si(wl, tatm, False)
+
+        edges = sorted({8.0, 14.0, *[w for w in e_wl + ta_wl if 8.0 < w < 14.0]})
+        inner = sum(integrate.quad(integrand, a, b, epsabs=0.0, epsrel=1e-13, limit=400)[0] for a, b in zip(edges, edges[1:]))
+        s_ref = tw * inner + rw * float(lb(twr)) + (1 - tw - rw) * float(lb(twin))
+        got = call(lib, "bt_spectral_sensor_radiance", ctypes.byref(lwir), ctypes.byref(scene), ctypes.byref(tables), t)
+        tally.rel("spectral sensor radiance vs scipy quad", got, s_ref)
+        got = call(lib, "bt_spectral_object_temperature", ctypes.byref(lwir), ctypes.byref(scene), ctypes.byref(tables), s_ref)
+        tally.rel("spectral object temperature", got, t)
+
+    # Site methods: 30 invented scenes, readings from the written-out equation in mpmath.
+    for _ in range(30):
+        e = float(rng.uniform(0.2, 0.98))
+        tr, tatm, twin, twr = (float(x) for x in rng.uniform(270.0, 310.0, 4))
+        ta = float(rng.uniform(0.8, 1.0))
+        tw = float(rng.uniform(0.7, 1.0))
+        rw = float(rng.uniform(0.0, min(0.1, 1.0 - tw)))
+        t = float(rng.uniform(340.0, 900.0))
+        scene = Scene(0.9, tr, ta, tatm, tw, rw, twin, twr)
+
+        def reading(emissivity, t_object, t_reflected):
+            return tw * (ta * (emissivity * lb(t_object) + (1 - emissivity) * lb(t_reflected)) + (1 - ta) * lb(tatm)) + rw * lb(twr) + (1 - tw - rw) * lb(twin)
+
+        s_surface = float(reading(e, t, tr))
+        got = call(lib, "bt_emissivity_from_reference", ctypes.byref(lwir), ctypes.byref(scene), s_surface, t)
+        tally.rel("emissivity from reference", got, e)
+        e_out, t_out = ctypes.c_double(), ctypes.c_double()
+        status_of(lib, "bt_emissivity_from_reference_coating", ctypes.byref(lwir), ctypes.byref(scene),
+                  s_surface, float(reading(0.95, t, tr)), 0.95, ctypes.byref(e_out), ctypes.byref(t_out))
+        tally.rel("coating emissivity", e_out.value, e)
+        tally.rel("coating temperature", t_out.value, t)
+        ef, tf, t_refl = 0.04, float(rng.uniform(280.0, 320.0)), float(rng.uniform(250.0, 450.0))
+        got = call(lib, "bt_reflected_temperature_from_reflector", ctypes.byref(lwir), ctypes.byref(scene), float(reading(ef, tf, t_refl)), ef, tf)
+        tally.rel("reflected temperature from reflector", got, t_refl)
+
+    # The Wien ratio model: rectangular bands (effective wavelength = centre), in mpmath.
+    for _ in range(40):
+        l1, l2 = float(rng.uniform(0.5, 1.0)), float(rng.uniform(1.05, 2.0))
+        w1, w2 = float(rng.uniform(0.005, 0.05)), float(rng.uniform(0.005, 0.05))
+        b1 = Band(l1 - w1 / 2, l1 + w1 / 2, 0, None, None, 0)
+        b2 = Band(l2 - w2 / 2, l2 + w2 / 2, 1, None, None, 0)  # energy / photon
+        model = WienRatio()
+        status_of(lib, "bt_wien_ratio_from_bands", ctypes.byref(b1), ctypes.byref(b2), ctypes.byref(model))
+        lam1 = (mp.mpf(b1.lo_um) + mp.mpf(b1.hi_um)) / 2
+        lam2 = (mp.mpf(b2.lo_um) + mp.mpf(b2.hi_um)) / 2
+        d1, d2 = mp.mpf(b1.hi_um) - mp.mpf(b1.lo_um), mp.mpf(b2.hi_um) - mp.mpf(b2.lo_um)
+        w_ref = (C1L_UM * lam1**-5 * d1) / (C1P_UM * lam2**-4 * d2)
+        tally.rel("wien ratio model vs mpmath", model.lambda1_um, lam1)
+        tally.rel("wien ratio model vs mpmath", model.lambda2_um, lam2)
+        tally.rel("wien ratio model vs mpmath", model.prefactor, w_ref)
+        kappa, r = float(rng.uniform(0.8, 1.2)), float(rng.uniform(1e-3, 0.5)) * float(w_ref)
+        lam_r = mp.mpf(model.lambda1_um) * mp.mpf(model.lambda2_um) / (mp.mpf(model.lambda2_um) - mp.mpf(model.lambda1_um))
+        t_ref = C2_UMK / (lam_r * mp.log(mp.mpf(kappa) * mp.mpf(model.prefactor) / mp.mpf(r)))
+        got = call(lib, "bt_wien_ratio_temperature", ctypes.byref(model), r, kappa)
+        tally.rel("wien ratio temperature vs mpmath", got, t_ref)
+
+    # Calibration curves of both forms behind a dark offset, in mpmath; and a fit of the
+    # Wien form to exact readings (mpmath) of a known curve.
+    for case in range(100):
+        form = case % 2
+        a = float(rng.uniform(0.6, 1.6) if form else rng.uniform(0.6, 14.0))
+        b, c, off = float(rng.uniform(-20.0, 50.0)), float(10 ** rng.uniform(3, 9)), float(rng.uniform(-500.0, 500.0))
+        t = float(rng.uniform(600.0, 2500.0) if form else rng.uniform(250.0, 2500.0))
+        curve = Curve(form, a, b, c, off)
+        y = C2_UMK / (mp.mpf(a) * t + mp.mpf(b))
+        s_c = mp.mpf(c) * mp.exp(-y) if form else mp.mpf(c) / mp.expm1(y)
+        if s_c < mp.mpf("1e-6") * abs(mp.mpf(off)) + mp.mpf("1e-300"):
+            continue  # the offset would swamp the signal: the inverse is ill-conditioned
+        got = call(lib, "bt_curve_signal", ctypes.byref(curve), t)
+        tally.rel("curve signal vs mpmath", got, mp.mpf(off) + s_c)
+        net = mp.mpf(float(mp.mpf(off) + s_c)) - mp.mpf(off)
+        t_ref = (C2_UMK / (mp.log(mp.mpf(c) / net) if form else mp.log1p(mp.mpf(c) / net)) - mp.mpf(b)) / mp.mpf(a)
+        got = call(lib, "bt_curve_temperature", ctypes.byref(curve), float(mp.mpf(off) + s_c))
+        tally.rel("curve temperature vs mpmath", got, t_ref)
+    for _ in range(10):
+        a, b, c, off = float(rng.uniform(0.6, 1.6)), float(rng.uniform(0.0, 5.0)), float(10 ** rng.uniform(6, 10)), 250.0
+        t_k = [800.0 + 150.0 * i for i in range(6)]
+        counts = [float(off + mp.mpf(c) * mp.exp(-C2_UMK / (mp.mpf(a) * t + mp.mpf(b)))) for t in t_k]
+        fit = CurveFit()
+        status_of(lib, "bt_curve_fit_points", 1, doubles(t_k), doubles(counts), None, 6, off, ctypes.byref(fit))
+        tally.rel("curve fit recovers A", fit.curve.a_um, a)
+
+    # Monte Carlo against the law of propagation (JCGM 100) for two near-linear scenes:
+    # T(S, e, Tr, ta) solved from the written-out equation in mpmath, sensitivities by
+    # mpmath.diff, combined in quadrature.
+    trials = 40000
+    samples = (ctypes.c_double * trials)()
+    for case, (e, tr, ta, t) in enumerate([(0.93, 291.0, 0.97, 338.15), (0.85, 300.0, 0.95, 420.0)]):
+        scene = Scene(e, tr, ta, 288.0, 1.0, 0.0, 293.15, 293.15)
+        s = ta * (e * lb(t) + (1 - e) * lb(tr)) + (1 - ta) * lb(288.0)
+
+        def object_k(sig, emis, refl, tau):
+            target = ((sig - (1 - tau) * lb(288.0)) / tau - (1 - emis) * lb(refl)) / emis
+            return mp.findroot(lambda x: lb(x) - target, mp.mpf(t))
+
+        u = {"signal": 0.05, "emissivity": 0.005, "reflected_k": 1.0, "atm_transmittance": 0.003}
+        args = [s, mp.mpf(e), mp.mpf(tr), mp.mpf(ta)]
+        sens = []
+        for i in range(4):
+            def along(x, i=i):
+                a = list(args)
+                a[i] = x
+                return object_k(*a)
+            sens.append(mp.diff(along, args[i]))
+        uc = mp.sqrt(sum((c_i * u_i) ** 2 for c_i, u_i in zip(sens, u.values())))
+        unc = Uncertainties(**u)
+        out = MonteCarlo()
+        status_of(lib, "bt_surface_monte_carlo", ctypes.byref(lwir), ctypes.byref(scene), float(s),
+                  ctypes.byref(unc), 2024 + case, 0.95, samples, trials, ctypes.byref(out))
+        tally.rel("monte carlo standard deviation vs law of propagation", out.standard_deviation_k, uc)
+        bound = float(4 * uc / math.sqrt(trials) + mp.mpf("0.02") * uc)
+        tally.ratio("monte carlo mean vs estimate (error / bound)", abs(out.mean_k - t) / bound)
 
 
 def main():
@@ -277,6 +548,8 @@ def main():
         t_ref = (C2_UMK / mp.log1p(mp.mpf(c) / mp.mpf(s)) - mp.mpf(b)) / mp.mpf(a)
         got = call(lib, "bt_sakuma_hattori_temperature", ctypes.byref(curve), s)
         tally.rel("sakuma-hattori temperature vs mpmath", got, t_ref)
+
+    check_rest(lib, rng, tally)
 
     for what, worst in tally.worst.items():
         print(f"  {what}: max rel err {worst:.2e} (tolerance {TOL[what]:.0e})")
