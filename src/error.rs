@@ -209,6 +209,15 @@ pub enum Error {
     FrameEmissivityMapUnavailable,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch,
+    // ---- verify -------------------------------------------------------------------------------
+    /// A verification temperature range that is not 0 < lo_k < hi_k.
+    VerifyRangeInvalid,
+    /// A verification sample count outside its documented bounds (at least 2 samples over
+    /// a range, 1 to `verify::MAX_POINTS_PER_ROW` per table row, at most
+    /// `verify::MAX_SAMPLES` in all).
+    VerifySampleCountInvalid,
+    /// A verification over calibration points was given none.
+    VerifyNoPoints,
 }
 
 impl Error {
@@ -350,6 +359,10 @@ impl Error {
                 "no signal at the reflected temperature: emissivity maps unavailable"
             }
             Error::FrameCurveMismatch => "the curve is not the one the table was built from",
+            // verify
+            Error::VerifyRangeInvalid => "verification range must satisfy 0 < lo_k < hi_k",
+            Error::VerifySampleCountInvalid => "verification sample count out of bounds",
+            Error::VerifyNoPoints => "verification needs at least one calibration point",
         }
     }
 }

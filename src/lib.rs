@@ -59,6 +59,7 @@ pub mod planck;
 pub mod ratio;
 pub mod scene;
 pub mod uncertainty;
+pub mod verify;
 
 pub use error::{Error, Result};
 

@@ -208,6 +208,14 @@ pub enum bt_status {
     FrameEmissivityMapUnavailable = 710,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch = 711,
+
+    // ---- verify: calibration checks --------------------------------------------------------
+    /// A verification temperature range without 0 < lo_k < hi_k.
+    VerifyRangeInvalid = 1000,
+    /// A verification sample count out of bounds (see `bt_verify_*`).
+    VerifySampleCountInvalid = 1001,
+    /// A verification over calibration points was given none.
+    VerifyNoPoints = 1002,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -337,6 +345,9 @@ status_table!(
     FrameCoefficientOverflow,
     FrameEmissivityMapUnavailable,
     FrameCurveMismatch,
+    VerifyRangeInvalid,
+    VerifySampleCountInvalid,
+    VerifyNoPoints,
 );
 
 impl bt_status {

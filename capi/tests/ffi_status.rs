@@ -92,6 +92,9 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::FrameCoefficientOverflow, 709),
     (bt_status::FrameEmissivityMapUnavailable, 710),
     (bt_status::FrameCurveMismatch, 711),
+    (bt_status::VerifyRangeInvalid, 1000),
+    (bt_status::VerifySampleCountInvalid, 1001),
+    (bt_status::VerifyNoPoints, 1002),
 ];
 
 fn message(raw: c_int) -> &'static str {
