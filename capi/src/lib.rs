@@ -99,6 +99,8 @@ mod ratio;
 mod atmosphere;
 // Uncertainty budgets.
 mod uncertainty;
+// Calibration checks.
+mod verify;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -135,6 +137,12 @@ pub use status::{
 pub use uncertainty::{
     bt_budget, bt_contribution, bt_input_uncertainties, bt_surface_budget, bt_surface_input_name,
     BT_BUDGET_MAX_LINES,
+};
+pub use verify::{
+    bt_verify_coverage, bt_verify_coverage_report, bt_verify_curve_band, bt_verify_curve_report,
+    bt_verify_frame_table_band, bt_verify_frame_table_sakuma_hattori, bt_verify_residuals_report,
+    bt_verify_residuals_sakuma_hattori, bt_verify_round_trip_band, bt_verify_round_trip_report,
+    bt_verify_round_trip_sakuma_hattori, bt_verify_table_report,
 };
 
 use bandtemp::{Error, Result};
