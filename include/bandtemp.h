@@ -948,7 +948,8 @@ typedef struct {
      */
     double worst_error_k;
     /**
-     * Samples inside the range the table refused (a sound table has none).
+     * Samples inside the range for which the table gave no finite temperature (refused,
+     * or NaN or infinite from corrupted rows; a sound table has none).
      */
     size_t refused;
     /**

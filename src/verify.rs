@@ -97,21 +97,33 @@ pub fn residuals<C: SignalCurve + ?Sized>(
     if temperatures_k.is_empty() {
         return Err(Error::VerifyNoPoints);
     }
-    let mut worst = Worst::new();
-    let (mut sum, mut sum_sq) = (0.0, 0.0);
-    for (index, (&t_k, &signal)) in temperatures_k.iter().zip(signals).enumerate() {
+    let n = count_f64(temperatures_k.len());
+    let residual = |t_k: f64, signal: f64| -> Result<f64> {
         check_temperature_k(t_k)?;
-        let residual_k = finite(curve.temperature(finite(signal)?)? - t_k)?;
-        sum += residual_k;
-        sum_sq += residual_k * residual_k;
+        finite(curve.temperature(finite(signal)?)? - t_k)
+    };
+    // Two passes, so that the rms is formed from residuals scaled by the largest (no
+    // overflow of the squares however wild a residual) and the mean from r_i / n.
+    let mut worst = Worst::new();
+    let mut mean = 0.0;
+    for (index, (&t_k, &signal)) in temperatures_k.iter().zip(signals).enumerate() {
+        let residual_k = residual(t_k, signal)?;
+        mean += residual_k / n;
         worst.offer(index, t_k, residual_k);
     }
-    let n = count_f64(temperatures_k.len());
+    let scale = libm::fabs(worst.error_k);
+    let mut sum_sq = 0.0;
+    if scale > 0.0 {
+        for (&t_k, &signal) in temperatures_k.iter().zip(signals) {
+            let scaled = residual(t_k, signal)? / scale;
+            sum_sq += scaled * scaled;
+        }
+    }
     Ok(ResidualReport {
         points: temperatures_k.len(),
-        max_abs_residual_k: libm::fabs(worst.error_k),
-        rms_residual_k: libm::sqrt(sum_sq / n),
-        mean_residual_k: sum / n,
+        max_abs_residual_k: scale,
+        rms_residual_k: scale * libm::sqrt(sum_sq / n),
+        mean_residual_k: mean,
         worst_index: worst.index,
         worst_t_k: worst.at_k,
         worst_residual_k: worst.error_k,
@@ -164,12 +176,13 @@ pub fn curve_against_model<C: SignalCurve + ?Sized, M: SignalCurve + ?Sized>(
     check_range(lo_k, hi_k)?;
     check_samples(samples)?;
     let mut worst = Worst::new();
-    let mut sum = 0.0;
+    let mut mean = 0.0;
     for i in 0..samples {
         let t_k = grid(lo_k, hi_k, i, samples);
         let signal = finite((model.signal(t_k)? - map.offset()) / map.gain())?;
         let error_k = finite(curve.temperature(signal)? - t_k)?;
-        sum += error_k;
+        // Summed as e_i / n: no overflow, whatever the errors.
+        mean += error_k / count_f64(samples);
         worst.offer(i, t_k, error_k);
     }
     Ok(CurveReport {
@@ -177,7 +190,7 @@ pub fn curve_against_model<C: SignalCurve + ?Sized, M: SignalCurve + ?Sized>(
         max_abs_error_k: libm::fabs(worst.error_k),
         worst_t_k: worst.at_k,
         worst_error_k: worst.error_k,
-        mean_error_k: sum / count_f64(samples),
+        mean_error_k: mean,
     })
 }
 
@@ -354,8 +367,9 @@ pub struct TableReport {
     pub worst_t_k: f64,
     /// The signed table error there, K (positive: the table reads warm).
     pub worst_error_k: f64,
-    /// Samples inside the table's signal range that the table refused to convert (a sound
-    /// table has none).
+    /// Samples inside the table's signal range for which the table gave no finite
+    /// temperature: refused, or NaN or infinite from corrupted rows (a sound table has
+    /// none). They take no part in the error figures.
     pub refused: usize,
     /// Neighbouring samples (by rising signal) where the table's temperature fell (a sound
     /// table has none; f32 ties are allowed).
@@ -455,7 +469,7 @@ impl TableCheck {
     ) -> Result<()> {
         let exact_k = curve.temperature(f64::from(signal))?;
         self.samples += 1;
-        let Some(table_k) = table.temperature_k(signal) else {
+        let Some(table_k) = table.temperature_k(signal).filter(|t| t.is_finite()) else {
             self.refused += 1;
             return Ok(());
         };

@@ -117,7 +117,8 @@ pub struct bt_verify_table_report {
     pub worst_t_k: f64,
     /// The signed table error there, K (positive: the table reads warm).
     pub worst_error_k: f64,
-    /// Samples inside the range the table refused (a sound table has none).
+    /// Samples inside the range for which the table gave no finite temperature (refused,
+    /// or NaN or infinite from corrupted rows; a sound table has none).
     pub refused: usize,
     /// Neighbouring samples where the table's temperature fell with rising signal (a
     /// sound table has none).
