@@ -78,8 +78,8 @@ fn the_passing_example_passes_every_check() {
         ]
     );
     assert!(outcome.passed(), "{outcome:#?}");
-    // The readings carry invented noise of under one count; at 2-13 counts per kelvin
-    // (dS/dT of the curve over the range) that is a few to ten millikelvin.
+    // The readings carry invented noise of under one count; at 80 to 270 counts per
+    // kelvin over the range (the readings' own slope) that is at most about 10 mK.
     let fit = &outcome.checks[0];
     assert!(fit.value_k.unwrap() < 0.02 && fit.value_k.unwrap() > 1e-3);
 }
