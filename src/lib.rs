@@ -61,6 +61,9 @@ pub mod scene;
 pub mod uncertainty;
 pub mod verify;
 
+#[cfg(feature = "proptest")]
+pub mod testkit;
+
 pub use error::{Error, Result};
 
 /// The README's Rust examples, compiled and run as doc tests.
