@@ -10,6 +10,9 @@ python3 -m pip install --quiet --disable-pip-version-check mpmath scipy numpy
 
 cargo test --all-targets
 cargo test --doc
+# The proptest strategies and properties for users (feature `proptest`, off by default).
+cargo test -p bandtemp --features proptest --test testkit
+cargo test -p bandtemp --features proptest --doc testkit
 
 # The C ABI from Python: ctypes against scipy quad and mpmath (seeded cases).
 cargo build --lib -p bandtemp-capi
