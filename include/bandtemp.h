@@ -400,6 +400,10 @@ typedef enum {
      * A verification over calibration points was given none.
      */
     BT_STATUS_VERIFY_NO_POINTS = 1002,
+    /**
+     * A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+     */
+    BT_STATUS_VERIFY_COVARIANCE_INVALID = 1003,
 } bt_status;
 
 /**
@@ -962,6 +966,32 @@ typedef struct {
      */
     double claimed_max_error_k;
 } bt_verify_table_report;
+
+/**
+ * The standard uncertainty (k = 1) of a calibration's temperatures over a range, K.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max u(T), K.
+     */
+    double max_u_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * u(T) at lo_k, K.
+     */
+    double lo_u_k;
+    /**
+     * u(T) at hi_k, K.
+     */
+    double hi_u_k;
+} bt_verify_uncertainty_report;
 
 #ifdef __cplusplus
 extern "C" {
@@ -1791,6 +1821,31 @@ bt_status bt_verify_frame_table_sakuma_hattori(const bt_sakuma_hattori *p,
                                                size_t rows,
                                                size_t points_per_row,
                                                bt_verify_table_report *out);
+
+/**
+ * Standard uncertainty (k = 1) of the temperature a Sakuma-Hattori calibration reads, from
+ * the covariance of its parameters, at `samples` temperatures over [lo_k, hi_k]:
+ * u^2(T) = J V J^T, J = (dT/dA, dT/dB, dT/dC) at the curve's signal S(T) (GUM law of
+ * propagation, first order). `covariance` points to 9 doubles, row-major, rows and
+ * columns in the order A (um), B (um K), C (signal units), as `bt_points_fit` gives it.
+ *
+ * Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_VERIFY_COVARIANCE_INVALID` for a non-finite
+ * entry, a negative variance or an asymmetry,
+ * `BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE` where J V J^T < 0,
+ * `BT_STATUS_VERIFY_RANGE_INVALID`, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID`.
+ *
+ * # Safety
+ * `p` as in `bt_sakuma_hattori_signal`; `covariance` null or valid for reading 9
+ * doubles; `out` null or valid for writing a `bt_verify_uncertainty_report`; written only
+ * on success.
+ */
+bt_status bt_verify_uncertainty_sakuma_hattori(const bt_sakuma_hattori *p,
+                                               const double *covariance,
+                                               double lo_k,
+                                               double hi_k,
+                                               size_t samples,
+                                               bt_verify_uncertainty_report *out);
 
 #ifdef __cplusplus
 }  // extern "C"

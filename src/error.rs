@@ -218,6 +218,8 @@ pub enum Error {
     VerifySampleCountInvalid,
     /// A verification over calibration points was given none.
     VerifyNoPoints,
+    /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+    VerifyCovarianceInvalid,
 }
 
 impl Error {
@@ -363,6 +365,9 @@ impl Error {
             Error::VerifyRangeInvalid => "verification range must satisfy 0 < lo_k < hi_k",
             Error::VerifySampleCountInvalid => "verification sample count out of bounds",
             Error::VerifyNoPoints => "verification needs at least one calibration point",
+            Error::VerifyCovarianceInvalid => {
+                "covariance must be finite and symmetric with non-negative variances"
+            }
         }
     }
 }

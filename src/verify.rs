@@ -9,6 +9,7 @@
 //! | frame table | [`frame_table`] | T_table(L) - T_curve(L) over every row, on a grid independent of the table's own check |
 //! | round trip and monotonicity | [`round_trip`] | T(S(T)) - T over a range; S, dS/dT and T(S) rising |
 //! | coverage | [`coverage`] | extrapolation below and above the blackbody points, the largest gap between them |
+//! | calibration uncertainty | [`calibration_uncertainty`] | u(T) of the curve from the covariance of (A, B, C) over a range: max and where |
 //!
 //! Every function is a pure computation over the caller's data: no heap, no panic, bad
 //! input a named [`Error`]. Pass or fail is the caller's decision, against its own
@@ -37,6 +38,8 @@
 //! ```
 
 use crate::band::SignalCurve;
+use crate::calibration::{SakumaHattori, SakumaHattoriWien};
+use crate::constants::C2_UMK;
 use crate::error::{check_temperature_k, finite, Error, Result};
 use crate::frame::{CountsMap, FrameTable};
 
@@ -448,6 +451,136 @@ pub fn frame_table<C: SignalCurve + ?Sized>(
         non_monotonic: state.non_monotonic,
         claimed_max_error_k: geometry.max_table_error_k(),
     })
+}
+
+/// Sensitivities of a calibration curve's temperature to its parameters at a fixed
+/// signal: what [`calibration_uncertainty`] propagates the covariance through.
+pub trait ParameterSensitivity: SignalCurve {
+    /// (dT/dA, dT/dB, dT/dC) at `signal` (curve units, without any dark offset), in
+    /// K/um, K/(um K) and K per signal unit.
+    ///
+    /// # Errors
+    /// [`Error::NonFinite`], [`Error::RadianceNotPositive`] for a signal <= 0, and the
+    /// curve's inverse's errors.
+    fn temperature_sensitivities(&self, signal: f64) -> Result<[f64; 3]>;
+}
+
+impl ParameterSensitivity for SakumaHattori {
+    /// With L = ln(1 + C/S) and T = (c2/L - B)/A:
+    /// dT/dA = -T/A, dT/dB = -1/A, dT/dC = -c2 / (A L^2 (S + C)).
+    fn temperature_sensitivities(&self, signal: f64) -> Result<[f64; 3]> {
+        let t_k = self.temperature(signal)?;
+        let a = self.a_um();
+        let l = libm::log1p(self.c() / signal);
+        Ok([
+            -t_k / a,
+            -1.0 / a,
+            finite(-C2_UMK / (a * l * l * (signal + self.c())))?,
+        ])
+    }
+}
+
+impl ParameterSensitivity for SakumaHattoriWien {
+    /// With L = ln(C/S) and T = (c2/L - B)/A:
+    /// dT/dA = -T/A, dT/dB = -1/A, dT/dC = -c2 / (A L^2 C).
+    fn temperature_sensitivities(&self, signal: f64) -> Result<[f64; 3]> {
+        let t_k = self.temperature(signal)?;
+        let a = self.a_um();
+        let l = libm::log(self.c() / signal);
+        Ok([
+            -t_k / a,
+            -1.0 / a,
+            finite(-C2_UMK / (a * l * l * self.c()))?,
+        ])
+    }
+}
+
+/// The standard uncertainty of a calibration curve's temperatures over a range.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct UncertaintyReport {
+    /// Temperatures sampled.
+    pub samples: usize,
+    /// max u(T) over the samples, K (standard uncertainty, k = 1).
+    pub max_u_k: f64,
+    /// Where it occurs (the first, on a tie), K.
+    pub worst_t_k: f64,
+    /// u(T) at the range's lower end, K.
+    pub lo_u_k: f64,
+    /// u(T) at the range's upper end, K.
+    pub hi_u_k: f64,
+}
+
+/// Standard uncertainty of the temperature a calibration curve reads, from the covariance
+/// of its parameters (A um, B um K, C signal units; rows and columns in that order, as
+/// [`crate::calibration::PointsFit::covariance`] gives it), at `samples` temperatures over
+/// [`lo_k`, `hi_k`]: u^2(T) = J V J^T with J = (dT/dA, dT/dB, dT/dC) at the curve's signal
+/// S(T) ([`ParameterSensitivity`]), the GUM's law of propagation (JCGM 100:2008, 5.2).
+/// First order in the parameter uncertainties. A dark offset does not enter (it is taken
+/// as exact).
+///
+/// # Errors
+/// [`Error::VerifyRangeInvalid`], [`Error::VerifySampleCountInvalid`] as in
+/// [`curve_against_model`]; [`Error::VerifyCovarianceInvalid`] for a covariance with a
+/// non-finite entry, a negative variance or an asymmetry;
+/// [`Error::CorrelationNotPositiveSemidefinite`] where J V J^T < 0 (the matrix is not a
+/// covariance); errors of the curve in the range.
+pub fn calibration_uncertainty<C: ParameterSensitivity + ?Sized>(
+    curve: &C,
+    covariance: &[[f64; 3]; 3],
+    lo_k: f64,
+    hi_k: f64,
+    samples: usize,
+) -> Result<UncertaintyReport> {
+    check_range(lo_k, hi_k)?;
+    check_samples(samples)?;
+    check_covariance(covariance)?;
+    let mut worst = Worst::new();
+    let (mut lo_u_k, mut hi_u_k) = (0.0, 0.0);
+    for i in 0..samples {
+        let t_k = grid(lo_k, hi_k, i, samples);
+        let j = curve.temperature_sensitivities(curve.signal(t_k)?)?;
+        let mut variance = 0.0;
+        for (row, &ji) in covariance.iter().zip(&j) {
+            for (&v, &jk) in row.iter().zip(&j) {
+                variance += ji * v * jk;
+            }
+        }
+        if !(variance >= 0.0) {
+            return Err(if variance.is_nan() {
+                Error::NonFinite
+            } else {
+                Error::CorrelationNotPositiveSemidefinite
+            });
+        }
+        let u_k = finite(libm::sqrt(variance))?;
+        worst.offer(i, t_k, u_k);
+        if i == 0 {
+            lo_u_k = u_k;
+        }
+        hi_u_k = u_k;
+    }
+    Ok(UncertaintyReport {
+        samples,
+        max_u_k: worst.error_k,
+        worst_t_k: worst.at_k,
+        lo_u_k,
+        hi_u_k,
+    })
+}
+
+/// Finite entries, symmetric (exactly: a covariance is written once per pair), variances
+/// not negative.
+fn check_covariance(covariance: &[[f64; 3]; 3]) -> Result<()> {
+    for (i, row) in covariance.iter().enumerate() {
+        for (j, &v) in row.iter().enumerate() {
+            let mirror = covariance.get(j).and_then(|r| r.get(i)).copied();
+            let symmetric = mirror.is_some_and(|m| m.total_cmp(&v).is_eq());
+            if !(v.is_finite() && symmetric && (i != j || v >= 0.0)) {
+                return Err(Error::VerifyCovarianceInvalid);
+            }
+        }
+    }
+    Ok(())
 }
 
 /// Running state of [`frame_table`].

@@ -390,3 +390,93 @@ fn points_per_row_are_bounded() {
     }
     assert!(verify::frame_table(&table, &band, 1).is_ok());
 }
+
+#[test]
+fn calibration_uncertainty_of_single_parameters_in_closed_form() {
+    // Only A uncertain: T = (c2/L - B)/A at fixed signal gives u(T) = T sigma_A / A.
+    let sigma_a = 0.01;
+    let v = [[sigma_a * sigma_a, 0.0, 0.0], [0.0; 3], [0.0; 3]];
+    let r = verify::calibration_uncertainty(&sh(), &v, 250.0, 600.0, 36).unwrap();
+    assert_eq!(r.worst_t_k, 600.0);
+    assert!((r.max_u_k - 600.0 * sigma_a / SH.0).abs() < 1e-12, "{r:?}");
+    assert!((r.lo_u_k - 250.0 * sigma_a / SH.0).abs() < 1e-12);
+    // Only B uncertain: u(T) = sigma_B / A everywhere.
+    let v = [[0.0; 3], [0.0, 4.0, 0.0], [0.0; 3]];
+    let r = verify::calibration_uncertainty(&sh(), &v, 250.0, 600.0, 36).unwrap();
+    assert!((r.lo_u_k - 2.0 / SH.0).abs() < 1e-12 && (r.hi_u_k - 2.0 / SH.0).abs() < 1e-12);
+}
+
+/// u(T) with the Jacobian by central differences of the closed-form inverse written out
+/// here, at the curve's own signal S(T).
+fn u_by_differences(
+    inverse: impl Fn(f64, f64, f64, f64) -> f64,
+    p: [f64; 3],
+    signal: f64,
+    v: &[[f64; 3]; 3],
+) -> f64 {
+    let mut j = [0.0; 3];
+    for (k, jk) in j.iter_mut().enumerate() {
+        let h = 1e-6 * p[k].abs().max(1.0);
+        let (mut up, mut down) = (p, p);
+        up[k] += h;
+        down[k] -= h;
+        *jk = (inverse(up[0], up[1], up[2], signal) - inverse(down[0], down[1], down[2], signal))
+            / (2.0 * h);
+    }
+    let mut var = 0.0;
+    for a in 0..3 {
+        for b in 0..3 {
+            var += j[a] * v[a][b] * j[b];
+        }
+    }
+    var.sqrt()
+}
+
+#[test]
+fn calibration_uncertainty_matches_a_jacobian_by_differences() {
+    // A covariance of the shape a points fit gives (strong A-B and B-C correlation).
+    let v = [
+        [2.4686e-5, -4.1753e-3, -5.0386],
+        [-4.1753e-3, 0.71166, 847.86],
+        [-5.0386, 847.86, 1.0321e6],
+    ];
+    let r = verify::calibration_uncertainty(&sh(), &v, 250.0, 600.0, 8).unwrap();
+    for (t, u) in [(250.0, r.lo_u_k), (600.0, r.hi_u_k)] {
+        let s = sh_signal(SH.0, SH.1, SH.2, t);
+        let want = u_by_differences(sh_temperature, [SH.0, SH.1, SH.2], s, &v);
+        assert!((u - want).abs() <= 1e-5 * want, "{t} K: {u} vs {want}");
+    }
+    // The Wien form: T = (c2 / ln(C/S) - B) / A.
+    let wien = bandtemp::calibration::SakumaHattoriWien::new(0.905, 1.5, 2.0e9).unwrap();
+    let v = [[1e-8, 0.0, 0.0], [0.0, 1e-2, 0.0], [0.0, 0.0, 1e14]];
+    let r = verify::calibration_uncertainty(&wien, &v, 900.0, 1800.0, 5).unwrap();
+    let wien_t = |a: f64, b: f64, c: f64, s: f64| (c2_umk() / (c / s).ln() - b) / a;
+    for (t, u) in [(900.0, r.lo_u_k), (1800.0, r.hi_u_k)] {
+        let s = 2.0e9 * (-c2_umk() / (0.905 * t + 1.5)).exp();
+        let want = u_by_differences(wien_t, [0.905, 1.5, 2.0e9], s, &v);
+        assert!((u - want).abs() <= 1e-5 * want, "{t} K: {u} vs {want}");
+    }
+}
+
+#[test]
+fn calibration_uncertainty_refuses_what_is_no_covariance() {
+    let bad = |v: [[f64; 3]; 3]| verify::calibration_uncertainty(&sh(), &v, 250.0, 600.0, 5);
+    let mut asym = [[1e-6, 0.0, 0.0], [0.0, 1e-2, 0.0], [0.0, 0.0, 1.0]];
+    asym[0][1] = 1e-5;
+    assert_eq!(bad(asym), Err(Error::VerifyCovarianceInvalid));
+    assert_eq!(
+        bad([[-1e-6, 0.0, 0.0], [0.0; 3], [0.0; 3]]),
+        Err(Error::VerifyCovarianceInvalid)
+    );
+    assert_eq!(
+        bad([[f64::NAN, 0.0, 0.0], [0.0; 3], [0.0; 3]]),
+        Err(Error::VerifyCovarianceInvalid)
+    );
+    // Symmetric, with non-negative variances, yet not positive semidefinite (the A-B
+    // determinant is 360000 - 1200^2 < 0): along J = (-T/A, -1/A, .) the variance is
+    // (T^2 - 2400 T + 360000) / A^2, negative for 170 K < T < 2230 K.
+    assert_eq!(
+        bad([[1.0, -1200.0, 0.0], [-1200.0, 360_000.0, 0.0], [0.0; 3]]),
+        Err(Error::CorrelationNotPositiveSemidefinite)
+    );
+}

@@ -142,7 +142,8 @@ pub use verify::{
     bt_verify_coverage, bt_verify_coverage_report, bt_verify_curve_band, bt_verify_curve_report,
     bt_verify_frame_table_band, bt_verify_frame_table_sakuma_hattori, bt_verify_residuals_report,
     bt_verify_residuals_sakuma_hattori, bt_verify_round_trip_band, bt_verify_round_trip_report,
-    bt_verify_round_trip_sakuma_hattori, bt_verify_table_report,
+    bt_verify_round_trip_sakuma_hattori, bt_verify_table_report, bt_verify_uncertainty_report,
+    bt_verify_uncertainty_sakuma_hattori,
 };
 
 use bandtemp::{Error, Result};

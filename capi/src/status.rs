@@ -216,6 +216,8 @@ pub enum bt_status {
     VerifySampleCountInvalid = 1001,
     /// A verification over calibration points was given none.
     VerifyNoPoints = 1002,
+    /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+    VerifyCovarianceInvalid = 1003,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -348,6 +350,7 @@ status_table!(
     VerifyRangeInvalid,
     VerifySampleCountInvalid,
     VerifyNoPoints,
+    VerifyCovarianceInvalid,
 );
 
 impl bt_status {

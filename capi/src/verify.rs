@@ -12,6 +12,7 @@ use bandtemp::calibration::OffsetCurve;
 use bandtemp::frame::{ConverterState, CountsMap, FrameConverter, FrameTable, TableRow};
 use bandtemp::verify::{
     self, CoverageReport, CurveReport, ResidualReport, RoundTripReport, TableReport,
+    UncertaintyReport,
 };
 use bandtemp::Result;
 use core::mem::{align_of, size_of};
@@ -125,6 +126,46 @@ pub struct bt_verify_table_report {
     pub non_monotonic: usize,
     /// The maximum error the table's construction measured, K.
     pub claimed_max_error_k: f64,
+}
+
+/// The standard uncertainty (k = 1) of a calibration's temperatures over a range, K.
+#[repr(C)]
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct bt_verify_uncertainty_report {
+    /// Temperatures sampled.
+    pub samples: usize,
+    /// max u(T), K.
+    pub max_u_k: f64,
+    /// Where it occurs (the first, on a tie), K.
+    pub worst_t_k: f64,
+    /// u(T) at lo_k, K.
+    pub lo_u_k: f64,
+    /// u(T) at hi_k, K.
+    pub hi_u_k: f64,
+}
+
+impl From<UncertaintyReport> for bt_verify_uncertainty_report {
+    fn from(r: UncertaintyReport) -> Self {
+        bt_verify_uncertainty_report {
+            samples: r.samples,
+            max_u_k: r.max_u_k,
+            worst_t_k: r.worst_t_k,
+            lo_u_k: r.lo_u_k,
+            hi_u_k: r.hi_u_k,
+        }
+    }
+}
+
+impl Output for bt_verify_uncertainty_report {
+    fn finite(self) -> Result<Self> {
+        Ok(bt_verify_uncertainty_report {
+            max_u_k: self.max_u_k.finite()?,
+            worst_t_k: self.worst_t_k.finite()?,
+            lo_u_k: self.lo_u_k.finite()?,
+            hi_u_k: self.hi_u_k.finite()?,
+            ..self
+        })
+    }
 }
 
 impl From<ResidualReport> for bt_verify_residuals_report {
@@ -514,6 +555,46 @@ pub unsafe extern "C" fn bt_verify_frame_table_sakuma_hattori(
             let curve = read_curve(p)?;
             let table = table_from_c(converter, table, rows)?;
             Ok(verify::frame_table(&table, &curve, points_per_row)?.into())
+        })
+    }
+}
+
+/// Standard uncertainty (k = 1) of the temperature a Sakuma-Hattori calibration reads, from
+/// the covariance of its parameters, at `samples` temperatures over [lo_k, hi_k]:
+/// u^2(T) = J V J^T, J = (dT/dA, dT/dB, dT/dC) at the curve's signal S(T) (GUM law of
+/// propagation, first order). `covariance` points to 9 doubles, row-major, rows and
+/// columns in the order A (um), B (um K), C (signal units), as `bt_points_fit` gives it.
+///
+/// Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_NULL_POINTER`,
+/// `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_VERIFY_COVARIANCE_INVALID` for a non-finite
+/// entry, a negative variance or an asymmetry,
+/// `BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE` where J V J^T < 0,
+/// `BT_STATUS_VERIFY_RANGE_INVALID`, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID`.
+///
+/// # Safety
+/// `p` as in `bt_sakuma_hattori_signal`; `covariance` null or valid for reading 9
+/// doubles; `out` null or valid for writing a `bt_verify_uncertainty_report`; written only
+/// on success.
+#[no_mangle]
+pub unsafe extern "C" fn bt_verify_uncertainty_sakuma_hattori(
+    p: *const bt_sakuma_hattori,
+    covariance: *const f64,
+    lo_k: f64,
+    hi_k: f64,
+    samples: usize,
+    out: *mut bt_verify_uncertainty_report,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `read_curve`, `slice_from_c` and
+    // `deliver`.
+    unsafe {
+        deliver(out, || {
+            let curve = read_curve(p)?;
+            let flat = slice_from_c(covariance, 9)?;
+            let mut v = [[0.0; 3]; 3];
+            for (slot, &x) in v.iter_mut().flatten().zip(flat) {
+                *slot = x;
+            }
+            Ok(verify::calibration_uncertainty(&curve, &v, lo_k, hi_k, samples)?.into())
         })
     }
 }

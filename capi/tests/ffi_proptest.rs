@@ -1337,6 +1337,45 @@ proptest! {
         }
     }
 
+    /// The uncertainty check with arbitrary covariances (near valid ones or bit patterns)
+    /// and ranges: agreement with the Rust API, the report untouched on error.
+    #[test]
+    fn verify_uncertainty(
+        [a, b, c] in prop_oneof![Just([10.2, 60.0, 2.0e6]), prop::array::uniform3(any_f64())],
+        v in prop_oneof![
+            Just([1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6]),
+            prop::array::uniform9(any_f64()),
+            (0usize..9, any_f64()).prop_map(|(i, x)| {
+                let mut v = [1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6];
+                if let Some(slot) = v.get_mut(i) {
+                    *slot = x;
+                }
+                v
+            }),
+        ],
+        lo in prop_oneof![250.0f64..300.0, any_f64()],
+        hi in prop_oneof![400.0f64..500.0, any_f64()],
+        samples in verify_samples(),
+    ) {
+        let p = bt_sakuma_hattori { a_um: a, b_umk: b, c };
+        let sentinel = bt_verify_uncertainty_report {
+            samples: 7,
+            max_u_k: SENTINEL,
+            worst_t_k: SENTINEL,
+            lo_u_k: SENTINEL,
+            hi_u_k: SENTINEL,
+        };
+        let mut out = sentinel;
+        let s = unsafe {
+            bt_verify_uncertainty_sakuma_hattori(&p, v.as_ptr(), lo, hi, samples, &mut out)
+        };
+        let matrix = [[v[0], v[1], v[2]], [v[3], v[4], v[5]], [v[6], v[7], v[8]]];
+        let want = SakumaHattori::new(a, b, c).and_then(|curve| {
+            bandtemp::verify::calibration_uncertainty(&curve, &matrix, lo, hi, samples)
+        });
+        report_agrees(s, &out, &sentinel, want)?;
+    }
+
     /// The frame-table check over a good converter with arbitrary rows, row counts and
     /// points per row, and over converters with words overwritten: a report that agrees
     /// with the Rust check, or a named status with the report untouched.

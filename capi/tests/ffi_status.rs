@@ -95,6 +95,7 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::VerifyRangeInvalid, 1000),
     (bt_status::VerifySampleCountInvalid, 1001),
     (bt_status::VerifyNoPoints, 1002),
+    (bt_status::VerifyCovarianceInvalid, 1003),
 ];
 
 fn message(raw: c_int) -> &'static str {

@@ -161,6 +161,7 @@ struct RawTolerances {
     frame_max_error_k: Option<Spanned<f64>>,
     max_extrapolation_k: Option<Spanned<f64>>,
     max_gap_k: Option<Spanned<f64>>,
+    calibration_u_k: Option<Spanned<f64>>,
 }
 
 /// Only the version, read first (unknown fields allowed) so that a record of another
@@ -282,6 +283,8 @@ pub struct Tolerances {
     pub max_extrapolation_k: Option<f64>,
     /// Gap between neighbouring points.
     pub max_gap_k: Option<f64>,
+    /// Standard uncertainty of the calibration curve from its covariance.
+    pub calibration_u_k: Option<f64>,
 }
 
 /// A validated instrument record.
@@ -632,19 +635,11 @@ fn temperature_range(
     })
 }
 
-fn calibration(
-    cx: &Context<'_>,
-    raw: &Spanned<RawCalibration>,
-) -> Result<CalibrationSpec, RecordError> {
-    let c = raw.get_ref();
-    let dark_offset = c
-        .dark_offset
-        .as_ref()
-        .map(|d| cx.finite("calibration.dark_offset", d))
-        .transpose()?
-        .unwrap_or(0.0);
-    let mut points = Vec::with_capacity(c.points.len());
-    for (i, p) in c.points.iter().enumerate() {
+/// The blackbody points: positive distinct temperatures, finite signals, uncertainties
+/// positive and given for every point or for none.
+fn points(cx: &Context<'_>, raw: &[Spanned<RawPoint>]) -> Result<Vec<Point>, RecordError> {
+    let mut points = Vec::with_capacity(raw.len());
+    for (i, p) in raw.iter().enumerate() {
         let p = p.get_ref();
         let name = |field: &str| format!("calibration.points[{i}].{field}");
         let t_k = cx.positive(&name("t_k"), &p.t_k, "K")?;
@@ -666,7 +661,7 @@ fn calibration(
     let with_u = points.first().is_some_and(|p| p.u_signal.is_some());
     if let Some((index, at)) = points
         .iter()
-        .zip(&c.points)
+        .zip(raw)
         .enumerate()
         .find_map(|(i, (p, at))| (p.u_signal.is_some() != with_u).then_some((i, at)))
     {
@@ -676,6 +671,21 @@ fn calibration(
             "give `u_signal` for every point or for none",
         ));
     }
+    Ok(points)
+}
+
+fn calibration(
+    cx: &Context<'_>,
+    raw: &Spanned<RawCalibration>,
+) -> Result<CalibrationSpec, RecordError> {
+    let c = raw.get_ref();
+    let dark_offset = c
+        .dark_offset
+        .as_ref()
+        .map(|d| cx.finite("calibration.dark_offset", d))
+        .transpose()?
+        .unwrap_or(0.0);
+    let points = points(cx, &c.points)?;
     let params = match (&c.a_um, &c.b_umk, &c.c) {
         (None, None, None) => {
             if points.len() < 3 {
@@ -719,6 +729,13 @@ fn calibration(
             ));
         }
     };
+    if let (Some(m), None) = (&c.covariance, &params) {
+        return Err(cx.error(
+            "calibration.covariance",
+            m,
+            "belongs to a_um, b_umk and c: give them too, or drop it",
+        ));
+    }
     let covariance = c
         .covariance
         .as_ref()
@@ -839,6 +856,7 @@ fn tolerances(
         frame_max_error_k: limit("frame_max_error_k", &t.frame_max_error_k)?,
         max_extrapolation_k: limit("max_extrapolation_k", &t.max_extrapolation_k)?,
         max_gap_k: limit("max_gap_k", &t.max_gap_k)?,
+        calibration_u_k: limit("calibration_u_k", &t.calibration_u_k)?,
     };
     // Every check the record has data for needs its limit: a check without one would
     // pass silently.
@@ -864,6 +882,13 @@ fn tolerances(
             "max_extrapolation_k",
             out.max_extrapolation_k.is_some(),
             because,
+        )?;
+    }
+    if calibration.covariance.is_some() {
+        required(
+            "calibration_u_k",
+            out.calibration_u_k.is_some(),
+            "the calibration has a covariance",
         )?;
     }
     if has_counts {

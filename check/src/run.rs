@@ -5,6 +5,7 @@
 //! | `fit_residuals` | the calibration has points | T_curve(S_i) - T_i | max > `fit_max_residual_k`, or rms > `fit_rms_residual_k` |
 //! | `coverage` | the calibration has points | extrapolation beyond the points over `[range]`, largest gap | extrapolation > `max_extrapolation_k`, or gap > `max_gap_k` |
 //! | `model` | `[counts]` | calibration curve against the exact band model through the counts map | max > `model_max_error_k` |
+//! | `calibration_uncertainty` | `calibration.covariance` | u(T) of the curve from the covariance of (A, B, C) over `[range]` | max u > `calibration_u_k` |
 //! | `round_trip_calibration` | always | T(S(T)) - T of the calibration curve, monotonicity | error > `round_trip_k`, or not monotonic |
 //! | `round_trip_band` | always | the same for the band model | as above |
 //! | `rails` | `[counts]` | the calibration's counts at the range's ends against the rails | an end at or beyond a rail |
@@ -108,6 +109,8 @@ pub fn kelvin(value_k: f64) -> String {
 struct Curves {
     with_offset: Box<dyn SignalCurve>,
     bare: Box<dyn SignalCurve>,
+    form: Form,
+    params: [f64; 3],
     description: String,
 }
 
@@ -158,6 +161,8 @@ fn curves(record: &Record) -> Result<Curves, bandtemp::Error> {
             Curves {
                 with_offset: Box::new(OffsetCurve::new(bare, cal.dark_offset)?),
                 bare: Box::new(bare),
+                form: cal.form,
+                params,
                 description,
             }
         }
@@ -166,6 +171,8 @@ fn curves(record: &Record) -> Result<Curves, bandtemp::Error> {
             Curves {
                 with_offset: Box::new(OffsetCurve::new(bare, cal.dark_offset)?),
                 bare: Box::new(bare),
+                form: cal.form,
+                params,
                 description,
             }
         }
@@ -195,6 +202,54 @@ struct Checker<'a> {
     band: Band<'a>,
     t_k: Vec<f64>,
     signals: Vec<f64>,
+}
+
+/// The checks `record` has data for, in the order they run.
+fn checks_for<'c>(record: &Record) -> Vec<Check<'c>> {
+    let has_points = !record.calibration.points.is_empty();
+    let has_counts = record.counts.is_some();
+    let has_covariance = record.calibration.covariance.is_some();
+    let candidates: [(bool, Check<'c>); 8] = [
+        (
+            has_points,
+            ("fit_residuals", "fit residuals", Checker::fit_residuals),
+        ),
+        (has_points, ("coverage", "coverage", Checker::coverage)),
+        (has_counts, ("model", "curve vs band model", Checker::model)),
+        (
+            has_covariance,
+            (
+                "calibration_uncertainty",
+                "calibration uncertainty",
+                Checker::calibration_uncertainty,
+            ),
+        ),
+        (
+            true,
+            (
+                "round_trip_calibration",
+                "round trip, calibration",
+                Checker::round_trip_calibration,
+            ),
+        ),
+        (
+            true,
+            (
+                "round_trip_band",
+                "round trip, band model",
+                Checker::round_trip_band,
+            ),
+        ),
+        (has_counts, ("rails", "rails", Checker::rails)),
+        (
+            record.frame.is_some(),
+            ("frame_table", "frame table", Checker::frame_table),
+        ),
+    ];
+    candidates
+        .into_iter()
+        .filter_map(|(runs, check)| runs.then_some(check))
+        .collect()
 }
 
 /// Runs every check the record has data for. `progress` receives a line as each check
@@ -234,41 +289,7 @@ pub fn run(source: &str, record: &Record, progress: &mut dyn FnMut(&str)) -> Out
         t_k: record.calibration.points.iter().map(|p| p.t_k).collect(),
         signals: record.calibration.points.iter().map(|p| p.signal).collect(),
     };
-    let has_points = !record.calibration.points.is_empty();
-    let has_counts = record.counts.is_some();
-    let candidates: [(bool, Check<'_>); 7] = [
-        (
-            has_points,
-            ("fit_residuals", "fit residuals", Checker::fit_residuals),
-        ),
-        (has_points, ("coverage", "coverage", Checker::coverage)),
-        (has_counts, ("model", "curve vs band model", Checker::model)),
-        (
-            true,
-            (
-                "round_trip_calibration",
-                "round trip, calibration",
-                Checker::round_trip_calibration,
-            ),
-        ),
-        (
-            true,
-            (
-                "round_trip_band",
-                "round trip, band model",
-                Checker::round_trip_band,
-            ),
-        ),
-        (has_counts, ("rails", "rails", Checker::rails)),
-        (
-            record.frame.is_some(),
-            ("frame_table", "frame table", Checker::frame_table),
-        ),
-    ];
-    let checks: Vec<Check<'_>> = candidates
-        .into_iter()
-        .filter_map(|(runs, check)| runs.then_some(check))
-        .collect();
+    let checks = checks_for(record);
     let total = checks.len();
     for (index, (id, title, check)) in checks.into_iter().enumerate() {
         progress(&format!("[{}/{total}] {title}", index + 1));
@@ -390,6 +411,47 @@ impl Checker<'_> {
             format!("max <= {}", kelvin(limit_k)),
             Some(r.max_abs_error_k),
             tol.model_max_error_k,
+            Some(r.worst_t_k),
+        ))
+    }
+
+    fn calibration_uncertainty(&self) -> CheckOutput {
+        let (tol, range) = (self.record.tolerances, self.record.range);
+        let Some(covariance) = self.record.calibration.covariance else {
+            return Err(bandtemp::Error::VerifyCovarianceInvalid);
+        };
+        let [a, b, c] = self.curves.params;
+        let r = match self.curves.form {
+            Form::SakumaHattori => verify::calibration_uncertainty(
+                &SakumaHattori::new(a, b, c)?,
+                &covariance,
+                range.lo_k,
+                range.hi_k,
+                DEFAULT_SAMPLES,
+            )?,
+            Form::SakumaHattoriWien => verify::calibration_uncertainty(
+                &SakumaHattoriWien::new(a, b, c)?,
+                &covariance,
+                range.lo_k,
+                range.hi_k,
+                DEFAULT_SAMPLES,
+            )?,
+        };
+        let limit_k = tol.calibration_u_k.unwrap_or(f64::INFINITY);
+        Ok((
+            verdict(r.max_u_k <= limit_k),
+            format!(
+                "u(T) up to {} at {:.3} K ({} at {} K, {} at {} K), k = 1",
+                kelvin(r.max_u_k),
+                r.worst_t_k,
+                kelvin(r.lo_u_k),
+                range.lo_k,
+                kelvin(r.hi_u_k),
+                range.hi_k
+            ),
+            format!("u <= {}", kelvin(limit_k)),
+            Some(r.max_u_k),
+            tol.calibration_u_k,
             Some(r.worst_t_k),
         ))
     }

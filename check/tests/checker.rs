@@ -26,6 +26,14 @@ fn patched(edits: &[(&str, &str)]) -> String {
     text
 }
 
+/// The covariance block of the passing record.
+const COVARIANCE: &str = "covariance = [
+    [2.4686e-5, -4.1753e-3, -5.0386],
+    [-4.1753e-3, 0.71166, 847.86],
+    [-5.0386, 847.86, 1.0321e6],
+]
+";
+
 fn outcome_of(text: &str) -> Outcome {
     let record = parse(text).unwrap_or_else(|e| panic!("record refused: {e}"));
     run("test.toml", &record, &mut |_| {})
@@ -71,6 +79,7 @@ fn the_passing_example_passes_every_check() {
             "fit_residuals",
             "coverage",
             "model",
+            "calibration_uncertainty",
             "round_trip_calibration",
             "round_trip_band",
             "rails",
@@ -152,6 +161,24 @@ fn model_limit() {
 }
 
 #[test]
+fn calibration_uncertainty_limit() {
+    // The recorded covariance gives u(T) up to about 9 mK at the cold end.
+    breaks(
+        "calibration_uncertainty",
+        &[("calibration_u_k = 0.02", "calibration_u_k = 0.005")],
+        Status::Fail,
+        &[],
+    );
+    // A covariance that is no covariance cannot be propagated: an error, not a pass.
+    breaks(
+        "calibration_uncertainty",
+        &[("[-5.0386, 847.86, 1.0321e6]", "[-5.0386, 847.86, 0.0]")],
+        Status::Error,
+        &[],
+    );
+}
+
+#[test]
 fn round_trip_limits() {
     breaks(
         "round_trip_calibration",
@@ -227,6 +254,8 @@ fn a_record_without_parameters_is_fitted_to_its_points() {
         ("a_um = 9.414095421\n", ""),
         ("b_umk = 166.990281302\n", ""),
         ("c = 9.439896535e5\n", ""),
+        (COVARIANCE, ""),
+        ("calibration_u_k = 0.02\n", ""),
     ]));
     assert!(
         outcome.calibration.contains("fitted to 7 points"),
@@ -460,13 +489,13 @@ fn exit_status_is_0_1_or_2() {
     assert_eq!(out.status.code(), Some(0));
     let text = String::from_utf8(out.stdout).unwrap();
     assert!(
-        text.contains("7 checks: 7 passed, 0 failed, 0 errors"),
+        text.contains("8 checks: 8 passed, 0 failed, 0 errors"),
         "{text}"
     );
     // Progress goes to stderr only.
     let progress = String::from_utf8(out.stderr).unwrap();
-    assert!(progress.contains("[7/7] frame table"), "{progress}");
-    assert!(!text.contains("[1/7]"));
+    assert!(progress.contains("[8/8] frame table"), "{progress}");
+    assert!(!text.contains("[1/8]"));
 
     let out = checker().arg(&fail).output().unwrap();
     assert_eq!(out.status.code(), Some(1));
@@ -556,6 +585,6 @@ fn junit_report_is_well_formed_xml_with_one_failure_per_broken_check() {
     );
     assert_eq!(
         String::from_utf8(py.stdout).unwrap().trim(),
-        "testsuites 14 4 0 2 14 4"
+        "testsuites 15 4 0 2 15 4"
     );
 }

@@ -1795,6 +1795,50 @@ static void test_verify(void) {
                                                              rows, 37, &table));
     }
 
+    /* Calibration uncertainty: with only A uncertain, u(T) = T sigma_A / A (the closed
+     * form's dT/dA = -T/A), largest at the hot end. */
+    {
+        bt_verify_uncertainty_report unc;
+        double v[9] = {1e-4, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
+        double not_psd[9] = {1.0, -1200.0, 0.0, -1200.0, 360000.0, 0.0, 0.0, 0.0, 0.0};
+        EXPECT_REPORT(BT_STATUS_OK, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, &unc));
+        CHECK(unc.samples == 11 && unc.worst_t_k == 500.0);
+        CHECK(fabs(unc.max_u_k - 500.0 * 0.01 / 10.2) < 1e-12);
+        CHECK(fabs(unc.lo_u_k - 250.0 * 0.01 / 10.2) < 1e-12);
+        EXPECT_REPORT(BT_STATUS_NULL_POINTER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, NULL, 250.0, 500.0, 11, &unc));
+        EXPECT_REPORT(BT_STATUS_NULL_POINTER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(NULL, v, 250.0, 500.0, 11, &unc));
+        CHECK(bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, NULL) ==
+              BT_STATUS_NULL_POINTER);
+        EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, (const double *)misaligned(v),
+                                                           250.0, 500.0, 11, &unc));
+        EXPECT_REPORT(BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, not_psd, 250.0, 500.0, 11, &unc));
+        v[1] = 1e-6; /* asymmetric */
+        EXPECT_REPORT(BT_STATUS_VERIFY_COVARIANCE_INVALID, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, &unc));
+        v[1] = 0.0;
+        EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 500.0, 250.0, 11, &unc));
+        for (i = 0; i < N_ARGS; i++) {
+            for (j = 0; j < 9; j++) {
+                double w[9] = {1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6};
+                w[j] = ARGS[i];
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, w, 250.0, 500.0,
+                                                                             5, &unc));
+            }
+            if (ARGS[i] <= 5000.0) {
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, v, ARGS[i], 500.0,
+                                                                             5, &unc));
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, ARGS[i],
+                                                                             5, &unc));
+            }
+        }
+    }
+
     /* Every hostile value in every scalar slot: a report or a named status. */
     for (i = 0; i < N_ARGS; i++) {
         for (j = 0; j < 3; j++) {
