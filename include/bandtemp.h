@@ -397,6 +397,22 @@ typedef enum {
      * argument, not 0 or 1).
      */
     BT_STATUS_INVALID_CURVE_FORM = 1100,
+    /**
+     * A verification temperature range without 0 < lo_k < hi_k.
+     */
+    BT_STATUS_VERIFY_RANGE_INVALID = 1000,
+    /**
+     * A verification sample count out of bounds (see `bt_verify_*`).
+     */
+    BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID = 1001,
+    /**
+     * A verification over calibration points was given none.
+     */
+    BT_STATUS_VERIFY_NO_POINTS = 1002,
+    /**
+     * A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+     */
+    BT_STATUS_VERIFY_COVARIANCE_INVALID = 1003,
 } bt_status;
 
 /**
@@ -966,6 +982,208 @@ typedef struct {
      */
     size_t transmittance_len;
 } bt_spectral_tables;
+
+/**
+ * Residuals T_curve(S_i) - T_i of a calibration curve at its blackbody points, K.
+ */
+typedef struct {
+    /**
+     * Points checked.
+     */
+    size_t points;
+    /**
+     * max |T_curve(S_i) - T_i|, K.
+     */
+    double max_abs_residual_k;
+    /**
+     * sqrt(mean (T_curve(S_i) - T_i)^2), K.
+     */
+    double rms_residual_k;
+    /**
+     * mean (T_curve(S_i) - T_i), K.
+     */
+    double mean_residual_k;
+    /**
+     * Index of the worst point (the first, on a tie).
+     */
+    size_t worst_index;
+    /**
+     * The worst point's blackbody temperature, K.
+     */
+    double worst_t_k;
+    /**
+     * The worst point's signed residual, K (positive: the curve reads warm).
+     */
+    double worst_residual_k;
+} bt_verify_residuals_report;
+
+/**
+ * A calibration curve against the exact band model over a range, K.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max |T_curve(S(L_band(T))) - T|, K.
+     */
+    double max_abs_error_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * The signed error there, K (positive: the curve reads warm).
+     */
+    double worst_error_k;
+    /**
+     * Mean signed error over the samples, K.
+     */
+    double mean_error_k;
+} bt_verify_curve_report;
+
+/**
+ * Round trip T -> S(T) -> T(S) and monotonicity of a curve over a range.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max |T(S(T)) - T|, K.
+     */
+    double max_abs_error_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * The signed error there, K.
+     */
+    double worst_error_k;
+    /**
+     * 1 when S, dS/dT and T(S) rose over every sample, else 0.
+     */
+    uint32_t monotonic;
+    /**
+     * The first sample temperature where they did not, K; 0 when `monotonic` is 1.
+     */
+    double first_non_monotonic_k;
+} bt_verify_round_trip_report;
+
+/**
+ * Coverage of a range by blackbody points, K.
+ */
+typedef struct {
+    /**
+     * Points given.
+     */
+    size_t points;
+    /**
+     * Points inside [lo_k, hi_k].
+     */
+    size_t points_in_range;
+    /**
+     * The coldest point, K.
+     */
+    double t_min_k;
+    /**
+     * The hottest point, K.
+     */
+    double t_max_k;
+    /**
+     * How far the range reaches below the coldest point (extrapolation), K; 0 if none.
+     */
+    double extrapolated_below_k;
+    /**
+     * How far the range reaches above the hottest point (extrapolation), K; 0 if none.
+     */
+    double extrapolated_above_k;
+    /**
+     * The widest interval inside the range between neighbouring points, K.
+     */
+    double largest_gap_k;
+    /**
+     * Its lower end (clipped to the range), K.
+     */
+    double gap_lo_k;
+    /**
+     * Its upper end (clipped to the range), K.
+     */
+    double gap_hi_k;
+} bt_verify_coverage_report;
+
+/**
+ * A frame table against exact inversion of its curve.
+ */
+typedef struct {
+    /**
+     * Rows checked.
+     */
+    size_t rows;
+    /**
+     * Signals sampled inside the table's range.
+     */
+    size_t samples;
+    /**
+     * max |T_table(L) - T_exact(L)|, K.
+     */
+    double max_abs_error_k;
+    /**
+     * The signal where it occurs (the first, on a tie), curve units.
+     */
+    double worst_signal;
+    /**
+     * The exact temperature there, K.
+     */
+    double worst_t_k;
+    /**
+     * The signed table error there, K (positive: the table reads warm).
+     */
+    double worst_error_k;
+    /**
+     * Samples inside the range for which the table gave no finite temperature (refused,
+     * or NaN or infinite from corrupted rows; a sound table has none).
+     */
+    size_t refused;
+    /**
+     * Neighbouring samples where the table's temperature fell with rising signal (a
+     * sound table has none).
+     */
+    size_t non_monotonic;
+    /**
+     * The maximum error the table's construction measured, K.
+     */
+    double claimed_max_error_k;
+} bt_verify_table_report;
+
+/**
+ * The standard uncertainty (k = 1) of a calibration's temperatures over a range, K.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max u(T), K.
+     */
+    double max_u_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * u(T) at lo_k, K.
+     */
+    double lo_u_k;
+    /**
+     * u(T) at hi_k, K.
+     */
+    double hi_u_k;
+} bt_verify_uncertainty_report;
 
 #ifdef __cplusplus
 extern "C" {
@@ -2026,6 +2244,177 @@ bt_status bt_spectral_object_temperature_from_apparent(const bt_band *band,
                                                        const bt_spectral_tables *tables,
                                                        double apparent_k,
                                                        double *object_k);
+
+/**
+ * Residuals of a Sakuma-Hattori calibration with a dark offset at `n` >= 1 blackbody
+ * points: r_i = T_curve(`signal[i]`) - `t_k[i]`, K, with T_curve the closed-form inverse
+ * of S = `dark_offset` + C / (exp(c2 / (A T + B)) - 1). Reports max |r|, rms, mean and
+ * the worst point.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_VERIFY_NO_POINTS` for n = 0, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_CALIBRATION_PARAMETER_INVALID`,
+ * `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET`, `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN`.
+ *
+ * # Safety
+ * `p` null or valid for reading a `bt_sakuma_hattori`; `t_k` and `signal` null or valid
+ * for reading `n` doubles; `out` null or valid for writing a `bt_verify_residuals_report`;
+ * written only on success.
+ */
+bt_status bt_verify_residuals_sakuma_hattori(const bt_sakuma_hattori *p,
+                                             double dark_offset,
+                                             const double *t_k,
+                                             const double *signal,
+                                             size_t n,
+                                             bt_verify_residuals_report *out);
+
+/**
+ * A Sakuma-Hattori calibration (with dark offset) against the exact band model over
+ * [lo_k, hi_k] at `samples` temperatures spread uniformly, ends included: at each T the
+ * band gives L(T); the counts map L = `counts_gain` S + `counts_offset` takes it to the
+ * curve's signal S; the error is T_curve(S) - T, K. For a curve fitted to band radiance
+ * pass gain 1 and offset 0.
+ *
+ * Errors: those of `bt_band_radiance` and `bt_sakuma_hattori_temperature`;
+ * `BT_STATUS_FRAME_COUNTS_MAP_INVALID` unless the gain is finite and positive and the
+ * offset finite, `BT_STATUS_VERIFY_RANGE_INVALID` unless 0 < lo_k < hi_k,
+ * `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID` unless 2 <= samples <= 1000000,
+ * `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` where the band's signal maps below the dark
+ * offset.
+ *
+ * # Safety
+ * `p` as in `bt_verify_residuals_sakuma_hattori`; `band` as in `bt_band_radiance`; `out`
+ * null or valid for writing a `bt_verify_curve_report`; written only on success.
+ */
+bt_status bt_verify_curve_band(const bt_sakuma_hattori *p,
+                               double dark_offset,
+                               const bt_band *band,
+                               double counts_gain,
+                               double counts_offset,
+                               double lo_k,
+                               double hi_k,
+                               size_t samples,
+                               bt_verify_curve_report *out);
+
+/**
+ * Round trip T -> S(T) -> T(S) of a Sakuma-Hattori calibration with dark offset at
+ * `samples` temperatures over [lo_k, hi_k], and whether S, dS/dT and T(S) rise over
+ * them.
+ *
+ * Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_VERIFY_RANGE_INVALID`,
+ * `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID` (as in `bt_verify_curve_band`).
+ *
+ * # Safety
+ * `p` as in `bt_verify_residuals_sakuma_hattori`; `out` null or valid for writing a
+ * `bt_verify_round_trip_report`; written only on success.
+ */
+bt_status bt_verify_round_trip_sakuma_hattori(const bt_sakuma_hattori *p,
+                                              double dark_offset,
+                                              double lo_k,
+                                              double hi_k,
+                                              size_t samples,
+                                              bt_verify_round_trip_report *out);
+
+/**
+ * As `bt_verify_round_trip_sakuma_hattori` for a band's exact radiance (Newton
+ * inversion of the band integral).
+ *
+ * Errors: those of `bt_band_radiance` and `bt_band_temperature`,
+ * `BT_STATUS_VERIFY_RANGE_INVALID`, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` as in `bt_verify_round_trip_sakuma_hattori`.
+ */
+bt_status bt_verify_round_trip_band(const bt_band *band,
+                                    double lo_k,
+                                    double hi_k,
+                                    size_t samples,
+                                    bt_verify_round_trip_report *out);
+
+/**
+ * Coverage of [lo_k, hi_k] by `n` >= 1 blackbody points at `t_k` (any order): the
+ * extrapolation below the coldest and above the hottest point, and the largest gap
+ * between neighbouring points inside the range, K. O(n^2) without storage.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_VERIFY_NO_POINTS`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_VERIFY_RANGE_INVALID`.
+ *
+ * # Safety
+ * `t_k` null or valid for reading `n` doubles; `out` null or valid for writing a
+ * `bt_verify_coverage_report`; written only on success.
+ */
+bt_status bt_verify_coverage(const double *t_k,
+                             size_t n,
+                             double lo_k,
+                             double hi_k,
+                             bt_verify_coverage_report *out);
+
+/**
+ * A converter's table (built by `bt_frame_converter_new_band` over `band`) against exact
+ * inversion of the band's radiance: `points_per_row` signals per row, off the table's own
+ * check points, plus the range's ends. Works on rows from anywhere (a firmware image's
+ * copy, say): the converter's geometry must describe them.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_FRAME_TABLE_INVALID` / `BT_STATUS_FRAME_STORAGE_TOO_SMALL` for a converter
+ * that does not describe the rows, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID` unless
+ * 1 <= points_per_row <= 4096 and rows x points_per_row <= 1000000, errors of
+ * `bt_band_temperature`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `converter` null or valid for reading a
+ * `bt_frame_converter`; `table` null or valid for reading `rows` rows; `out` null or
+ * valid for writing a `bt_verify_table_report`; written only on success.
+ */
+bt_status bt_verify_frame_table_band(const bt_band *band,
+                                     const bt_frame_converter *converter,
+                                     const bt_frame_row *table,
+                                     size_t rows,
+                                     size_t points_per_row,
+                                     bt_verify_table_report *out);
+
+/**
+ * As `bt_verify_frame_table_band` for a converter built by
+ * `bt_frame_converter_new_sakuma_hattori` over `p` (the curve without dark offset, as
+ * the converter's table holds it).
+ *
+ * Errors: as `bt_verify_frame_table_band`, with those of `bt_sakuma_hattori_temperature`.
+ *
+ * # Safety
+ * `p` as in `bt_sakuma_hattori_signal`; the rest as in `bt_verify_frame_table_band`.
+ */
+bt_status bt_verify_frame_table_sakuma_hattori(const bt_sakuma_hattori *p,
+                                               const bt_frame_converter *converter,
+                                               const bt_frame_row *table,
+                                               size_t rows,
+                                               size_t points_per_row,
+                                               bt_verify_table_report *out);
+
+/**
+ * Standard uncertainty (k = 1) of the temperature a Sakuma-Hattori calibration reads, from
+ * the covariance of its parameters, at `samples` temperatures over [lo_k, hi_k]:
+ * u^2(T) = J V J^T, J = (dT/dA, dT/dB, dT/dC) at the curve's signal S(T) (GUM law of
+ * propagation, first order). `covariance` points to 9 doubles, row-major, rows and
+ * columns in the order A (um), B (um K), C (signal units), as `bt_points_fit` gives it.
+ *
+ * Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_VERIFY_COVARIANCE_INVALID` for a non-finite
+ * entry, a negative variance or an asymmetry,
+ * `BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE` where J V J^T < 0,
+ * `BT_STATUS_VERIFY_RANGE_INVALID`, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID`.
+ *
+ * # Safety
+ * `p` as in `bt_sakuma_hattori_signal`; `covariance` null or valid for reading 9
+ * doubles; `out` null or valid for writing a `bt_verify_uncertainty_report`; written only
+ * on success.
+ */
+bt_status bt_verify_uncertainty_sakuma_hattori(const bt_sakuma_hattori *p,
+                                               const double *covariance,
+                                               double lo_k,
+                                               double hi_k,
+                                               size_t samples,
+                                               bt_verify_uncertainty_report *out);
 
 #ifdef __cplusplus
 }  // extern "C"

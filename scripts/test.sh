@@ -33,6 +33,9 @@ fi
 
 cargo test --all-targets
 cargo test --doc
+# The proptest strategies and properties for users (feature `proptest`, off by default).
+cargo test -p bandtemp --features proptest --test testkit
+cargo test -p bandtemp --features proptest --doc testkit
 
 # The C ABI from Python: ctypes against scipy quad and mpmath (seeded cases).
 cargo build --lib -p bandtemp-capi

@@ -215,6 +215,17 @@ pub enum Error {
     // ---- calibration curves through the C ABI ---------------------------------------------
     /// A calibration-curve form outside its declared values (C ABI only).
     InvalidCurveForm,
+    // ---- verify -------------------------------------------------------------------------------
+    /// A verification temperature range that is not 0 < lo_k < hi_k.
+    VerifyRangeInvalid,
+    /// A verification sample count outside its documented bounds (at least 2 samples over
+    /// a range, 1 to `verify::MAX_POINTS_PER_ROW` per table row, at most
+    /// `verify::MAX_SAMPLES` in all).
+    VerifySampleCountInvalid,
+    /// A verification over calibration points was given none.
+    VerifyNoPoints,
+    /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+    VerifyCovarianceInvalid,
 }
 
 impl Error {
@@ -360,6 +371,13 @@ impl Error {
             }
             Error::FrameCurveMismatch => "the curve is not the one the table was built from",
             Error::InvalidCurveForm => "calibration curve form is not Planck (0) or Wien (1)",
+            // verify
+            Error::VerifyRangeInvalid => "verification range must satisfy 0 < lo_k < hi_k",
+            Error::VerifySampleCountInvalid => "verification sample count out of bounds",
+            Error::VerifyNoPoints => "verification needs at least one calibration point",
+            Error::VerifyCovarianceInvalid => {
+                "covariance must be finite and symmetric with non-negative variances"
+            }
         }
     }
 }

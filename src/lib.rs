@@ -59,6 +59,10 @@ pub mod planck;
 pub mod ratio;
 pub mod scene;
 pub mod uncertainty;
+pub mod verify;
+
+#[cfg(feature = "proptest")]
+pub mod testkit;
 
 pub use error::{Error, Result};
 

@@ -102,6 +102,8 @@ mod uncertainty;
 // Spectral (non-grey) scenes and the site methods.
 mod site;
 mod spectral;
+// Calibration checks.
+mod verify;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -156,6 +158,13 @@ pub use uncertainty::{
     BT_BUDGET_MAX_LINES,
 };
 pub use uncertainty::{bt_monte_carlo, bt_surface_monte_carlo, bt_surface_monte_carlo_streaming};
+pub use verify::{
+    bt_verify_coverage, bt_verify_coverage_report, bt_verify_curve_band, bt_verify_curve_report,
+    bt_verify_frame_table_band, bt_verify_frame_table_sakuma_hattori, bt_verify_residuals_report,
+    bt_verify_residuals_sakuma_hattori, bt_verify_round_trip_band, bt_verify_round_trip_report,
+    bt_verify_round_trip_sakuma_hattori, bt_verify_table_report, bt_verify_uncertainty_report,
+    bt_verify_uncertainty_sakuma_hattori,
+};
 
 use bandtemp::{Error, Result};
 

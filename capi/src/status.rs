@@ -213,6 +213,16 @@ pub enum bt_status {
     /// A calibration-curve form outside its declared values (`bt_curve.form`, or a form
     /// argument, not 0 or 1).
     InvalidCurveForm = 1100,
+
+    // ---- verify: calibration checks --------------------------------------------------------
+    /// A verification temperature range without 0 < lo_k < hi_k.
+    VerifyRangeInvalid = 1000,
+    /// A verification sample count out of bounds (see `bt_verify_*`).
+    VerifySampleCountInvalid = 1001,
+    /// A verification over calibration points was given none.
+    VerifyNoPoints = 1002,
+    /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+    VerifyCovarianceInvalid = 1003,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -344,6 +354,10 @@ status_table!(
     FrameEmissivityMapUnavailable,
     FrameCurveMismatch,
     InvalidCurveForm,
+    VerifyRangeInvalid,
+    VerifySampleCountInvalid,
+    VerifyNoPoints,
+    VerifyCovarianceInvalid,
 );
 
 impl bt_status {

@@ -1627,3 +1627,235 @@ fn new_exports_answer_bad_pointers_with_a_status() {
     }
     assert_eq!(out.to_bits(), SENTINEL.to_bits());
 }
+
+// ---- calibration checks ------------------------------------------------------------------
+
+/// Sample counts: small ones (including the refused 0 and 1) and the refused huge ones.
+fn verify_samples() -> impl Strategy<Value = usize> {
+    prop_oneof![
+        4 => 0usize..24,
+        1 => Just(bandtemp::verify::MAX_SAMPLES + 1),
+        1 => Just(usize::MAX),
+    ]
+}
+
+/// A C report and the Rust report behind it agree: the same status, the same fields bit
+/// for bit on success (compared through `Debug`, which prints every bit of an f64), the
+/// report untouched on error.
+fn report_agrees<C: core::fmt::Debug + PartialEq, R: Into<C>>(
+    status: bt_status,
+    out: &C,
+    sentinel: &C,
+    rust: Result<R, Error>,
+) -> Result<(), TestCaseError> {
+    match rust {
+        Ok(report) => {
+            prop_assert_eq!(status, bt_status::Ok);
+            prop_assert_eq!(format!("{out:?}"), format!("{:?}", report.into()));
+        }
+        Err(error) => {
+            prop_assert_eq!(status, bt_status::from(error));
+            prop_assert_eq!(out, sentinel);
+        }
+    }
+    Ok(())
+}
+
+const RESIDUALS_SENTINEL: bt_verify_residuals_report = bt_verify_residuals_report {
+    points: 7,
+    max_abs_residual_k: SENTINEL,
+    rms_residual_k: SENTINEL,
+    mean_residual_k: SENTINEL,
+    worst_index: 7,
+    worst_t_k: SENTINEL,
+    worst_residual_k: SENTINEL,
+};
+const CURVE_SENTINEL: bt_verify_curve_report = bt_verify_curve_report {
+    samples: 7,
+    max_abs_error_k: SENTINEL,
+    worst_t_k: SENTINEL,
+    worst_error_k: SENTINEL,
+    mean_error_k: SENTINEL,
+};
+const TRIP_SENTINEL: bt_verify_round_trip_report = bt_verify_round_trip_report {
+    samples: 7,
+    max_abs_error_k: SENTINEL,
+    worst_t_k: SENTINEL,
+    worst_error_k: SENTINEL,
+    monotonic: 7,
+    first_non_monotonic_k: SENTINEL,
+};
+const COVERAGE_SENTINEL: bt_verify_coverage_report = bt_verify_coverage_report {
+    points: 7,
+    points_in_range: 7,
+    t_min_k: SENTINEL,
+    t_max_k: SENTINEL,
+    extrapolated_below_k: SENTINEL,
+    extrapolated_above_k: SENTINEL,
+    largest_gap_k: SENTINEL,
+    gap_lo_k: SENTINEL,
+    gap_hi_k: SENTINEL,
+};
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    /// Residuals, coverage, round trips and the curve-against-band check with every
+    /// argument drawn from arbitrary bit patterns (or near valid values): agreement with
+    /// the Rust API, the report untouched on error.
+    #[test]
+    fn verify_checks(
+        [a, b, c] in prop_oneof![Just([10.2, 60.0, 2.0e6]), prop::array::uniform3(any_f64())],
+        dark in prop_oneof![Just(900.0), any_f64()],
+        points in prop::collection::vec(
+            (prop_oneof![250.0f64..500.0, any_f64()], prop_oneof![1000.0f64..1e5, any_f64()]),
+            0..6,
+        ),
+        lo in prop_oneof![250.0f64..300.0, any_f64()],
+        hi in prop_oneof![400.0f64..500.0, any_f64()],
+        [gain, offset] in prop_oneof![Just([1.0, 0.0]), prop::array::uniform2(any_f64())],
+        edges in prop_oneof![Just((8.0, 14.0)), (any_f64(), any_f64())],
+        samples in verify_samples(),
+    ) {
+        let p = bt_sakuma_hattori { a_um: a, b_umk: b, c };
+        let (t_k, signal): (Vec<f64>, Vec<f64>) = points.into_iter().unzip();
+        let n = t_k.len();
+        let rust_curve = SakumaHattori::new(a, b, c)
+            .and_then(|sh| bandtemp::calibration::OffsetCurve::new(sh, dark));
+        let band = rect_band(edges.0, edges.1, bt_detector::Energy);
+        let rust_band = Band::rectangular(edges.0, edges.1, Detector::Energy);
+
+        let mut out = RESIDUALS_SENTINEL;
+        let s = unsafe {
+            bt_verify_residuals_sakuma_hattori(&p, dark, t_k.as_ptr(), signal.as_ptr(), n, &mut out)
+        };
+        let want = rust_curve.and_then(|curve| bandtemp::verify::residuals(&curve, &t_k, &signal));
+        report_agrees(s, &out, &RESIDUALS_SENTINEL, want)?;
+
+        let mut out = COVERAGE_SENTINEL;
+        let s = unsafe { bt_verify_coverage(t_k.as_ptr(), n, lo, hi, &mut out) };
+        report_agrees(s, &out, &COVERAGE_SENTINEL, bandtemp::verify::coverage(&t_k, lo, hi))?;
+
+        let mut out = TRIP_SENTINEL;
+        let s = unsafe { bt_verify_round_trip_sakuma_hattori(&p, dark, lo, hi, samples, &mut out) };
+        let want = rust_curve
+            .and_then(|curve| bandtemp::verify::round_trip(&curve, lo, hi, samples));
+        report_agrees(s, &out, &TRIP_SENTINEL, want)?;
+
+        let mut out = TRIP_SENTINEL;
+        let s = unsafe { bt_verify_round_trip_band(&band, lo, hi, samples, &mut out) };
+        let want = rust_band
+            .and_then(|band| bandtemp::verify::round_trip(&band, lo, hi, samples));
+        report_agrees(s, &out, &TRIP_SENTINEL, want)?;
+
+        let mut out = CURVE_SENTINEL;
+        let s = unsafe {
+            bt_verify_curve_band(&p, dark, &band, gain, offset, lo, hi, samples, &mut out)
+        };
+        let want = (|| {
+            let map = bandtemp::frame::CountsMap::linear(gain, offset)?;
+            bandtemp::verify::curve_against_model(&rust_curve?, &rust_band?, map, lo, hi, samples)
+        })();
+        // The C side reads the curve, the band and the map in that order; the Rust side
+        // above builds them in another, so only the success/failure and, on success, the
+        // report must agree; an error is still a named one with the report untouched.
+        match want {
+            Ok(report) => {
+                prop_assert_eq!(s, bt_status::Ok);
+                prop_assert_eq!(format!("{out:?}"), format!("{:?}", bt_verify_curve_report::from(report)));
+            }
+            Err(_) => {
+                prop_assert!(s != bt_status::Ok && s.error().is_some());
+                prop_assert_eq!(out, CURVE_SENTINEL);
+            }
+        }
+    }
+
+    /// The uncertainty check with arbitrary covariances (near valid ones or bit patterns)
+    /// and ranges: agreement with the Rust API, the report untouched on error.
+    #[test]
+    fn verify_uncertainty(
+        [a, b, c] in prop_oneof![Just([10.2, 60.0, 2.0e6]), prop::array::uniform3(any_f64())],
+        v in prop_oneof![
+            Just([1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6]),
+            prop::array::uniform9(any_f64()),
+            (0usize..9, any_f64()).prop_map(|(i, x)| {
+                let mut v = [1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6];
+                if let Some(slot) = v.get_mut(i) {
+                    *slot = x;
+                }
+                v
+            }),
+        ],
+        lo in prop_oneof![250.0f64..300.0, any_f64()],
+        hi in prop_oneof![400.0f64..500.0, any_f64()],
+        samples in verify_samples(),
+    ) {
+        let p = bt_sakuma_hattori { a_um: a, b_umk: b, c };
+        let sentinel = bt_verify_uncertainty_report {
+            samples: 7,
+            max_u_k: SENTINEL,
+            worst_t_k: SENTINEL,
+            lo_u_k: SENTINEL,
+            hi_u_k: SENTINEL,
+        };
+        let mut out = sentinel;
+        let s = unsafe {
+            bt_verify_uncertainty_sakuma_hattori(&p, v.as_ptr(), lo, hi, samples, &mut out)
+        };
+        let matrix = [[v[0], v[1], v[2]], [v[3], v[4], v[5]], [v[6], v[7], v[8]]];
+        let want = SakumaHattori::new(a, b, c).and_then(|curve| {
+            bandtemp::verify::calibration_uncertainty(&curve, &matrix, lo, hi, samples)
+        });
+        report_agrees(s, &out, &sentinel, want)?;
+    }
+
+    /// The frame-table check over a good converter with arbitrary rows, row counts and
+    /// points per row, and over converters with words overwritten: a report that agrees
+    /// with the Rust check, or a named status with the report untouched.
+    #[test]
+    fn verify_frame_table_hostile(
+        words in prop::collection::vec((0usize..32, any::<u64>()), 0..3),
+        row_bits in prop::collection::vec(any::<u32>(), 4),
+        corrupt_row in any::<bool>(),
+        rows_len in prop_oneof![Just(None), (0usize..300).prop_map(Some)],
+        points_per_row in prop_oneof![0usize..8, Just(5000usize)],
+    ) {
+        let (mut conv, mut rows, used) = c_converter();
+        for (i, w) in words {
+            conv.opaque[i] = w;
+        }
+        if corrupt_row {
+            if let Some(r) = rows.first_mut() {
+                r.coefficients = [0, 1, 2, 3].map(|i| f32::from_bits(row_bits[i]));
+            }
+        }
+        let n = rows_len.unwrap_or(used).min(rows.len());
+        let band = frame_band();
+        let sentinel = bt_verify_table_report {
+            rows: 7,
+            samples: 7,
+            max_abs_error_k: SENTINEL,
+            worst_signal: SENTINEL,
+            worst_t_k: SENTINEL,
+            worst_error_k: SENTINEL,
+            refused: 7,
+            non_monotonic: 7,
+            claimed_max_error_k: SENTINEL,
+        };
+        let mut out = sentinel;
+        let s = unsafe {
+            bt_verify_frame_table_band(&band, &*conv, rows.as_ptr(), n, points_per_row, &mut out)
+        };
+        let rust_rows: Vec<[f32; 4]> = rows.iter().map(|r| r.coefficients).collect();
+        let want = (|| {
+            let converter = bandtemp::frame::FrameConverter::from_parts(
+                state_of(&conv),
+                rust_rows.get(..n).unwrap_or(&[]),
+            )?;
+            let band = Band::rectangular(8.0, 14.0, Detector::Energy)?;
+            bandtemp::verify::frame_table(&converter.table(), &band, points_per_row)
+        })();
+        report_agrees(s, &out, &sentinel, want)?;
+    }
+}

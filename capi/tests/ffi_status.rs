@@ -94,6 +94,10 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::FrameEmissivityMapUnavailable, 710),
     (bt_status::FrameCurveMismatch, 711),
     (bt_status::InvalidCurveForm, 1100),
+    (bt_status::VerifyRangeInvalid, 1000),
+    (bt_status::VerifySampleCountInvalid, 1001),
+    (bt_status::VerifyNoPoints, 1002),
+    (bt_status::VerifyCovarianceInvalid, 1003),
 ];
 
 fn message(raw: c_int) -> &'static str {

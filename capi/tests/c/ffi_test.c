@@ -2173,6 +2173,317 @@ static void test_monte_carlo(void) {
     }
 }
 
+/* ---- calibration checks (bt_verify_*) ------------------------------------------------------ */
+
+/* Sentinel report structs: filled with 0xA5 bytes, compared bytewise after each error. */
+#define VERIFY_SENTINEL(x) memset(&(x), 0xA5, sizeof(x))
+static int bytes_are_a5(const void *p, size_t n) {
+    const unsigned char *b = (const unsigned char *)p;
+    size_t i;
+    for (i = 0; i < n; i++) {
+        if (b[i] != 0xA5) {
+            return 0;
+        }
+    }
+    return 1;
+}
+#define VERIFY_UNTOUCHED(x) bytes_are_a5(&(x), sizeof(x))
+
+/* A call must give `want`; on error the report stays untouched. */
+#define EXPECT_REPORT(want, report, call)                                                      \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        VERIFY_SENTINEL(report);                                                               \
+        status_ = (call);                                                                      \
+        if (status_ != (want)) {                                                               \
+            printf("  got %d (%s), want %d\n", (int)status_, bt_status_message(status_),      \
+                   (int)(want));                                                               \
+        }                                                                                      \
+        check(status_ == (want) && ((want) == BT_STATUS_OK || VERIFY_UNTOUCHED(report)),       \
+              #call, __LINE__);                                                                \
+    } while (0)
+
+/* Any input: success, or a named status with the report untouched. */
+#define EXPECT_REPORT_SANE(report, call)                                                       \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        VERIFY_SENTINEL(report);                                                               \
+        status_ = (call);                                                                      \
+        check(status_ == BT_STATUS_OK || (known_status(status_) && VERIFY_UNTOUCHED(report)),  \
+              #call, __LINE__);                                                                \
+    } while (0)
+
+/* Closed-form inverse of the Sakuma-Hattori curve (DESIGN.md), written out here. */
+static double sakuma_hattori_inverse(const bt_sakuma_hattori *p, double signal) {
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    return (c2_umk / log1p(p->c / signal) - p->b_umk) / p->a_um;
+}
+
+static void test_verify(void) {
+    /* Invented calibration: A = 10.2 um, B = 60 um K, C = 2.0e6 counts, 900 dark counts. */
+    bt_sakuma_hattori sh = {10.2, 60.0, 2.0e6};
+    bt_sakuma_hattori bad_sh = {-1.0, 60.0, 2.0e6};
+    const double dark = 900.0;
+    double t_k[5] = {263.15, 300.0, 350.0, 420.0, 480.0};
+    /* Residuals placed on purpose: the signal of T_i + delta_i reads back T_i + delta_i. */
+    double delta_k[5] = {0.010, -0.020, 0.005, 0.030, -0.010};
+    double signal[5];
+    double sum_sq = 0.0, sum = 0.0;
+    double coverage_points[4] = {300.0, 350.0, 500.0, 320.0};
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band bad_band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_verify_residuals_report residuals;
+    bt_verify_curve_report curve;
+    bt_verify_round_trip_report trip;
+    bt_verify_coverage_report coverage;
+    bt_verify_table_report table;
+    bt_sakuma_hattori fitted;
+    double fit_error_k = 0.0;
+    double max_ref_k = 0.0;
+    bt_frame_converter conv;
+    bt_scene scene = plain_scene();
+    bt_rails rails = {0, 65535};
+    static bt_frame_row corrupted[FRAME_ROWS];
+    size_t i, j, rows = 0;
+
+    set_raw_detector(&bad_band, 7);
+    for (i = 0; i < 5; i++) {
+        signal[i] = dark + sakuma_hattori(&sh, t_k[i] + delta_k[i]);
+        sum_sq += delta_k[i] * delta_k[i];
+        sum += delta_k[i];
+    }
+
+    /* Residuals against the placed offsets: max 0.03 K at the 420 K point (index 3). */
+    EXPECT_REPORT(BT_STATUS_OK, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, signal, 5, &residuals));
+    CHECK(residuals.points == 5 && residuals.worst_index == 3 && residuals.worst_t_k == 420.0);
+    CHECK(fabs(residuals.worst_residual_k - 0.030) < 1e-9);
+    CHECK(fabs(residuals.max_abs_residual_k - 0.030) < 1e-9);
+    CHECK(fabs(residuals.rms_residual_k - sqrt(sum_sq / 5.0)) < 1e-9);
+    CHECK(fabs(residuals.mean_residual_k - sum / 5.0) < 1e-9);
+    EXPECT_REPORT(BT_STATUS_VERIFY_NO_POINTS, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, NULL, NULL, 0, &residuals));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, residuals,
+                  bt_verify_residuals_sakuma_hattori(NULL, dark, t_k, signal, 5, &residuals));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, NULL, signal, 5, &residuals));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, NULL, 5, &residuals));
+    CHECK(bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, signal, 5, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, residuals,
+                  bt_verify_residuals_sakuma_hattori(
+                      &sh, dark, (const double *)misaligned(t_k), signal, 4, &residuals));
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, signal, SIZE_MAX,
+                                                     &residuals));
+    EXPECT_REPORT(BT_STATUS_CALIBRATION_PARAMETER_INVALID, residuals,
+                  bt_verify_residuals_sakuma_hattori(&bad_sh, dark, t_k, signal, 5, &residuals));
+    /* A signal at the dark level has no temperature. */
+    EXPECT_REPORT(BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, 1e9, t_k, signal, 5, &residuals));
+
+    /* Coverage, by hand: points 300..500 K over 290..480 K extrapolate 10 K below and none
+     * above; clipped nodes 300, 320, 350, 480 leave the largest gap 350..480 K. */
+    EXPECT_REPORT(BT_STATUS_OK, coverage,
+                  bt_verify_coverage(coverage_points, 4, 290.0, 480.0, &coverage));
+    CHECK(coverage.points == 4 && coverage.points_in_range == 3);
+    CHECK(coverage.t_min_k == 300.0 && coverage.t_max_k == 500.0);
+    CHECK(coverage.extrapolated_below_k == 10.0 && coverage.extrapolated_above_k == 0.0);
+    CHECK(coverage.largest_gap_k == 130.0 && coverage.gap_lo_k == 350.0 &&
+          coverage.gap_hi_k == 480.0);
+    EXPECT_REPORT(BT_STATUS_VERIFY_NO_POINTS, coverage,
+                  bt_verify_coverage(NULL, 0, 290.0, 480.0, &coverage));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, coverage,
+                  bt_verify_coverage(NULL, 4, 290.0, 480.0, &coverage));
+    EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, coverage,
+                  bt_verify_coverage(coverage_points, 4, 480.0, 290.0, &coverage));
+    EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, coverage,
+                  bt_verify_coverage(coverage_points, 4, 0.0, 290.0, &coverage));
+    coverage_points[2] = -500.0;
+    EXPECT_REPORT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, coverage,
+                  bt_verify_coverage(coverage_points, 4, 290.0, 480.0, &coverage));
+    coverage_points[2] = NAN;
+    EXPECT_REPORT(BT_STATUS_NON_FINITE, coverage,
+                  bt_verify_coverage(coverage_points, 4, 290.0, 480.0, &coverage));
+    coverage_points[2] = 500.0;
+    CHECK(bt_verify_coverage(coverage_points, 4, 290.0, 480.0, NULL) == BT_STATUS_NULL_POINTER);
+
+    /* Round trips: the closed-form inverse is exact to rounding; the band's Newton to
+     * 1e-9 T (the crate's promise). */
+    EXPECT_REPORT(BT_STATUS_OK, trip,
+                  bt_verify_round_trip_sakuma_hattori(&sh, dark, 250.0, 500.0, 101, &trip));
+    CHECK(trip.samples == 101 && trip.monotonic == 1 && trip.first_non_monotonic_k == 0.0);
+    CHECK(trip.max_abs_error_k < 1e-9 * 500.0);
+    EXPECT_REPORT(BT_STATUS_OK, trip, bt_verify_round_trip_band(&band, 250.0, 500.0, 51, &trip));
+    CHECK(trip.monotonic == 1 && trip.max_abs_error_k < 1e-9 * 500.0);
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, trip,
+                  bt_verify_round_trip_band(&band, 250.0, 500.0, 1, &trip));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, trip,
+                  bt_verify_round_trip_band(&band, 250.0, 500.0, SIZE_MAX, &trip));
+    EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, trip,
+                  bt_verify_round_trip_band(&band, 500.0, 250.0, 11, &trip));
+    EXPECT_REPORT(BT_STATUS_INVALID_DETECTOR, trip,
+                  bt_verify_round_trip_band(&bad_band, 250.0, 500.0, 11, &trip));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, trip,
+                  bt_verify_round_trip_band(NULL, 250.0, 500.0, 11, &trip));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, trip,
+                  bt_verify_round_trip_sakuma_hattori(NULL, dark, 250.0, 500.0, 11, &trip));
+    CHECK(bt_verify_round_trip_band(&band, 250.0, 500.0, 11, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, trip,
+                  bt_verify_round_trip_band(&band, 250.0, 500.0, 11,
+                                            (bt_verify_round_trip_report *)misaligned(&trip)));
+
+    /* The curve fitted to the band, against the band: the largest error over 201
+     * temperatures, recomputed here with Simpson band radiance and the closed-form
+     * inverse. Simpson's relative error (~1e-10) moves a temperature by ~1e-8 K. */
+    CHECK(bt_sakuma_hattori_fit_band(&band, 250.0, 500.0, &fitted, &fit_error_k) ==
+          BT_STATUS_OK);
+    EXPECT_REPORT(BT_STATUS_OK, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 1.0, 0.0, 250.0, 500.0, 201, &curve));
+    for (i = 0; i < 201; i++) {
+        double t = i == 200 ? 500.0 : 250.0 + 250.0 * ((double)i / 200.0);
+        double e = sakuma_hattori_inverse(&fitted, band_ref(8.0, 14.0, t, 0)) - t;
+        if (fabs(e) > max_ref_k) {
+            max_ref_k = fabs(e);
+        }
+    }
+    CHECK(curve.samples == 201 && fabs(curve.max_abs_error_k - max_ref_k) < 1e-6);
+    CHECK(fabs(curve.worst_error_k) == curve.max_abs_error_k);
+    CHECK(curve.worst_t_k >= 250.0 && curve.worst_t_k <= 500.0);
+    /* A counts map 1 % too high reads every temperature cold. */
+    EXPECT_REPORT(BT_STATUS_OK, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 1.01, 0.0, 250.0, 500.0, 11, &curve));
+    CHECK(curve.worst_error_k < -0.1 && curve.mean_error_k < -0.1);
+    EXPECT_REPORT(BT_STATUS_FRAME_COUNTS_MAP_INVALID, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 0.0, 0.0, 250.0, 500.0, 11, &curve));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, curve,
+                  bt_verify_curve_band(&fitted, 0.0, NULL, 1.0, 0.0, 250.0, 500.0, 11, &curve));
+    EXPECT_REPORT(BT_STATUS_INVALID_DETECTOR, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &bad_band, 1.0, 0.0, 250.0, 500.0, 11,
+                                       &curve));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 1.0, 0.0, 250.0, 500.0, 0, &curve));
+
+    /* A frame table built by a converter, then checked; then a copy with one row moved
+     * by +0.05 K (its constant coefficient), which the check must find in that row. */
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_OK);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, &rows) == BT_STATUS_OK);
+    EXPECT_REPORT(BT_STATUS_OK, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows, 37, &table));
+    CHECK(table.rows == rows && table.samples > rows * 30 && table.refused == 0 &&
+          table.non_monotonic == 0);
+    CHECK(table.max_abs_error_k <= 1e-3 && table.max_abs_error_k > 0.0);
+    CHECK(table.claimed_max_error_k <= 1e-3);
+    memcpy(corrupted, frame_table, sizeof corrupted);
+    corrupted[rows / 2].coefficients[0] += 0.05f;
+    EXPECT_REPORT(BT_STATUS_OK, table,
+                  bt_verify_frame_table_band(&band, &conv, corrupted, rows, 37, &table));
+    CHECK(table.max_abs_error_k > 0.045 && table.max_abs_error_k < 0.055);
+    CHECK(table.worst_error_k > 0.0);
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
+                  bt_verify_frame_table_band(&band, NULL, frame_table, rows, 37, &table));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
+                  bt_verify_frame_table_band(&band, &conv, NULL, rows, 37, &table));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
+                  bt_verify_frame_table_sakuma_hattori(NULL, &conv, frame_table, rows, 37,
+                                                       &table));
+    EXPECT_REPORT(BT_STATUS_FRAME_STORAGE_TOO_SMALL, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows - 1, 37, &table));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows, 0, &table));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows, 5000, &table));
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, table,
+                  bt_verify_frame_table_band(&band, (const bt_frame_converter *)misaligned(&conv),
+                                             frame_table, rows, 37, &table));
+    CHECK(bt_verify_frame_table_band(&band, &conv, frame_table, rows, 37, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    {
+        /* A converter of garbage bytes: refused, never read as rows. */
+        bt_frame_converter garbage;
+        memset(&garbage, 0x5A, sizeof garbage);
+        EXPECT_REPORT_SANE(table, bt_verify_frame_table_band(&band, &garbage, frame_table,
+                                                             rows, 37, &table));
+    }
+
+    /* Calibration uncertainty: with only A uncertain, u(T) = T sigma_A / A (the closed
+     * form's dT/dA = -T/A), largest at the hot end. */
+    {
+        bt_verify_uncertainty_report unc;
+        double v[9] = {1e-4, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
+        double not_psd[9] = {1.0, -1200.0, 0.0, -1200.0, 360000.0, 0.0, 0.0, 0.0, 0.0};
+        EXPECT_REPORT(BT_STATUS_OK, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, &unc));
+        CHECK(unc.samples == 11 && unc.worst_t_k == 500.0);
+        CHECK(fabs(unc.max_u_k - 500.0 * 0.01 / 10.2) < 1e-12);
+        CHECK(fabs(unc.lo_u_k - 250.0 * 0.01 / 10.2) < 1e-12);
+        EXPECT_REPORT(BT_STATUS_NULL_POINTER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, NULL, 250.0, 500.0, 11, &unc));
+        EXPECT_REPORT(BT_STATUS_NULL_POINTER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(NULL, v, 250.0, 500.0, 11, &unc));
+        CHECK(bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, NULL) ==
+              BT_STATUS_NULL_POINTER);
+        EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, (const double *)misaligned(v),
+                                                           250.0, 500.0, 11, &unc));
+        EXPECT_REPORT(BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, not_psd, 250.0, 500.0, 11, &unc));
+        v[1] = 1e-6; /* asymmetric */
+        EXPECT_REPORT(BT_STATUS_VERIFY_COVARIANCE_INVALID, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, &unc));
+        v[1] = 0.0;
+        EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 500.0, 250.0, 11, &unc));
+        for (i = 0; i < N_ARGS; i++) {
+            for (j = 0; j < 9; j++) {
+                double w[9] = {1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6};
+                w[j] = ARGS[i];
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, w, 250.0, 500.0,
+                                                                             5, &unc));
+            }
+            if (ARGS[i] <= 5000.0) {
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, v, ARGS[i], 500.0,
+                                                                             5, &unc));
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, ARGS[i],
+                                                                             5, &unc));
+            }
+        }
+    }
+
+    /* Every hostile value in every scalar slot: a report or a named status. */
+    for (i = 0; i < N_ARGS; i++) {
+        for (j = 0; j < 3; j++) {
+            double a[3] = {dark, 250.0, 500.0};
+            if (j > 0 && ARGS[i] > 5000.0) {
+                continue; /* valid but slow ranges for a debug build */
+            }
+            a[j] = ARGS[i];
+            EXPECT_REPORT_SANE(residuals, bt_verify_residuals_sakuma_hattori(
+                                              &sh, a[0], t_k, signal, 5, &residuals));
+            EXPECT_REPORT_SANE(trip, bt_verify_round_trip_sakuma_hattori(&sh, a[0], a[1], a[2],
+                                                                         11, &trip));
+            EXPECT_REPORT_SANE(trip, bt_verify_round_trip_band(&band, a[1], a[2], 5, &trip));
+            EXPECT_REPORT_SANE(coverage,
+                               bt_verify_coverage(coverage_points, 4, a[1], a[2], &coverage));
+            EXPECT_REPORT_SANE(curve, bt_verify_curve_band(&fitted, a[0], &band, 1.0, 0.0, a[1],
+                                                           a[2], 5, &curve));
+            EXPECT_REPORT_SANE(curve, bt_verify_curve_band(&fitted, 0.0, &band, a[j], a[0],
+                                                           250.0, 500.0, 5, &curve));
+        }
+        {
+            double hostile_t[5];
+            memcpy(hostile_t, t_k, sizeof hostile_t);
+            hostile_t[2] = ARGS[i];
+            EXPECT_REPORT_SANE(residuals, bt_verify_residuals_sakuma_hattori(
+                                              &sh, dark, hostile_t, signal, 5, &residuals));
+            EXPECT_REPORT_SANE(coverage, bt_verify_coverage(hostile_t, 5, 250.0, 500.0, &coverage));
+        }
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -2193,6 +2504,7 @@ int main(void) {
     test_wien_ratio();
     test_curves();
     test_monte_carlo();
+    test_verify();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }

@@ -19,7 +19,10 @@ Loads the cdylib with ctypes and compares, for seeded random cases,
 - the Wien ratio model and curves of both forms behind a dark offset, in mpmath, and a
   Wien-form fit recovering a known curve from exact readings;
 - Monte Carlo (seeded) against the GUM law of propagation with sensitivities from
-  mpmath derivatives of the written-out equation.
+  mpmath derivatives of the written-out equation;
+- the calibration checks: a fitted curve against the band model (bt_verify_curve_band) with
+  the band radiance and the curve's inverse in mpmath, and the calibration uncertainty
+  (bt_verify_uncertainty_sakuma_hattori) with the Jacobian by mpmath.diff.
 
 Usage:
     cargo build --release --lib
@@ -80,6 +83,12 @@ TOL = {
     # nonlinear. The mean: |mean - T| / (4 u/sqrt(M) + 0.02 u) must be at most 1.
     "monte carlo standard deviation vs law of propagation": 4.0 / math.sqrt(2 * 39999) + 0.02,
     "monte carlo mean vs estimate (error / bound)": 1.0,
+    # The largest curve-vs-band error (mK to tens of mK) is a difference of temperatures
+    # each good to ~1e-13 K, so its relative error is ~1e-10 (measured: 6e-11).
+    "verify curve max error vs mpmath": 1e-8,
+    # u(T) from the covariance: the library's closed-form sensitivities against
+    # mpmath.diff at 40 digits (double rounding of the terms: ~1e-15; measured 4e-16).
+    "verify uncertainty vs mpmath": 1e-10,
 }
 
 H = mp.mpf(constants.h)  # 6.62607015e-34 J s, exact (SI 2019)
@@ -190,6 +199,26 @@ class MonteCarlo(ctypes.Structure):
     ]
 
 
+class CurveReport(ctypes.Structure):
+    _fields_ = [
+        ("samples", ctypes.c_size_t),
+        ("max_abs_error_k", ctypes.c_double),
+        ("worst_t_k", ctypes.c_double),
+        ("worst_error_k", ctypes.c_double),
+        ("mean_error_k", ctypes.c_double),
+    ]
+
+
+class UncertaintyReport(ctypes.Structure):
+    _fields_ = [
+        ("samples", ctypes.c_size_t),
+        ("max_u_k", ctypes.c_double),
+        ("worst_t_k", ctypes.c_double),
+        ("lo_u_k", ctypes.c_double),
+        ("hi_u_k", ctypes.c_double),
+    ]
+
+
 def load(path):
     lib = ctypes.CDLL(path)
     d, p = ctypes.c_double, ctypes.POINTER(ctypes.c_double)
@@ -215,6 +244,14 @@ def load(path):
             ctypes.c_uint64, d, p, ctypes.c_size_t, ctypes.POINTER(MonteCarlo),
         ],
     }
+    sh_p = ctypes.POINTER(SakumaHattori)
+    signatures["bt_sakuma_hattori_fit_band"] = [ctypes.POINTER(Band), d, d, sh_p, p]
+    signatures["bt_verify_curve_band"] = [
+        sh_p, d, ctypes.POINTER(Band), d, d, d, d, ctypes.c_size_t, ctypes.POINTER(CurveReport)
+    ]
+    signatures["bt_verify_uncertainty_sakuma_hattori"] = [
+        sh_p, p, d, d, ctypes.c_size_t, ctypes.POINTER(UncertaintyReport)
+    ]
     for name, args in signatures.items():
         fn = getattr(lib, name)
         fn.argtypes = args
@@ -550,6 +587,58 @@ def main():
         tally.rel("sakuma-hattori temperature vs mpmath", got, t_ref)
 
     check_rest(lib, rng, tally)
+
+    # Calibration checks: a curve fitted to a band, against the band model over its range,
+    # on 21 temperatures; and the uncertainty of a curve from a covariance.
+    for lo, hi, t_lo, t_hi in [(8.0, 14.0, 250.0, 500.0), (3.0, 5.0, 300.0, 900.0), (0.8, 1.1, 900.0, 2000.0)]:
+        band = Band(lo, hi, 0, None, None, 0)
+        curve = SakumaHattori()
+        fit_error = ctypes.c_double()
+        status = lib.bt_sakuma_hattori_fit_band(
+            ctypes.byref(band), t_lo, t_hi, ctypes.byref(curve), ctypes.byref(fit_error)
+        )
+        if status != 0:
+            raise RuntimeError(f"bt_sakuma_hattori_fit_band: status {status}")
+        report = CurveReport()
+        status = lib.bt_verify_curve_band(
+            ctypes.byref(curve), 0.0, ctypes.byref(band), 1.0, 0.0, t_lo, t_hi, 21, ctypes.byref(report)
+        )
+        if status != 0:
+            raise RuntimeError(f"bt_verify_curve_band: status {status}")
+        a, b, c = (mp.mpf(x) for x in (curve.a_um, curve.b_umk, curve.c))
+        worst = mp.mpf(0)
+        for i in range(21):
+            t = t_hi if i == 20 else t_lo + (t_hi - t_lo) * (i / 20.0)
+            lb = band_mpmath(lo, hi, t, False)
+            err = (C2_UMK / mp.log1p(c / lb) - b) / a - t
+            worst = max(worst, abs(err))
+        tally.rel("verify curve max error vs mpmath", report.max_abs_error_k, worst)
+
+        # Standard deviations 1e-3 A, 0.5 um K, 1e-3 C and correlations -0.9 (A, B),
+        # -0.5 (A, C), 0.6 (B, C): positive definite (determinant of the correlations 0.12).
+        sd = [1e-3 * curve.a_um, 0.5, 1e-3 * curve.c]
+        rho = [[1.0, -0.9, -0.5], [-0.9, 1.0, 0.6], [-0.5, 0.6, 1.0]]
+        cov = [sd[r] * rho[r][k] * sd[k] for r in range(3) for k in range(3)]
+        cov_c = (ctypes.c_double * 9)(*cov)
+        unc = UncertaintyReport()
+        status = lib.bt_verify_uncertainty_sakuma_hattori(
+            ctypes.byref(curve), cov_c, t_lo, t_hi, 3, ctypes.byref(unc)
+        )
+        if status != 0:
+            raise RuntimeError(f"bt_verify_uncertainty_sakuma_hattori: status {status}")
+        for t, got in ((t_lo, unc.lo_u_k), (t_hi, unc.hi_u_k)):
+            s_t = c / mp.expm1(C2_UMK / (a * t + b))
+
+            def temp(pa, pb, pc):
+                return (C2_UMK / mp.log1p(pc / s_t) - pb) / pa
+
+            j = [
+                mp.diff(lambda x: temp(x, b, c), a),
+                mp.diff(lambda x: temp(a, x, c), b),
+                mp.diff(lambda x: temp(a, b, x), c),
+            ]
+            var = sum(j[r] * mp.mpf(cov[3 * r + k]) * j[k] for r in range(3) for k in range(3))
+            tally.rel("verify uncertainty vs mpmath", got, mp.sqrt(var))
 
     for what, worst in tally.worst.items():
         print(f"  {what}: max rel err {worst:.2e} (tolerance {TOL[what]:.0e})")
