@@ -13,7 +13,7 @@ fn examples() -> PathBuf {
 }
 
 fn pass_text() -> String {
-    std::fs::read_to_string(examples().join("lw640_pass.toml")).unwrap()
+    std::fs::read_to_string(examples().join("line_scanner_pass.toml")).unwrap()
 }
 
 /// The passing record with each `(from, to)` replaced; each `from` must occur once.
@@ -95,7 +95,7 @@ fn the_passing_example_passes_every_check() {
 
 #[test]
 fn the_failing_example_fails_what_it_says() {
-    let text = std::fs::read_to_string(examples().join("lw640_fail.toml")).unwrap();
+    let text = std::fs::read_to_string(examples().join("line_scanner_fail.toml")).unwrap();
     let outcome = outcome_of(&text);
     assert!(!outcome.passed());
     // 1.2 % more signal than the curve: residuals of a kelvin or two at the hot points.
@@ -483,8 +483,8 @@ fn scratch(name: &str) -> PathBuf {
 
 #[test]
 fn exit_status_is_0_1_or_2() {
-    let pass = examples().join("lw640_pass.toml");
-    let fail = examples().join("lw640_fail.toml");
+    let pass = examples().join("line_scanner_pass.toml");
+    let fail = examples().join("line_scanner_fail.toml");
     let out = checker().arg(&pass).output().unwrap();
     assert_eq!(out.status.code(), Some(0));
     let text = String::from_utf8(out.stdout).unwrap();
@@ -533,8 +533,8 @@ fn exit_status_is_0_1_or_2() {
 fn json_report_reads_back() {
     let out = checker()
         .args(["--json", "--quiet"])
-        .arg(examples().join("lw640_pass.toml"))
-        .arg(examples().join("lw640_fail.toml"))
+        .arg(examples().join("line_scanner_pass.toml"))
+        .arg(examples().join("line_scanner_fail.toml"))
         .output()
         .unwrap();
     assert_eq!(out.status.code(), Some(1));
@@ -561,8 +561,8 @@ fn junit_report_is_well_formed_xml_with_one_failure_per_broken_check() {
     let out = checker()
         .args(["--quiet", "--junit"])
         .arg(&file)
-        .arg(examples().join("lw640_pass.toml"))
-        .arg(examples().join("lw640_fail.toml"))
+        .arg(examples().join("line_scanner_pass.toml"))
+        .arg(examples().join("line_scanner_fail.toml"))
         .output()
         .unwrap();
     assert_eq!(out.status.code(), Some(1));
