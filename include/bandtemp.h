@@ -2126,7 +2126,7 @@ bt_status bt_coating_emissivity_budget(const bt_band *band,
                                        double surface_radiance,
                                        double coating_radiance,
                                        double coating_emissivity,
-                                       const double (*u)[4],
+                                       const double *u,
                                        bt_site_budget *out);
 
 /**

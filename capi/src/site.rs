@@ -151,16 +151,19 @@ pub unsafe extern "C" fn bt_coating_emissivity_budget(
     surface_radiance: f64,
     coating_radiance: f64,
     coating_emissivity: f64,
-    u: *const [f64; 4],
+    u: *const f64,
     out: *mut bt_site_budget,
 ) -> bt_status {
     // SAFETY: the caller's guarantees are those of `band_from_c`, `read_scene`,
-    // `read_input` (an array of doubles) and `deliver`.
+    // `slice_from_c` (4 doubles) and `deliver`.
     unsafe {
         deliver(out, || {
             let band = band_from_c(band)?;
             let scene = read_scene(scene)?;
-            let u = super::read_input(u)?;
+            let u = match *super::slice_from_c(u, 4)? {
+                [a, b, c, d] => [a, b, c, d],
+                _ => return Err(bandtemp::Error::InvalidBuffer),
+            };
             coating_emissivity_budget(
                 &scene,
                 &band,
