@@ -272,7 +272,8 @@ pub unsafe extern "C" fn bt_mtf_evaluate(
 /// reads low. `target_diameter_um` is the image diameter on the detector.
 ///
 /// Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_TARGET_SIZE_NOT_POSITIVE`,
-/// `BT_STATUS_OPTICS_GEOMETRY_INVALID` (also for an image beyond 2000 lambda N in radius);
+/// `BT_STATUS_OPTICS_GEOMETRY_INVALID` (also for an image beyond 2000 lambda N in radius,
+/// or pitch and image so large against lambda N that the work bound is exceeded);
 /// pointer errors.
 ///
 /// # Safety

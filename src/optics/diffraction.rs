@@ -167,6 +167,9 @@ pub fn mtf(frequency_cy_mm: f64, pitch_um: f64, wavelength_um: f64, f_number: f6
 /// that more would be needed (beyond 2000 lambda N in radius, far larger than any
 /// detector, where the fraction is 1 to within 1e-4 anyway).
 const MAX_RADIAL_PANELS: f64 = 4096.0;
+/// Most radial x angular panel pairs (each 100 evaluations): bounds the work at about
+/// 6.5e6 evaluations, which a pixel pitch above about 250 lambda N would exceed.
+const MAX_PANEL_PAIRS: f64 = 65_536.0;
 
 /// The fraction of the full-field signal that the pixel centred on the image of a small,
 /// uniform, round target receives (the rest of the scene at zero): how much a small
@@ -196,7 +199,8 @@ const MAX_RADIAL_PANELS: f64 = 4096.0;
 /// # Errors
 /// [`Error::NonFinite`], [`Error::TargetSizeNotPositive`],
 /// [`Error::OpticsGeometryInvalid`] (also for a target image beyond 2000 lambda N in
-/// radius).
+/// radius, or a pitch and target so large against lambda N that the quadrature would
+/// need more than 65536 panel pairs: p and R up to about 100 lambda N are always fine).
 pub fn small_target_fraction(
     target_diameter_um: f64,
     pitch_um: f64,
@@ -215,6 +219,9 @@ pub fn small_target_fraction(
         return Err(Error::OpticsGeometryInvalid);
     }
     let angular = libm::ceil(p * nu_c) + 1.0;
+    if radial * angular > MAX_PANEL_PAIRS {
+        return Err(Error::OpticsGeometryInvalid);
+    }
     let angular_width = 0.25 * PI / angular;
     let a_of = |rho: f64| {
         let mut sum = 0.0;
