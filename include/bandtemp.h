@@ -40,6 +40,38 @@
 #define BT_BUDGET_MAX_LINES 16
 
 /**
+ * Most bands a multi-wavelength fit holds.
+ */
+#define BT_MULTIWAVELENGTH_MAX_BANDS 16
+
+/**
+ * Most coefficients of the ln-emissivity polynomial (0 known, 1 grey, 2 linear,
+ * 3 quadratic).
+ */
+#define BT_MULTIWAVELENGTH_MAX_TERMS 3
+
+/**
+ * `bt_target_check` rule: ISO 10878:2013, target >= the 99 % spot (distance / D:S).
+ */
+#define BT_TARGET_RULE_ISO10878 0
+
+/**
+ * `bt_target_check` rule: "3 x 3 pixels", common practice with no standard behind it.
+ */
+#define BT_TARGET_RULE_THREE_BY_THREE 1
+
+/**
+ * `bt_target_check` rule: Pusnik and Gersak 2021 (Sensors 21, 607), >= 10 x 10 pixels
+ * with the central 3 x 3 averaged.
+ */
+#define BT_TARGET_RULE_PUSNIK_GERSAK 2
+
+/**
+ * Most lines of a `bt_site_budget`.
+ */
+#define BT_SITE_BUDGET_MAX_LINES 4
+
+/**
  * What a `bt_` function reports: `BT_STATUS_OK` (0) or the named reason it failed.
  *
  * Values are explicit and never reused: a retired status keeps its number unused. They
@@ -413,6 +445,82 @@ typedef enum {
      * A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
      */
     BT_STATUS_VERIFY_COVARIANCE_INVALID = 1003,
+    /**
+     * A distance-to-spot ratio, IFOV, pixel pitch, focal length, f-number, wavelength or distance that is not positive.
+     */
+    BT_STATUS_OPTICS_GEOMETRY_INVALID = 900,
+    /**
+     * A target size (diameter) that is not positive.
+     */
+    BT_STATUS_TARGET_SIZE_NOT_POSITIVE = 901,
+    /**
+     * An encircled-energy or signal fraction outside (0, 1).
+     */
+    BT_STATUS_FRACTION_OUT_OF_RANGE = 902,
+    /**
+     * A spatial frequency below zero.
+     */
+    BT_STATUS_SPATIAL_FREQUENCY_NEGATIVE = 903,
+    /**
+     * A size-of-source table with fewer than two points, arrays of different length, diameters not positive and strictly increasing, or a sigma outside [0, 1).
+     */
+    BT_STATUS_SSE_TABLE_INVALID = 904,
+    /**
+     * A source diameter outside the span of the size-of-source table (no extrapolation).
+     */
+    BT_STATUS_SSE_DIAMETER_OUTSIDE_TABLE = 905,
+    /**
+     * Optical constants with n <= 0, k < 0, or |m| above 1e6.
+     */
+    BT_STATUS_REFRACTIVE_INDEX_INVALID = 906,
+    /**
+     * A viewing angle outside [0, 89.999] degrees.
+     */
+    BT_STATUS_ANGLE_OUT_OF_RANGE = 907,
+    /**
+     * A relative emissivity tolerance outside (0, 1).
+     */
+    BT_STATUS_ANGLE_TOLERANCE_INVALID = 908,
+    /**
+     * An electrical resistivity that is not positive.
+     */
+    BT_STATUS_RESISTIVITY_NOT_POSITIVE = 909,
+    /**
+     * The Hagen-Rubens first term exceeds 0.2, where its error reaches 10 %.
+     */
+    BT_STATUS_HAGEN_RUBENS_OUT_OF_RANGE = 910,
+    /**
+     * Fewer bands than the emissivity model has parameters plus one (temperature).
+     */
+    BT_STATUS_TOO_FEW_BANDS = 911,
+    /**
+     * More bands than multi-wavelength pyrometry holds (`multiwavelength::MAX_BANDS`).
+     */
+    BT_STATUS_TOO_MANY_BANDS = 912,
+    /**
+     * Band, wavelength or signal arrays of different lengths.
+     */
+    BT_STATUS_BAND_COUNT_MISMATCH = 913,
+    /**
+     * The multi-wavelength normal matrix is singular: the bands cannot separate temperature from emissivity.
+     */
+    BT_STATUS_MULTIWAVELENGTH_ILL_CONDITIONED = 914,
+    /**
+     * The multi-wavelength Gauss-Newton fit did not converge.
+     */
+    BT_STATUS_MULTIWAVELENGTH_NOT_CONVERGED = 915,
+    /**
+     * An emissivity model outside its declared values (0-3 polynomial terms).
+     */
+    BT_STATUS_EMISSIVITY_MODEL_INVALID = 916,
+    /**
+     * A minimum-target rule outside its declared values (C ABI only).
+     */
+    BT_STATUS_TARGET_RULE_INVALID = 917,
+    /**
+     * Spectral moments with a mean wavelength that is not positive or a negative variance.
+     */
+    BT_STATUS_MOMENTS_INVALID = 918,
 } bt_status;
 
 /**
@@ -1184,6 +1292,176 @@ typedef struct {
      */
     double hi_u_k;
 } bt_verify_uncertainty_report;
+
+/**
+ * Directional spectral emissivity at one angle, by polarisation.
+ */
+typedef struct {
+    /**
+     * s (TE) polarisation.
+     */
+    double s;
+    /**
+     * p (TM) polarisation.
+     */
+    double p;
+    /**
+     * Unpolarised, (s + p) / 2.
+     */
+    double unpolarised;
+} bt_directional_emissivity;
+
+/**
+ * The result of `bt_multiwavelength_fit`.
+ */
+typedef struct {
+    /**
+     * Temperature, K.
+     */
+    double temperature_k;
+    /**
+     * Coefficients a_0.. of ln e = a_0 + a_1 lambda + a_2 lambda^2 (lambda in um; a_j in
+     * um^-j); unused ones are 0.
+     */
+    double coefficients[BT_MULTIWAVELENGTH_MAX_TERMS];
+    /**
+     * Number of coefficients fitted.
+     */
+    uint32_t terms;
+    /**
+     * Gauss-Newton iterations used.
+     */
+    uint32_t iterations;
+    /**
+     * Noise gain: std(dT/T) per unit standard deviation of ln S in each band.
+     */
+    double noise_gain;
+    /**
+     * dT/T per unit coefficient of the first omitted term lambda^terms.
+     */
+    double bias_per_next_term;
+    /**
+     * RMS of the residuals in ln S.
+     */
+    double residual_rms;
+} bt_multiwavelength_result;
+
+/**
+ * The outcome of `bt_target_check`.
+ */
+typedef struct {
+    /**
+     * The rule applied (a `BT_TARGET_RULE_*` value).
+     */
+    uint32_t rule;
+    /**
+     * 1 when the target satisfies the rule, 0 when it does not.
+     */
+    uint32_t valid;
+    /**
+     * The smallest target the rule accepts at this distance, m.
+     */
+    double minimum_m;
+    /**
+     * Target size over `minimum_m` (>= 1 when valid).
+     */
+    double ratio;
+    /**
+     * Pixel footprints across the target (imager rules), or target over spot (ISO).
+     */
+    double across;
+} bt_target_verdict;
+
+/**
+ * The MTF of an imager at one spatial frequency (`bt_mtf_evaluate`).
+ */
+typedef struct {
+    /**
+     * Diffraction MTF of the circular aperture.
+     */
+    double diffraction;
+    /**
+     * Pixel MTF of a square pixel, 100 % fill factor.
+     */
+    double pixel;
+    /**
+     * Their product.
+     */
+    double system;
+} bt_mtf;
+
+/**
+ * A size-of-source correction (`bt_sse_correct`).
+ */
+typedef struct {
+    /**
+     * Exact relative signal error, (1 - sigma_meas)/(1 - sigma_cal) - 1.
+     */
+    double relative_signal;
+    /**
+     * First-order form sigma(d_cal) - sigma(d_meas).
+     */
+    double relative_signal_first_order;
+    /**
+     * The reading corrected to the calibration source size, K.
+     */
+    double corrected_k;
+    /**
+     * corrected_k minus the reading, K.
+     */
+    double correction_k;
+} bt_sse_correction;
+
+/**
+ * One line of a `bt_site_budget`.
+ */
+typedef struct {
+    /**
+     * The input's position (0-based) in the function's argument order (documented with
+     * each function).
+     */
+    size_t index;
+    /**
+     * Standard uncertainty u(x_i), input unit.
+     */
+    double standard_uncertainty;
+    /**
+     * Sensitivity coefficient c_i, estimate unit per input unit.
+     */
+    double sensitivity;
+    /**
+     * Contribution |c_i| u(x_i), estimate unit.
+     */
+    double contribution;
+    /**
+     * Share of the combined variance.
+     */
+    double variance_share;
+} bt_site_line;
+
+/**
+ * A site-method budget: the estimate (emissivity, dimensionless, or reflected apparent
+ * temperature, K, as each function says), its combined standard uncertainty in the same
+ * unit, and the lines ranked largest first.
+ */
+typedef struct {
+    /**
+     * The estimate (emissivity, or K for a reflected temperature).
+     */
+    double estimate;
+    /**
+     * Combined standard uncertainty, in the estimate's unit.
+     */
+    double combined_standard_uncertainty;
+    /**
+     * Number of lines in use.
+     */
+    size_t len;
+    /**
+     * Lines ranked by contribution, largest first; unused lines are zero.
+     */
+    bt_site_line ranked[BT_SITE_BUDGET_MAX_LINES];
+} bt_site_budget;
 
 #ifdef __cplusplus
 extern "C" {
@@ -2415,6 +2693,460 @@ bt_status bt_verify_uncertainty_sakuma_hattori(const bt_sakuma_hattori *p,
                                                double hi_k,
                                                size_t samples,
                                                bt_verify_uncertainty_report *out);
+
+/**
+ * Limit effective wavelength of the band at `temperature_k`, um:
+ * 1/lambda_T = (T^2/c2) d ln L / dT with the band's exact dL/dT.
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`;
+ * pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
+ * only on success.
+ */
+bt_status bt_limit_effective_wavelength_um(const bt_band *band, double temperature_k, double *out);
+
+/**
+ * Mean effective wavelength of the band between `t1_k` and `t2_k`, um:
+ * c2 (1/T1 - 1/T2) / ln(L(T2)/L(T1)).
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE` for T1 = T2; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
+ * only on success.
+ */
+bt_status bt_mean_effective_wavelength_um(const bt_band *band,
+                                          double t1_k,
+                                          double t2_k,
+                                          double *out);
+
+/**
+ * Sakuma-Hattori A (um) and B (um K) from the band's spectral moments (Saunders and
+ * White 2003): A = lambda0 (1 - 6 sigma^2/lambda0^2) (5 for a photon detector),
+ * B = c2 sigma^2 / (2 lambda0^2). A start for `bt_sakuma_hattori_fit_band`, not a
+ * calibration.
+ *
+ * Errors: the band's errors; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `a_um` and `b_umk` null or valid for writing a double;
+ * written only on success.
+ */
+bt_status bt_sakuma_hattori_from_moments(const bt_band *band, double *a_um, double *b_umk);
+
+/**
+ * dT/dlambda, K per um, of a one-point calibration at `calibration_k` read at
+ * `temperature_k`: (1 - T/T1) T / lambda (Wien; the reading's error per unit error of the
+ * effective wavelength).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_WAVELENGTH_NOT_POSITIVE`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_one_point_wavelength_sensitivity(double wavelength_um,
+                                              double calibration_k,
+                                              double temperature_k,
+                                              double *out);
+
+/**
+ * dT/dsigma, K per um, of a two-point calibration at `t1_k` and `t2_k` read at
+ * `temperature_k`, for a band of mean `mean_um` and variance `variance_um2` (B from the
+ * moments, A and C through the two points; Sakuma-Hattori Wien form).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_MOMENTS_INVALID`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE`;
+ * pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_two_point_sigma_sensitivity(double mean_um,
+                                         double variance_um2,
+                                         double t1_k,
+                                         double t2_k,
+                                         double temperature_k,
+                                         double *out);
+
+/**
+ * Directional spectral emissivity of a smooth opaque surface with optical constants
+ * n, k at `angle_deg` from the normal ([0, 89.999] deg), by Fresnel's equations.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`,
+ * `BT_STATUS_ANGLE_OUT_OF_RANGE`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a `bt_directional_emissivity`; written only on success.
+ */
+bt_status bt_emissivity_directional(double n,
+                                    double k,
+                                    double angle_deg,
+                                    bt_directional_emissivity *out);
+
+/**
+ * Normal spectral emissivity 4n / ((n + 1)^2 + k^2).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_normal(double n, double k, double *out);
+
+/**
+ * Hemispherical spectral emissivity (integral of e(theta) over the hemisphere, 1e-12).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_hemispherical(double n, double k, double *out);
+
+/**
+ * The angle (deg) and value of the largest unpolarised directional emissivity.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `angle_deg` and `emissivity` null or valid for writing a double; written only on
+ * success.
+ */
+bt_status bt_emissivity_peak(double n, double k, double *angle_deg, double *emissivity);
+
+/**
+ * The largest viewing angle (deg) up to which |e(theta)/e_n - 1| stays within
+ * `relative_tolerance` (in (0, 1)).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`,
+ * `BT_STATUS_ANGLE_TOLERANCE_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_trusted_angle_deg(double n,
+                                          double k,
+                                          double relative_tolerance,
+                                          double *out);
+
+/**
+ * Hagen-Rubens normal emissivity of a metal, first term only: 0.365 sqrt(r_e / lambda),
+ * r_e in ohm m, lambda in um (converted to m).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_RESISTIVITY_NOT_POSITIVE`,
+ * `BT_STATUS_WAVELENGTH_NOT_POSITIVE`, `BT_STATUS_HAGEN_RUBENS_OUT_OF_RANGE` above 0.2;
+ * pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_hagen_rubens_normal(double resistivity_ohm_m, double wavelength_um, double *out);
+
+/**
+ * Wien-linearised noise gain of `count` monochromatic channels at `wavelengths_um`, at
+ * `temperature_k`, for an ln-emissivity polynomial of `terms` coefficients (0-3); also
+ * the bias per unit omitted term.
+ *
+ * Errors: `BT_STATUS_EMISSIVITY_MODEL_INVALID`, `BT_STATUS_TOO_FEW_BANDS`,
+ * `BT_STATUS_TOO_MANY_BANDS`, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_WAVELENGTH_NOT_POSITIVE`, `BT_STATUS_MULTIWAVELENGTH_ILL_CONDITIONED`;
+ * pointer errors.
+ *
+ * # Safety
+ * `wavelengths_um` null or valid for reading `count` doubles; `gain` and `bias` null or
+ * valid for writing a double; written only on success.
+ */
+bt_status bt_multiwavelength_noise_gain(const double *wavelengths_um,
+                                        size_t count,
+                                        double temperature_k,
+                                        uint32_t terms,
+                                        double *gain,
+                                        double *bias);
+
+/**
+ * Fits temperature and an ln-emissivity polynomial of `terms` coefficients (0-3) to the
+ * signals of `count` bands (`bands[i]` with band radiance `signals[i]` in its units),
+ * by least squares in ln S: a Wien-linearised start, then Gauss-Newton on the exact band
+ * integrals.
+ *
+ * Errors: `BT_STATUS_EMISSIVITY_MODEL_INVALID`, `BT_STATUS_TOO_FEW_BANDS` (count <
+ * terms + 1), `BT_STATUS_TOO_MANY_BANDS` (count > 16), the bands' errors,
+ * `BT_STATUS_NON_FINITE`, `BT_STATUS_RADIANCE_NOT_POSITIVE`,
+ * `BT_STATUS_MULTIWAVELENGTH_ILL_CONDITIONED`, `BT_STATUS_MULTIWAVELENGTH_NOT_CONVERGED`;
+ * pointer errors.
+ *
+ * # Safety
+ * `bands` null or valid for reading `count` `bt_band` (each as in `bt_band_radiance`);
+ * `signals` null or valid for reading `count` doubles; `out` null or valid for writing a
+ * `bt_multiwavelength_result`; written only on success.
+ */
+bt_status bt_multiwavelength_fit(const bt_band *bands,
+                                 const double *signals,
+                                 size_t count,
+                                 uint32_t terms,
+                                 bt_multiwavelength_result *out);
+
+/**
+ * Spot diameter at `distance_m` for a distance-to-spot ratio `distance_to_spot`:
+ * distance / D:S, m.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID` for a value that is
+ * not positive; `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER` for `out`.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_spot_diameter_m(double distance_m, double distance_to_spot, double *out);
+
+/**
+ * Instantaneous field of view of one pixel, mrad: 2 atan(p / (2 f)), pitch p in um,
+ * focal length f in mm.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_ifov_mrad(double pitch_um, double focal_length_mm, double *out);
+
+/**
+ * Footprint of one pixel at `distance_m`: 2 D tan(IFOV/2), m.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_footprint_m(double distance_m, double ifov_mrad, double *out);
+
+/**
+ * Checks a target of diameter `target_m` at `distance_m` against `rule` (a
+ * `BT_TARGET_RULE_*` value). `resolution` is the distance-to-spot ratio (99 % spot) for
+ * `BT_TARGET_RULE_ISO10878`, the IFOV in mrad for the pixel rules.
+ *
+ * Errors: `BT_STATUS_TARGET_RULE_INVALID` for another rule value, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TARGET_SIZE_NOT_POSITIVE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer
+ * errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a `bt_target_verdict`; written only on success.
+ */
+bt_status bt_target_check(uint32_t rule,
+                          double target_m,
+                          double distance_m,
+                          double resolution,
+                          bt_target_verdict *out);
+
+/**
+ * Fraction of a point image's power within `radius_um` (Airy pattern):
+ * 1 - J0(v)^2 - J1(v)^2, v = pi r / (lambda N).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID` (negative radius,
+ * wavelength or f-number not positive); pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_airy_encircled_energy(double radius_um,
+                                   double wavelength_um,
+                                   double f_number,
+                                   double *out);
+
+/**
+ * The smallest radius, um, holding `fraction` (in (0, 1)) of the Airy pattern's power.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_FRACTION_OUT_OF_RANGE`,
+ * `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_airy_radius_um(double fraction, double wavelength_um, double f_number, double *out);
+
+/**
+ * System MTF (diffraction x pixel) at `frequency_cy_mm` for pitch `pitch_um`, wavelength
+ * `wavelength_um` and f-number `f_number`.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_SPATIAL_FREQUENCY_NEGATIVE`,
+ * `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a `bt_mtf`; written only on success.
+ */
+bt_status bt_mtf_evaluate(double frequency_cy_mm,
+                          double pitch_um,
+                          double wavelength_um,
+                          double f_number,
+                          bt_mtf *out);
+
+/**
+ * Fraction of the full-field signal that the pixel centred on a small round target's
+ * image receives (diffraction-limited optic, square pixel): how much a small target
+ * reads low. `target_diameter_um` is the image diameter on the detector.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_TARGET_SIZE_NOT_POSITIVE`,
+ * `BT_STATUS_OPTICS_GEOMETRY_INVALID` (also for an image beyond 2000 lambda N in radius,
+ * or pitch and image so large against lambda N that the work bound is exceeded);
+ * pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_small_target_fraction(double target_diameter_um,
+                                   double pitch_um,
+                                   double wavelength_um,
+                                   double f_number,
+                                   double *out);
+
+/**
+ * Size-of-source correction of a reading `apparent_k` taken on a source of `measured_mm`
+ * by an instrument (band `band`) calibrated on a source of `calibration_mm`, from the
+ * SSE curve sigma(d) in caller storage (`diameters_mm` increasing, `sigma` in [0, 1),
+ * `len` >= 2 entries each; linear interpolation, no extrapolation).
+ *
+ * Errors: the band's errors, `BT_STATUS_SSE_TABLE_INVALID`,
+ * `BT_STATUS_SSE_DIAMETER_OUTSIDE_TABLE`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, the inversion's errors; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `diameters_mm` and `sigma` null or valid for reading
+ * `len` doubles; `out` null or valid for writing a `bt_sse_correction`; written only on
+ * success.
+ */
+bt_status bt_sse_correct(const bt_band *band,
+                         const double *diameters_mm,
+                         const double *sigma,
+                         size_t len,
+                         double apparent_k,
+                         double calibration_mm,
+                         double measured_mm,
+                         bt_sse_correction *out);
+
+/**
+ * First-order temperature error, K, of a relative signal error `relative_signal` at
+ * `temperature_k` through the band's exact dL/dT: (dS/S) L / (dL/dT).
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`;
+ * pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written only
+ * on success.
+ */
+bt_status bt_sse_temperature_error_k(const bt_band *band,
+                                     double temperature_k,
+                                     double relative_signal,
+                                     double *out);
+
+/**
+ * GUM budget of the emissivity from the ASTM E1933 contact method: estimate e
+ * (dimensionless) from `sensor_radiance` and the probe's `reference_k`; inputs (index):
+ * 0 the signal (`u_signal`, band radiance units), 1 the reference temperature
+ * (`u_reference_k`), 2 the scene's reflected temperature (`u_reflected_k`). The scene's
+ * emissivity is ignored; its path and window are used.
+ *
+ * Errors: those of `bt_object_temperature` for band and scene,
+ * `BT_STATUS_UNCERTAINTY_NEGATIVE`, `BT_STATUS_EMISSIVITY_NOT_DETERMINED`,
+ * `BT_STATUS_EMISSIVITY_READING_INCONSISTENT`; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` null or valid for reading a `bt_scene`; `out`
+ * null or valid for writing a `bt_site_budget`; written only on success.
+ */
+bt_status bt_contact_emissivity_budget(const bt_band *band,
+                                       const bt_scene *scene,
+                                       double sensor_radiance,
+                                       double reference_k,
+                                       double u_signal,
+                                       double u_reference_k,
+                                       double u_reflected_k,
+                                       bt_site_budget *out);
+
+/**
+ * GUM budget of the emissivity from the ASTM E1933 reference-coating method: estimate e
+ * from the surface's and the coating's radiances and the coating's emissivity; inputs
+ * (index): 0 surface signal, 1 coating signal (band radiance units), 2 coating
+ * emissivity, 3 reflected temperature (K), with standard uncertainties `u[0..4]` in that
+ * order.
+ *
+ * Errors: as `bt_contact_emissivity_budget`, and `BT_STATUS_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND` for the coating; pointer errors (`u` must hold 4
+ * doubles).
+ *
+ * # Safety
+ * As `bt_contact_emissivity_budget`; `u` null or valid for reading 4 doubles.
+ */
+bt_status bt_coating_emissivity_budget(const bt_band *band,
+                                       const bt_scene *scene,
+                                       double surface_radiance,
+                                       double coating_radiance,
+                                       double coating_emissivity,
+                                       const double *u,
+                                       bt_site_budget *out);
+
+/**
+ * GUM budget of the reflected apparent temperature (K) from the ASTM E1862 reflector
+ * method; inputs (index): 0 reflector signal (`u_signal`, band radiance units),
+ * 1 reflector emissivity (`u_emissivity`), 2 reflector temperature (`u_reflector_k`).
+ * The scene's emissivity and reflected temperature are ignored.
+ *
+ * Errors: those of `bt_object_temperature` for band and scene,
+ * `BT_STATUS_UNCERTAINTY_NEGATIVE`, `BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_REFLECTED_NOT_DETERMINED`, the inversion's errors; pointer errors.
+ *
+ * # Safety
+ * As `bt_contact_emissivity_budget`.
+ */
+bt_status bt_reflector_budget(const bt_band *band,
+                              const bt_scene *scene,
+                              double reflector_radiance,
+                              double reflector_emissivity,
+                              double reflector_k,
+                              double u_signal,
+                              double u_emissivity,
+                              double u_reflector_k,
+                              bt_site_budget *out);
+
+/**
+ * The error, K, of the reflector method when a reflector of `reflector_emissivity` at
+ * `reflector_k` is taken as ideal, for a true reflected temperature `reflected_k`.
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE`; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written only
+ * on success.
+ */
+bt_status bt_reflector_bias_k(const bt_band *band,
+                              double reflected_k,
+                              double reflector_emissivity,
+                              double reflector_k,
+                              double *out);
+
+/**
+ * GUM budget of the reflected apparent temperature (K) from the ASTM E1862 direct method
+ * (the instrument at emissivity 1 reads the surroundings): Tr = L^-1(`radiance`); inputs
+ * (index): 0 signal noise (`u_signal`, band radiance units), 1 calibration
+ * (`u_calibration_k`), 2 spread of the surroundings (`u_spread_k`).
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_UNCERTAINTY_NEGATIVE`, the
+ * inversion's errors; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a `bt_site_budget`;
+ * written only on success.
+ */
+bt_status bt_direct_reflected_budget(const bt_band *band,
+                                     double radiance,
+                                     double u_signal,
+                                     double u_calibration_k,
+                                     double u_spread_k,
+                                     bt_site_budget *out);
 
 #ifdef __cplusplus
 }  // extern "C"

@@ -104,6 +104,13 @@ mod site;
 mod spectral;
 // Calibration checks.
 mod verify;
+// Optics and materials: spot, diffraction, SSE, emissivity from optical constants,
+// effective wavelengths, multi-wavelength pyrometry, site-method budgets.
+mod effective;
+mod emissivity;
+mod multiwavelength;
+mod optics;
+mod site_budget;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -164,6 +171,32 @@ pub use verify::{
     bt_verify_residuals_sakuma_hattori, bt_verify_round_trip_band, bt_verify_round_trip_report,
     bt_verify_round_trip_sakuma_hattori, bt_verify_table_report, bt_verify_uncertainty_report,
     bt_verify_uncertainty_sakuma_hattori,
+};
+
+pub use effective::{
+    bt_limit_effective_wavelength_um, bt_mean_effective_wavelength_um,
+    bt_one_point_wavelength_sensitivity, bt_sakuma_hattori_from_moments,
+    bt_two_point_sigma_sensitivity,
+};
+pub use emissivity::{
+    bt_directional_emissivity, bt_emissivity_directional, bt_emissivity_hemispherical,
+    bt_emissivity_normal, bt_emissivity_peak, bt_emissivity_trusted_angle_deg,
+    bt_hagen_rubens_normal,
+};
+pub use multiwavelength::{
+    bt_multiwavelength_fit, bt_multiwavelength_noise_gain, bt_multiwavelength_result,
+    BT_MULTIWAVELENGTH_MAX_BANDS, BT_MULTIWAVELENGTH_MAX_TERMS,
+};
+pub use optics::{
+    bt_airy_encircled_energy, bt_airy_radius_um, bt_footprint_m, bt_ifov_mrad, bt_mtf,
+    bt_mtf_evaluate, bt_small_target_fraction, bt_spot_diameter_m, bt_sse_correct,
+    bt_sse_correction, bt_sse_temperature_error_k, bt_target_check, bt_target_verdict,
+    BT_TARGET_RULE_ISO10878, BT_TARGET_RULE_PUSNIK_GERSAK, BT_TARGET_RULE_THREE_BY_THREE,
+};
+pub use site_budget::{
+    bt_coating_emissivity_budget, bt_contact_emissivity_budget, bt_direct_reflected_budget,
+    bt_reflector_bias_k, bt_reflector_budget, bt_site_budget, bt_site_line,
+    BT_SITE_BUDGET_MAX_LINES,
 };
 
 use bandtemp::{Error, Result};

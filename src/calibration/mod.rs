@@ -84,7 +84,11 @@ pub use fit::{
     curve_residuals_k, fit_band, fit_band_with, fit_points, fit_points_with, residuals_k, BandFit,
     PointsFit, BAND_CHECK_POINTS, BAND_FIT_POINTS, MAX_FIT_ITERATIONS,
 };
-pub use moments::{moment_estimate, spectral_moments, MomentEstimate, SpectralMoments};
+pub use moments::{
+    limit_effective_wavelength_um, mean_effective_wavelength_um, moment_estimate,
+    one_point_wavelength_sensitivity, spectral_moments, two_point_sigma_sensitivity,
+    MomentEstimate, SpectralMoments,
+};
 
 use crate::band::SignalCurve;
 use crate::constants::C2_UMK;

@@ -2484,6 +2484,333 @@ static void test_verify(void) {
     }
 }
 
+/* ---- optics and materials ----------------------------------------------------------------
+ * References computed here: Fresnel's equations for a dielectric in real arithmetic, the
+ * closed-form normal emissivity 4n/((n+1)^2+k^2), the diffraction and pixel MTF written out,
+ * the Wien noise gain of one channel (lambda T / c2), and the first-order temperature error
+ * L/(dL/dT) with dL/dT by central differences of bt_band_radiance. Printed check values
+ * (Born and Wolf, Budzier and Gerlach 2021, ASTM site-method examples) to their digits. */
+
+/* A struct out value is filled with this byte before each call; an error must leave it. */
+#define OPT_FILL 0xA5
+static int bytes_untouched(const void *p, size_t n) {
+    const unsigned char *b = (const unsigned char *)p;
+    size_t i;
+    for (i = 0; i < n; i++) {
+        if (b[i] != OPT_FILL) {
+            return 0;
+        }
+    }
+    return 1;
+}
+/* Success with `finite_ok`, or a named error with the struct untouched. */
+#define EXPECT_STRUCT_SANE(obj, call, finite_ok)                                               \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        int ok_;                                                                               \
+        memset(&(obj), OPT_FILL, sizeof(obj));                                                 \
+        status_ = (call);                                                                      \
+        ok_ = status_ == BT_STATUS_OK ? ((finite_ok) ? 1 : 0)                                  \
+                                      : bytes_untouched(&(obj), sizeof(obj)) &&               \
+                                            known_status(status_);                            \
+        if (!ok_) {                                                                            \
+            printf("  status %d (%s)\n", (int)status_, bt_status_message(status_));           \
+        }                                                                                      \
+        check(ok_, #call, __LINE__);                                                           \
+    } while (0)
+#define EXPECT_STRUCT_STATUS(obj, want, call)                                                  \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        memset(&(obj), OPT_FILL, sizeof(obj));                                                 \
+        status_ = (call);                                                                      \
+        check(status_ == (want) && bytes_untouched(&(obj), sizeof(obj)), #call, __LINE__);     \
+    } while (0)
+
+static double fresnel_dielectric(double n, double angle_deg) {
+    double c = cos(angle_deg * M_PI_REF / 180.0), s2 = 1.0 - c * c;
+    double w = sqrt(n * n - s2);
+    double rs = (c - w) / (c + w), rp = (n * n * c - w) / (n * n * c + w);
+    return 1.0 - 0.5 * (rs * rs + rp * rp);
+}
+
+static int site_finite(const bt_site_budget *b) {
+    size_t i;
+    if (!isfinite(b->estimate) || !isfinite(b->combined_standard_uncertainty) || b->len > 4) {
+        return 0;
+    }
+    for (i = 0; i < BT_SITE_BUDGET_MAX_LINES; i++) {
+        if (!isfinite(b->ranked[i].sensitivity) || !isfinite(b->ranked[i].contribution)) {
+            return 0;
+        }
+    }
+    return 1;
+}
+
+static void test_optics(void) {
+    double out, a = SENTINEL, b = SENTINEL, l, lp, lm, h = 1e-3;
+    double c2 = H_J_S * C_M_S / K_J_K * 1e6;
+    size_t i, j;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band red = rectangular(0.6495, 0.6505, BT_DETECTOR_ENERGY);
+    bt_band red10 = rectangular(0.645, 0.655, BT_DETECTOR_ENERGY);
+    bt_band broken = rectangular(14.0, 8.0, BT_DETECTOR_ENERGY);
+    bt_band mw[4];
+    bt_scene scene = {0.85, 293.15, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    bt_target_verdict verdict;
+    bt_mtf m;
+    bt_sse_correction sse;
+    bt_directional_emissivity d;
+    bt_multiwavelength_result fit;
+    bt_site_budget budget;
+    double sse_d[3] = {10.0, 20.0, 60.0}, sse_s[3] = {0.002, 0.001, 0.0};
+    double bad_s[3] = {0.002, 1.0, 0.0};
+    double u4[4] = {0.01, 0.01, 0.02, 2.0};
+    double wl[4] = {0.7, 0.8, 0.9, 1.0}, sig[4];
+    double lc, lr, s;
+
+    /* Geometry and target rules. */
+    EXPECT_NEAR(bt_spot_diameter_m(1.5, 75.0, &out), 0.02, 1e-15);
+    EXPECT_NEAR(bt_ifov_mrad(17.0, 25.0, &out), 0.68, 1e-7);
+    EXPECT_NEAR(bt_footprint_m(10.0, 0.68, &out), 0.0068, 1e-7);
+    EXPECT(BT_STATUS_OPTICS_GEOMETRY_INVALID, bt_spot_diameter_m(1.5, 0.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spot_diameter_m(1.5, 75.0, NULL));
+    EXPECT_STRUCT_SANE(verdict, bt_target_check(BT_TARGET_RULE_ISO10878, 0.025, 1.5, 75.0, &verdict),
+                       verdict.valid == 1 && fabs(verdict.ratio - 1.25) < 1e-12);
+    EXPECT_STRUCT_SANE(verdict,
+                       bt_target_check(BT_TARGET_RULE_PUSNIK_GERSAK, 0.05, 10.0, 0.68, &verdict),
+                       verdict.valid == 0 && fabs(verdict.minimum_m - 0.068) < 1e-7);
+    EXPECT_STRUCT_SANE(verdict,
+                       bt_target_check(BT_TARGET_RULE_THREE_BY_THREE, 0.05, 10.0, 0.68, &verdict),
+                       verdict.valid == 1);
+    EXPECT_STRUCT_STATUS(verdict, BT_STATUS_TARGET_RULE_INVALID,
+                         bt_target_check(3, 0.05, 10.0, 0.68, &verdict));
+    EXPECT_STRUCT_STATUS(verdict, BT_STATUS_TARGET_RULE_INVALID,
+                         bt_target_check(0xFFFFFFFFu, 0.05, 10.0, 0.68, &verdict));
+    EXPECT_STRUCT_STATUS(verdict, BT_STATUS_TARGET_SIZE_NOT_POSITIVE,
+                         bt_target_check(0, -0.05, 10.0, 75.0, &verdict));
+    CHECK(bt_target_check(0, 0.05, 10.0, 75.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_target_check(0, 0.05, 10.0, 75.0, (bt_target_verdict *)misaligned(&verdict)) ==
+          BT_STATUS_INVALID_BUFFER);
+
+    /* Airy pattern (Born and Wolf) and MTF (Budzier and Gerlach 2021). */
+    EXPECT_NEAR(bt_airy_encircled_energy(1.220, 1.0, 1.0, &out), 0.838, 6e-4);
+    EXPECT_NEAR(bt_airy_radius_um(0.9, 1.0, 1.0, &out), 1.901, 3e-4);
+    EXPECT_NEAR(bt_airy_radius_um(0.95, 10.0, 1.0, &out), 39.16, 3e-4);
+    EXPECT(BT_STATUS_FRACTION_OUT_OF_RANGE, bt_airy_radius_um(1.0, 1.0, 1.0, &out));
+    EXPECT_STRUCT_SANE(m, bt_mtf_evaluate(1000.0 / 34.0, 17.0, 10.0, 1.0, &m),
+                       fabs(m.pixel - 2.0 / M_PI_REF) < 1e-15 &&
+                           fabs(m.diffraction - 2.0 / M_PI_REF *
+                                                    (acos(0.1 / 0.34) -
+                                                     (0.1 / 0.34) *
+                                                         sqrt(1.0 - (0.1 / 0.34) * (0.1 / 0.34)))) <
+                               1e-14 &&
+                           fabs(m.system - 0.4017) < 5e-5);
+    EXPECT_STRUCT_STATUS(m, BT_STATUS_SPATIAL_FREQUENCY_NEGATIVE,
+                         bt_mtf_evaluate(-1.0, 17.0, 10.0, 1.0, &m));
+    EXPECT_SANE(bt_small_target_fraction(51.0, 17.0, 10.0, 1.0, &out));
+    CHECK(out > 0.9 && out < 0.93);
+    EXPECT(BT_STATUS_TARGET_SIZE_NOT_POSITIVE, bt_small_target_fraction(0.0, 17.0, 10.0, 1.0, &out));
+    EXPECT(BT_STATUS_OPTICS_GEOMETRY_INVALID, bt_small_target_fraction(1e9, 17.0, 10.0, 1.0, &out));
+
+    /* Size-of-source: first-order error against L / (dL/dT) by central differences. */
+    CHECK(bt_band_radiance(&lwir, 300.0, &l) == BT_STATUS_OK);
+    CHECK(bt_band_radiance(&lwir, 300.0 + h, &lp) == BT_STATUS_OK);
+    CHECK(bt_band_radiance(&lwir, 300.0 - h, &lm) == BT_STATUS_OK);
+    EXPECT_NEAR(bt_sse_temperature_error_k(&lwir, 300.0, 0.01, &out), 0.01 * l * 2.0 * h / (lp - lm),
+                1e-8);
+    EXPECT_NEAR(bt_sse_temperature_error_k(&red, 1273.15, 1e-3, &out), 0.0732, 7e-4);
+    EXPECT_NEAR(bt_sse_temperature_error_k(&lwir, 300.0, 0.01, &out), 0.656, 8e-4);
+    EXPECT_STRUCT_SANE(sse, bt_sse_correct(&red, sse_d, sse_s, 3, 1273.15, 60.0, 15.0, &sse),
+                       fabs(sse.relative_signal_first_order + 0.0015) < 1e-15 &&
+                           sse.correction_k > 0.1 && sse.correction_k < 0.12);
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_SSE_DIAMETER_OUTSIDE_TABLE,
+                         bt_sse_correct(&red, sse_d, sse_s, 3, 1273.15, 60.0, 5.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_SSE_TABLE_INVALID,
+                         bt_sse_correct(&red, sse_d, bad_s, 3, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_SSE_TABLE_INVALID,
+                         bt_sse_correct(&red, sse_d, sse_s, 1, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_NULL_POINTER,
+                         bt_sse_correct(&red, NULL, sse_s, 3, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_INVALID_BUFFER,
+                         bt_sse_correct(&red, sse_d, sse_s, SIZE_MAX, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_INVALID_BAND,
+                         bt_sse_correct(&broken, sse_d, sse_s, 3, 1273.15, 60.0, 15.0, &sse));
+
+    /* Emissivity from optical constants. */
+    EXPECT_NEAR(bt_emissivity_normal(2.7, 3.1, &out), 4.0 * 2.7 / (3.7 * 3.7 + 3.1 * 3.1), 1e-15);
+    EXPECT_STRUCT_SANE(d, bt_emissivity_directional(1.5, 0.0, 60.0, &d),
+                       fabs(d.unpolarised - fresnel_dielectric(1.5, 60.0)) < 1e-14 &&
+                           fabs(d.unpolarised - 0.9108) < 5e-5);
+    EXPECT_NEAR(bt_emissivity_hemispherical(1.5, 0.0, &out), 0.90822, 1e-5);
+    CHECK(bt_emissivity_peak(54.75, 54.75, &a, &b) == BT_STATUS_OK && fabs(a - 89.26) < 5e-3 &&
+          fabs(b - 0.414) < 5e-4);
+    EXPECT_NEAR(bt_emissivity_trusted_angle_deg(1.5, 0.0, 0.01, &out), 44.4265186383196, 1e-9);
+    EXPECT(BT_STATUS_REFRACTIVE_INDEX_INVALID, bt_emissivity_normal(0.0, 1.0, &out));
+    EXPECT(BT_STATUS_REFRACTIVE_INDEX_INVALID, bt_emissivity_normal(1.0, -1.0, &out));
+    EXPECT_STRUCT_STATUS(d, BT_STATUS_ANGLE_OUT_OF_RANGE, bt_emissivity_directional(1.5, 0.0, 90.0, &d));
+    EXPECT(BT_STATUS_ANGLE_TOLERANCE_INVALID, bt_emissivity_trusted_angle_deg(1.5, 0.0, 0.0, &out));
+    EXPECT_NEAR(bt_hagen_rubens_normal(1e-7, 10.0, &out), 0.365 * 0.1, 1e-3);
+    EXPECT(BT_STATUS_RESISTIVITY_NOT_POSITIVE, bt_hagen_rubens_normal(0.0, 10.0, &out));
+    EXPECT(BT_STATUS_HAGEN_RUBENS_OUT_OF_RANGE, bt_hagen_rubens_normal(1e-6, 0.01, &out));
+    a = SENTINEL;
+    b = SENTINEL;
+    CHECK(bt_emissivity_peak(NAN, 1.0, &a, &b) == BT_STATUS_NON_FINITE && untouched(a) &&
+          untouched(b));
+    CHECK(bt_emissivity_peak(1.5, 0.0, NULL, &b) == BT_STATUS_NULL_POINTER && untouched(b));
+
+    /* Effective wavelengths and calibration sensitivities. */
+    EXPECT_NEAR(bt_one_point_wavelength_sensitivity(0.65, 1234.93, 2000.0, &out),
+                (1.0 - 2000.0 / 1234.93) * 2000.0 / 0.65, 1e-14);
+    CHECK(fabs(fabs(out) * 1e-3 - 1.906) < 5e-4);
+    EXPECT_SANE(bt_two_point_sigma_sensitivity(0.65, 1e-4, 1234.93, 1357.77, 2000.0, &out));
+    EXPECT(BT_STATUS_MOMENTS_INVALID,
+           bt_two_point_sigma_sensitivity(0.65, -1e-4, 1234.93, 1357.77, 2000.0, &out));
+    EXPECT(BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE,
+           bt_mean_effective_wavelength_um(&lwir, 300.0, 300.0, &out));
+    /* mpmath: tools/refgen/calibration_sensitivity_refs.py, 0.645-0.655 um at 1000 K. */
+    EXPECT_NEAR(bt_limit_effective_wavelength_um(&red10, 1000.0, &out), 0.650206593924974387, 1e-11);
+    a = SENTINEL;
+    b = SENTINEL;
+    CHECK(bt_sakuma_hattori_from_moments(&red, &a, &b) == BT_STATUS_OK &&
+          fabs(a - 0.65 * (1.0 - 6.0 * (0.001 * 0.001 / 12.0) / (0.65 * 0.65))) < 1e-15);
+
+    /* Multi-wavelength pyrometry: one channel's Wien gain is lambda T / c2. */
+    a = SENTINEL;
+    b = SENTINEL;
+    CHECK(bt_multiwavelength_noise_gain(wl + 2, 1, 1500.0, 0, &a, &b) == BT_STATUS_OK &&
+          fabs(a - 0.9 * 1500.0 / c2) < 1e-15);
+    CHECK(bt_multiwavelength_noise_gain(wl, 4, 1500.0, 2, &a, &b) == BT_STATUS_OK &&
+          fabs(a - 3.08) < 5e-3);
+    a = SENTINEL;
+    CHECK(bt_multiwavelength_noise_gain(wl, 4, 1500.0, 4, &a, &b) ==
+              BT_STATUS_EMISSIVITY_MODEL_INVALID && untouched(a));
+    CHECK(bt_multiwavelength_noise_gain(wl, 2, 1500.0, 2, &a, &b) == BT_STATUS_TOO_FEW_BANDS);
+    CHECK(bt_multiwavelength_noise_gain(NULL, 2, 1500.0, 1, &a, &b) == BT_STATUS_NULL_POINTER);
+    for (i = 0; i < 4; i++) {
+        mw[i] = rectangular(wl[i] - 0.005, wl[i] + 0.005, BT_DETECTOR_ENERGY);
+    }
+    /* Grey e = 0.5 at 1400 K: the grey model recovers it. */
+    for (i = 0; i < 4; i++) {
+        CHECK(bt_band_radiance(&mw[i], 1400.0, &sig[i]) == BT_STATUS_OK);
+        sig[i] *= 0.5;
+    }
+    EXPECT_STRUCT_SANE(fit, bt_multiwavelength_fit(mw, sig, 4, 1, &fit),
+                       fabs(fit.temperature_k - 1400.0) < 1e-8 &&
+                           fabs(exp(fit.coefficients[0]) - 0.5) < 1e-10 && fit.terms == 1);
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_TOO_MANY_BANDS, bt_multiwavelength_fit(mw, sig, 17, 1, &fit));
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_TOO_FEW_BANDS, bt_multiwavelength_fit(mw, sig, 1, 1, &fit));
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_NULL_POINTER, bt_multiwavelength_fit(NULL, sig, 4, 1, &fit));
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_INVALID_BUFFER,
+                         bt_multiwavelength_fit((const bt_band *)misaligned(mw), sig, 4, 1, &fit));
+    mw[2] = broken;
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_INVALID_BAND, bt_multiwavelength_fit(mw, sig, 4, 1, &fit));
+    mw[2] = rectangular(0.895, 0.905, BT_DETECTOR_ENERGY);
+
+    /* Site-method budgets: the contact method's printed example (8-14 um). */
+    CHECK(bt_band_radiance(&lwir, 353.15, &lc) == BT_STATUS_OK);
+    CHECK(bt_band_radiance(&lwir, 293.15, &lr) == BT_STATUS_OK);
+    s = 0.85 * lc + 0.15 * lr;
+    EXPECT_STRUCT_SANE(budget,
+                       bt_contact_emissivity_budget(&lwir, &scene, s, 353.15, 0.005 * s, 0.5, 2.0,
+                                                    &budget),
+                       fabs(budget.estimate - 0.85) < 1e-12 &&
+                           fabs(budget.combined_standard_uncertainty - 0.0126) < 5e-5 &&
+                           budget.len == 3);
+    EXPECT_NEAR(bt_reflector_bias_k(&lwir, 283.15, 0.05, 293.15, &out), 0.525, 1e-3);
+    EXPECT(BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE,
+           bt_reflector_bias_k(&lwir, 283.15, 1.0, 293.15, &out));
+    EXPECT_STRUCT_STATUS(budget, BT_STATUS_UNCERTAINTY_NEGATIVE,
+                         bt_contact_emissivity_budget(&lwir, &scene, s, 353.15, -1.0, 0.5, 2.0,
+                                                      &budget));
+    EXPECT_STRUCT_STATUS(budget, BT_STATUS_EMISSIVITY_NOT_DETERMINED,
+                         bt_contact_emissivity_budget(&lwir, &scene, s, 293.15, 0.0, 0.5, 2.0,
+                                                      &budget));
+    EXPECT_STRUCT_STATUS(budget, BT_STATUS_NULL_POINTER,
+                         bt_coating_emissivity_budget(&lwir, &scene, s, s, 0.95, NULL, &budget));
+    EXPECT_STRUCT_SANE(budget, bt_coating_emissivity_budget(&lwir, &scene, s, s, 0.85, u4, &budget),
+                       site_finite(&budget) && fabs(budget.estimate - 0.85) < 1e-9);
+    EXPECT_STRUCT_SANE(budget,
+                       bt_reflector_budget(&lwir, &scene, lr, 0.05, 293.15, 0.01, 0.02, 1.0, &budget),
+                       site_finite(&budget) && fabs(budget.estimate - 293.15) < 1e-9);
+    EXPECT_STRUCT_SANE(budget, bt_direct_reflected_budget(&lwir, lr, 0.0, 0.5, 1.5, &budget),
+                       site_finite(&budget) &&
+                           fabs(budget.combined_standard_uncertainty - sqrt(2.5)) < 1e-12);
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        EXPECT_SANE(bt_spot_diameter_m(x, 75.0, &out));
+        EXPECT_SANE(bt_spot_diameter_m(1.5, x, &out));
+        EXPECT_SANE(bt_ifov_mrad(x, 25.0, &out));
+        EXPECT_SANE(bt_footprint_m(10.0, x, &out));
+        EXPECT_SANE(bt_airy_encircled_energy(x, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_airy_encircled_energy(1.0, x, x, &out));
+        EXPECT_SANE(bt_airy_radius_um(x, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_small_target_fraction(x, 17.0, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_small_target_fraction(50.0, x, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_small_target_fraction(50.0, 17.0, x, 1.0, &out));
+        EXPECT_SANE(bt_sse_temperature_error_k(&lwir, x, 0.01, &out));
+        EXPECT_SANE(bt_sse_temperature_error_k(&lwir, 300.0, x, &out));
+        EXPECT_SANE(bt_emissivity_normal(x, 1.0, &out));
+        EXPECT_SANE(bt_emissivity_hemispherical(1.5, x, &out));
+        EXPECT_SANE(bt_emissivity_trusted_angle_deg(2.0, 0.0, x, &out));
+        EXPECT_SANE(bt_hagen_rubens_normal(x, 10.0, &out));
+        EXPECT_SANE(bt_hagen_rubens_normal(1e-7, x, &out));
+        EXPECT_SANE(bt_one_point_wavelength_sensitivity(x, 1234.93, 2000.0, &out));
+        EXPECT_SANE(bt_two_point_sigma_sensitivity(0.65, x, 1234.93, 1357.77, 2000.0, &out));
+        EXPECT_SANE(bt_limit_effective_wavelength_um(&lwir, x, &out));
+        EXPECT_SANE(bt_mean_effective_wavelength_um(&lwir, 300.0, x, &out));
+        EXPECT_SANE(bt_reflector_bias_k(&lwir, x, 0.05, 293.15, &out));
+        EXPECT_SANE(bt_reflector_bias_k(&lwir, 283.15, x, 293.15, &out));
+        for (j = 0; j < 3; j++) {
+            EXPECT_STRUCT_SANE(verdict, bt_target_check((uint32_t)j, x, 10.0, 0.68, &verdict),
+                               isfinite(verdict.ratio) && isfinite(verdict.minimum_m));
+            EXPECT_STRUCT_SANE(verdict, bt_target_check((uint32_t)j, 0.05, x, 0.68, &verdict),
+                               isfinite(verdict.ratio));
+        }
+        EXPECT_STRUCT_SANE(m, bt_mtf_evaluate(x, 17.0, 10.0, 1.0, &m), isfinite(m.system));
+        EXPECT_STRUCT_SANE(m, bt_mtf_evaluate(10.0, x, x, 1.0, &m), isfinite(m.system));
+        EXPECT_STRUCT_SANE(d, bt_emissivity_directional(1.5, 0.0, x, &d), isfinite(d.unpolarised));
+        EXPECT_STRUCT_SANE(d, bt_emissivity_directional(x, x, 30.0, &d), isfinite(d.unpolarised));
+        EXPECT_STRUCT_SANE(sse, bt_sse_correct(&red, sse_d, sse_s, 3, x, 60.0, 15.0, &sse),
+                           isfinite(sse.corrected_k));
+        EXPECT_STRUCT_SANE(sse, bt_sse_correct(&red, sse_d, sse_s, 3, 1273.15, x, 15.0, &sse),
+                           isfinite(sse.corrected_k));
+        for (j = 0; j < 4; j++) {
+            double saved = sig[j];
+            sig[j] = x;
+            EXPECT_STRUCT_SANE(fit, bt_multiwavelength_fit(mw, sig, 4, 2, &fit),
+                               isfinite(fit.temperature_k));
+            sig[j] = saved;
+        }
+        EXPECT_STRUCT_SANE(budget,
+                           bt_contact_emissivity_budget(&lwir, &scene, x, 353.15, 0.01, 0.5, 2.0,
+                                                        &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget,
+                           bt_contact_emissivity_budget(&lwir, &scene, s, x, 0.01, 0.5, 2.0, &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget,
+                           bt_reflector_budget(&lwir, &scene, x, 0.05, 293.15, 0.01, 0.02, 1.0,
+                                               &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget,
+                           bt_reflector_budget(&lwir, &scene, lr, 0.05, x, 0.01, 0.02, x, &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget, bt_direct_reflected_budget(&lwir, x, 0.0, 0.5, 1.5, &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget, bt_coating_emissivity_budget(&lwir, &scene, s, x, 0.9, u4, &budget),
+                           site_finite(&budget));
+        a = SENTINEL;
+        b = SENTINEL;
+        {
+            bt_status st = bt_emissivity_peak(x, 1.0, &a, &b);
+            CHECK(st == BT_STATUS_OK ? isfinite(a) && isfinite(b)
+                                     : untouched(a) && untouched(b) && known_status(st));
+        }
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -2505,6 +2832,7 @@ int main(void) {
     test_curves();
     test_monte_carlo();
     test_verify();
+    test_optics();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
