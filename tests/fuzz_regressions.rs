@@ -1,0 +1,66 @@
+//! Regression tests for findings of the coverage-guided fuzz targets (`fuzz/`), each
+//! minimised from the input libFuzzer reported. Reference values are from mpmath (named at
+//! each check); the other checks are the invariants the fuzz oracles enforce.
+
+use bandtemp::band::Band;
+use bandtemp::planck::Detector;
+use bandtemp::Error;
+
+/// A photon band reaching down to 0.1 um, at temperatures where c2/(hi T) is 690-745: the
+/// band integral of x^2/(e^x - 1) sits near the subnormal range while the scale
+/// c1p T^3/c2^3 (~1e21) lifts the radiance back to ~1e-297. The radiance used to come out
+/// Ok with a relative error of 5e-4 at 195 K and a factor 2 at 193.09 K; now it is either
+/// accurate or `RadianceUnderflow`.
+#[test]
+fn deep_wien_tail_band_radiance_is_accurate_or_underflows() {
+    let band = Band::rectangular(2.220446049250313e-16, 0.1, Detector::Photon).unwrap();
+    // mpmath 1.3 at 50 digits: 2c 1e18 (T/c2)^3 (G2(c2/(0.1 T)) - G2(c2/(2.22e-16 T))),
+    // G2(x) = sum_n e^(-n x) (x^2/n + 2x/n^2 + 2/n^3), CODATA 2018 exact h, c, k.
+    let cases = [
+        (193.09, 1.9940210482000275e-297),
+        (193.5, 9.690_193_004_652_684e-297),
+        (195.0, 2.976_498_674_649_38e-294),
+        (200.0, 3.1308722488603526e-286),
+        (210.0, 2.479_499_528_196_233e-271),
+        (230.0, 2.0315040051120665e-245),
+        (300.0, 6.523841489842793e-182),
+    ];
+    let mut accurate = 0;
+    for (t, want) in cases {
+        match band.radiance(t) {
+            Ok(got) => {
+                assert!(
+                    ((got - want) / want).abs() < 1e-12,
+                    "T {t}: {got:e} vs mpmath {want:e}"
+                );
+                accurate += 1;
+            }
+            Err(error) => assert_eq!(error, Error::RadianceUnderflow, "T {t}"),
+        }
+    }
+    // Away from the edge of the resolved range the values are delivered.
+    assert!(accurate >= 3, "only {accurate} of the cases delivered");
+    assert!(band.radiance(300.0).is_ok());
+}
+
+/// The inversion of a radiance between an underflow and the smallest radiance the band
+/// resolves: the safeguarded solver bisected onto the jump and returned Ok(193.09 K), whose
+/// radiance is 5.8e6 times the target. Now: an error, or a temperature whose radiance is the
+/// target (the fuzz oracle: L(T(L)) = L within the inversion's conditioning).
+#[test]
+fn radiance_in_the_unresolved_gap_does_not_invert_to_a_wrong_temperature() {
+    let band = Band::rectangular(2.220446049250313e-16, 0.1, Detector::Photon).unwrap();
+    for target in [6.929048146014352e-304, 1e-300, 3e-290, 1e-280] {
+        match band.temperature(target) {
+            Ok(t) => {
+                let back = band.radiance(t).unwrap();
+                let slope = band.radiance_derivative(t).unwrap();
+                assert!(
+                    ((back - target) / slope).abs() <= 1e-9 * t,
+                    "L {target:e} -> T {t} -> L {back:e}"
+                );
+            }
+            Err(error) => assert_eq!(error, Error::RadianceOutOfRange, "L {target:e}"),
+        }
+    }
+}
