@@ -64,3 +64,41 @@ fn radiance_in_the_unresolved_gap_does_not_invert_to_a_wrong_temperature() {
         }
     }
 }
+
+/// The blackbody fraction deep in the Wien tail (lambda T near 20 um K, x = c2/(lambda T)
+/// above 708, where e^-x is subnormal): it came out with few significant bits, as a
+/// subnormal 6 orders of magnitude off (3.1e-322 for 2.2e-316), and decreasing with
+/// lambda T. Now: full precision while F is a normal double, exactly 0 below.
+#[test]
+fn blackbody_fraction_deep_in_the_wien_tail() {
+    use bandtemp::planck::blackbody_fraction;
+    // mpmath 1.3 at 50 digits: 15/pi^4 sum_n e^(-n x) (x^3/n + 3x^2/n^2 + 6x/n^3 + 6/n^4),
+    // x = c2/(lambda T), c2 from CODATA 2018 exact h, c, k.
+    let normal = [
+        (19.9, 5.892_570_976_099_492e-307),
+        (20.0, 2.156_578_093_338_752_6e-305),
+        (20.3, 8.541_489_593_659_902e-301),
+        (21.0, 1.405_196_273_982_382e-290),
+        (25.0, 3.378_893_385_517_105_6e-243),
+    ];
+    for (lt, want) in normal {
+        let got = blackbody_fraction(lt).unwrap();
+        // The problem's own conditioning: d ln F / d ln(lambda T) is about x (720 here),
+        // so the half-ulp rounding of x = c2/(lambda T) alone allows x eps = 1.6e-13.
+        assert!(
+            ((got - want) / want).abs() < 1e-12,
+            "F({lt}) = {got:e}, mpmath {want:e}"
+        );
+    }
+    // mpmath: 2.2e-316 and 4.7e-316, not normal doubles: exactly 0, as documented.
+    assert_eq!(blackbody_fraction(19.317_823_465_028_834).unwrap(), 0.0);
+    assert_eq!(blackbody_fraction(19.337_141_288_493_86).unwrap(), 0.0);
+    // Non-decreasing in lambda T across the whole transition.
+    let mut previous = 0.0;
+    for i in 0..=4000 {
+        let lt = 19.0 + f64::from(i) * 1e-3;
+        let f = blackbody_fraction(lt).unwrap();
+        assert!(f >= previous, "F({lt}) = {f:e} < {previous:e}");
+        previous = f;
+    }
+}
