@@ -102,3 +102,30 @@ fn blackbody_fraction_deep_in_the_wien_tail() {
         previous = f;
     }
 }
+
+/// A scene whose weights are all the smallest subnormal (valid: each in its open
+/// interval): the sensor signal G L(T) + B underflowed to 0 and came out Ok(0), which no
+/// inversion can take back. Now it is `RadianceUnderflow`, as for the curve itself.
+#[test]
+fn sensor_signal_that_underflows_is_an_error() {
+    use bandtemp::scene::Scene;
+    let tiny = 5e-324;
+    let scene = Scene::new(tiny, tiny)
+        .and_then(|s| s.with_atmosphere(tiny, tiny))
+        .and_then(|s| s.with_window(tiny, tiny, tiny, tiny))
+        .unwrap();
+    let band = Band::rectangular(
+        2.225_073_858_507_201_4e-308,
+        11.913_456_070_741_98,
+        Detector::Energy,
+    )
+    .unwrap();
+    assert_eq!(
+        scene.sensor_signal(&band, 1468.307_281_356_438_1),
+        Err(Error::RadianceUnderflow)
+    );
+    // A physical scene still delivers a normal signal that inverts (sanity of the check).
+    let usual = Scene::new(0.9, 295.0).unwrap();
+    let s = usual.sensor_signal(&band, 1468.307_281_356_438_1).unwrap();
+    assert!((usual.object_temperature(&band, s).unwrap() - 1468.307_281_356_438_1).abs() < 1e-6);
+}
