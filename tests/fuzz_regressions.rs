@@ -121,11 +121,38 @@ fn sensor_signal_that_underflows_is_an_error() {
     )
     .unwrap();
     assert_eq!(
-        scene.sensor_signal(&band, 1468.307_281_356_438_1),
+        scene.sensor_signal(&band, 1_468.307_281_356_438_1),
         Err(Error::RadianceUnderflow)
     );
     // A physical scene still delivers a normal signal that inverts (sanity of the check).
     let usual = Scene::new(0.9, 295.0).unwrap();
-    let s = usual.sensor_signal(&band, 1468.307_281_356_438_1).unwrap();
-    assert!((usual.object_temperature(&band, s).unwrap() - 1468.307_281_356_438_1).abs() < 1e-6);
+    let s = usual.sensor_signal(&band, 1_468.307_281_356_438_1).unwrap();
+    assert!((usual.object_temperature(&band, s).unwrap() - 1_468.307_281_356_438_1).abs() < 1e-6);
+}
+
+/// A Sakuma-Hattori curve where C/S overflows (S tiny against C): the inverse
+/// (c2 / ln(1 + C/S) - B) / A took ln(inf) and returned T = -B/A, the edge of the curve's
+/// domain, where the curve has no signal; and the forward C / (e^y - 1) gave 0
+/// (underflow) for y > 709.8 even where C e^-y is a normal double.
+#[test]
+fn sakuma_hattori_where_c_over_s_overflows() {
+    use bandtemp::band::SignalCurve;
+    use bandtemp::calibration::SakumaHattori;
+    let curve = SakumaHattori::new(2.774_509_803_921_568_5, -300.0, 1e10).unwrap();
+    // mpmath 1.3 at 50 digits, c2 from CODATA 2018 exact h, c, k:
+    // T(1e-300) = (c2 / ln(1 + 1e10/1e-300) + 300) / A.
+    let t = curve.temperature(1e-300).unwrap();
+    assert!((t - 115.392_111_202_117_28).abs() < 1e-12 * t, "T = {t}");
+    // S(115.33 K) = C / (e^y - 1), y = 719.96.
+    let s = curve.signal(115.33).unwrap();
+    let want = 2.122_287_001_635_182e-303;
+    // Conditioning: A T + B = 320 - 300 cancels 4 bits, and d ln S / d ln y = y = 720, so
+    // the inputs' rounding alone allows about 16 eps y = 1.3e-12.
+    assert!(
+        ((s - want) / want).abs() < 1e-11,
+        "S = {s:e}, mpmath {want:e}"
+    );
+    // And the round trip through both.
+    let back = curve.temperature(s).unwrap();
+    assert!((back - 115.33).abs() < 1e-12 * 115.33, "T = {back}");
 }
