@@ -56,8 +56,11 @@ const X_INTEGRAND_ZERO: f64 = 710.0;
 const MIN_RESOLVED_INTEGRAL: f64 = 1e-295;
 
 /// As [`MIN_RESOLVED_INTEGRAL`] for a tabulated response, per unit of the response's
-/// largest value: the quadrature stops at [`X_INTEGRAND_ZERO`] = 710, dropping at most
-/// 710^3 e^-710 (1.6e-300) per unit response, which is below 2e-17 of this limit.
+/// largest value (taken as at least 1e-7): the quadrature stops at [`X_INTEGRAND_ZERO`] =
+/// 710, dropping at most 710^3 e^-710 (1.6e-300) per unit response, below 2e-17 of this
+/// limit; and with the floor, an integral of at least 1e-290 keeps the products
+/// response x integrand that carry it out of the subnormal range (a response of 2e-314
+/// came out 1e-6 off in T).
 const MIN_RESOLVED_TABULATED_INTEGRAL: f64 = 1e-283;
 
 /// The band-integral scale c1 T^(m+1)/c2^(m+1); T^4 beyond the double range (T above
@@ -328,7 +331,8 @@ impl<'a> Band<'a> {
     /// or [`Error::RadianceOverflow`] where the result is not a normal double, and
     /// [`Error::RadianceUnderflow`] where the band lies so deep in the Wien tail that the
     /// integral has lost its precision (x = c2/(lambda T) above about 699 over the whole
-    /// band, 680 for a tabulated response; see `MIN_RESOLVED_INTEGRAL` in the source).
+    /// band, 680 for a tabulated response), or a tabulated response so small that its
+    /// integral is below 1e-290 (see `MIN_RESOLVED_INTEGRAL` in the source).
     pub fn radiance(&self, temperature_k: f64) -> Result<f64> {
         self.radiance_and_derivative(temperature_k)
             .map(|(radiance, _)| radiance)
@@ -383,13 +387,14 @@ impl<'a> Band<'a> {
                     |lambda_um| response.value_at(lambda_um),
                     Some(bound),
                 );
-                (i, d, d2, MIN_RESOLVED_TABULATED_INTEGRAL * bound)
+                (i, d, d2, MIN_RESOLVED_TABULATED_INTEGRAL * bound.max(1e-7))
             }
         };
         let scale = scale_or_overflow(self.detector, t)?;
-        // Deep in the Wien tail (the whole band at x > 1) the integral has lost its
-        // precision before the scale is applied: see [`MIN_RESOLVED_INTEGRAL`].
-        if integral < resolved && self.hi_um * t < C2_UMK {
+        // Deep in the Wien tail (the whole band at x > 1), or from a tiny response, the
+        // integral has lost its precision before the scale is applied: see
+        // [`MIN_RESOLVED_INTEGRAL`].
+        if integral < resolved && (self.response.is_some() || self.hi_um * t < C2_UMK) {
             return Err(Error::RadianceUnderflow);
         }
         let radiance = check_radiance(scale * integral)?;

@@ -156,3 +156,34 @@ fn sakuma_hattori_where_c_over_s_overflows() {
     let back = curve.temperature(s).unwrap();
     assert!((back - 115.33).abs() < 1e-12 * 115.33, "T = {back}");
 }
+
+/// A tabulated response of subnormal size (2.1e-314 at one point, zero elsewhere): the
+/// products response x integrand were subnormal, and band radiance -> inversion came back
+/// 1.2e-6 T off (78364 K -> 78364.1 K). Now such a response is `RadianceUnderflow`, and
+/// the same shape at a normal scale still inverts to 1e-9 T.
+#[test]
+fn subnormal_response_is_an_underflow_not_an_imprecise_radiance() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        7.008_548_854_633_943,
+        28.685_545_333_375_12,
+        29.995_412_907_105_973,
+    ];
+    let tiny = [2.105_321_952_4e-314, 0.0, 0.0];
+    let table = SpectralTable::new(&wl, &tiny).unwrap();
+    let band = Band::with_response(6.296_144_128_589_89, 1e6, Detector::Photon, table).unwrap();
+    let t = 78_364.189_662_175_2;
+    match band.radiance(t) {
+        Err(error) => assert_eq!(error, Error::RadianceUnderflow),
+        Ok(l) => {
+            let back = band.temperature(l).unwrap();
+            assert!((back - t).abs() <= 1e-9 * t, "{t} -> {l:e} -> {back}");
+        }
+    }
+    let unit = [1.0, 0.0, 0.0];
+    let table = SpectralTable::new(&wl, &unit).unwrap();
+    let band = Band::with_response(6.296_144_128_589_89, 1e6, Detector::Photon, table).unwrap();
+    let l = band.radiance(t).unwrap();
+    let back = band.temperature(l).unwrap();
+    assert!((back - t).abs() <= 1e-9 * t, "{t} -> {l:e} -> {back}");
+}
