@@ -1408,9 +1408,10 @@ bt_status bt_path_band_transmittance(const bt_band *band,
                                      double *out);
 
 /**
- * Spectral transmittance tau(lambda) = exp(-k w) in (0, 1] of a horizontal air path at
+ * Spectral transmittance tau(lambda) = exp(-k w) in [0, 1] of a horizontal air path at
  * `wavelength_um` (8-14 um), the water-vapour continuum model; arguments as
- * `bt_path_band_transmittance`.
+ * `bt_path_band_transmittance`. 0 only where exp(-k w) underflows (an optical depth
+ * above 745, a path far beyond any physical length).
  *
  * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, the air's and path's
  * errors (as `bt_path_band_transmittance`), `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` outside

@@ -187,3 +187,31 @@ fn subnormal_response_is_an_underflow_not_an_imprecise_radiance() {
     let back = band.temperature(l).unwrap();
     assert!((back - t).abs() <= 1e-9 * t, "{t} -> {l:e} -> {back}");
 }
+
+/// Values spread over more than 1e154 overflow the running sum of squared deviations: the
+/// variance came out Ok(inf). Now it is `NonFinite`, and so is a Monte Carlo run whose
+/// model values do that.
+#[test]
+fn running_variance_that_overflows_is_an_error() {
+    use bandtemp::uncertainty::{monte_carlo, RunningStats, Xoshiro256StarStar};
+    let mut stats = RunningStats::new();
+    for x in [1e300, -1e300, 1e300] {
+        stats.push(x).unwrap();
+    }
+    assert_eq!(stats.variance(), Err(Error::NonFinite));
+    assert_eq!(stats.standard_deviation(), Err(Error::NonFinite));
+    let mut rng = Xoshiro256StarStar::seed_from_u64(7);
+    let mut samples = [0.0; 64];
+    let mut sign = 1.0;
+    let r = monte_carlo(&mut rng, &mut samples, 0.95, |_| {
+        sign = -sign;
+        Ok(sign * 1e300)
+    });
+    assert_eq!(r, Err(Error::NonFinite));
+    // An ordinary spread is unaffected: the sample variance of 1, 2, 3 is 1.
+    let mut stats = RunningStats::new();
+    for x in [1.0, 2.0, 3.0] {
+        stats.push(x).unwrap();
+    }
+    assert_eq!(stats.variance(), Ok(1.0));
+}

@@ -157,7 +157,8 @@ impl Path {
         Ok(self.optical_depth_unchecked(wavelength_um))
     }
 
-    /// Spectral transmittance tau(lambda) = exp(-k w) in (0, 1].
+    /// Spectral transmittance tau(lambda) = exp(-k w) in [0, 1]: 0 only where exp(-k w)
+    /// underflows (an optical depth above 745, a path far beyond any physical length).
     ///
     /// Accuracy: the formula to rounding (relative 1e-15 against mpmath,
     /// `tests/atmosphere_continuum.rs`); the model's own error is discussed in the module
