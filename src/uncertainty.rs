@@ -468,21 +468,22 @@ impl RunningStats {
     /// Sample variance m2 / (n - 1) (value unit squared).
     ///
     /// # Errors
-    /// [`Error::TooFewTrials`] with fewer than two values.
+    /// [`Error::TooFewTrials`] with fewer than two values, [`Error::NonFinite`] when the
+    /// sum of squared deviations overflowed (values spread over more than about 1e154).
     pub fn variance(&self) -> Result<f64> {
         if self.count < 2 {
             return Err(Error::TooFewTrials);
         }
         #[allow(clippy::cast_precision_loss)]
         let dof = (self.count - 1) as f64;
-        Ok(self.m2 / dof)
+        finite(self.m2 / dof)
     }
 
     /// Sample standard deviation sqrt(m2 / (n - 1)) (value unit): the standard
     /// uncertainty u(y) of a Monte Carlo output (JCGM 101:2008 7.6).
     ///
     /// # Errors
-    /// [`Error::TooFewTrials`] with fewer than two values.
+    /// As [`RunningStats::variance`].
     pub fn standard_deviation(&self) -> Result<f64> {
         self.variance().map(libm::sqrt)
     }
