@@ -209,6 +209,12 @@ pub enum Error {
     FrameEmissivityMapUnavailable,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch,
+    /// Table rows that are not the ones the converter or geometry was built with: their
+    /// fingerprint (of the rows' bytes and the geometry) differs from the stored one.
+    FrameRowsMismatch,
+    /// The table would need more rows than [`crate::frame::MAX_TABLE_ROWS`] (refused up
+    /// front, before the rows are built).
+    FrameTableTooLarge,
 }
 
 impl Error {
@@ -350,6 +356,8 @@ impl Error {
                 "no signal at the reflected temperature: emissivity maps unavailable"
             }
             Error::FrameCurveMismatch => "the curve is not the one the table was built from",
+            Error::FrameRowsMismatch => "the table rows are not the ones the converter was built with",
+            Error::FrameTableTooLarge => "the table would need more rows than the library builds",
         }
     }
 }

@@ -208,6 +208,12 @@ pub enum bt_status {
     FrameEmissivityMapUnavailable = 710,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch = 711,
+    /// Table rows that are not the ones the converter was built with (their fingerprint
+    /// differs): another table's rows, or rows changed since.
+    FrameRowsMismatch = 712,
+    /// The table would need more rows than the library builds (4096 rows, 64 KiB); refused
+    /// up front, before any row is built.
+    FrameTableTooLarge = 713,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -337,6 +343,8 @@ status_table!(
     FrameCoefficientOverflow,
     FrameEmissivityMapUnavailable,
     FrameCurveMismatch,
+    FrameRowsMismatch,
+    FrameTableTooLarge,
 );
 
 impl bt_status {

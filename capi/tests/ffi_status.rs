@@ -92,6 +92,8 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::FrameCoefficientOverflow, 709),
     (bt_status::FrameEmissivityMapUnavailable, 710),
     (bt_status::FrameCurveMismatch, 711),
+    (bt_status::FrameRowsMismatch, 712),
+    (bt_status::FrameTableTooLarge, 713),
 ];
 
 fn message(raw: c_int) -> &'static str {
