@@ -234,3 +234,30 @@ fn unservable_ranges_are_refused_up_front() {
         Err(Error::FrameStorageTooSmall)
     );
 }
+
+#[test]
+fn required_rows_is_what_build_uses() {
+    // `required_rows` decides lazily (a row's centre-only bound where it fits), `build`
+    // checks every row densely: the two must pick the same level, including near each
+    // level's edge (tolerances spaced finer than the 16x per level of Hermite tables).
+    let mwir = Band::rectangular(3.0, 5.0, Detector::Photon).unwrap();
+    let sh = SakumaHattori::new(0.9325, 0.41, 6e8).unwrap();
+    let curves: [(&dyn SignalCurve, f64, f64); 3] = [
+        (&lwir(), 250.0, 1500.0),
+        (&mwir, 300.0, 1000.0),
+        (&sh, 850.0, 1450.0),
+    ];
+    let mut storage = vec![[0.0f32; 4]; 2048];
+    for (curve, lo_k, hi_k) in curves {
+        let range = TemperatureRange::new(lo_k, hi_k).unwrap();
+        let mut tolerance_k = 2e-2;
+        while tolerance_k > 4e-4 {
+            let rows = FrameTable::required_rows(curve, range, tolerance_k).unwrap();
+            let built = FrameTable::build(curve, range, tolerance_k, &mut storage)
+                .unwrap()
+                .geometry();
+            assert_eq!(built.rows(), rows, "{lo_k}-{hi_k} K at {tolerance_k} K");
+            tolerance_k *= 0.8;
+        }
+    }
+}

@@ -16,14 +16,29 @@
 //!    peaks) is taken. Each probe is a lower bound on what the full check finds, so a
 //!    failing probe skips the level without its full check.
 //! 4. The full check of the first level whose probes pass, row by row, stopping at the
-//!    first row over the tolerance; then the next level, and so on.
+//!    first row over the tolerance; then the next level, and so on. Levels of at most 64
+//!    rows skip the probes (the full check stops at their first failing row anyway).
+//!    `build` checks every row densely (9 points) and reports the tighter of two bounds per
+//!    row; `required_rows`, which only needs the level, accepts a row on its centre-only
+//!    bound when that fits, and checks densely only the rows where it does not; a level it
+//!    would refuse while some row was accepted on the centre alone is checked again
+//!    densely, so both pick the same level (`tests/frame_table.rs` checks this).
 //!
 //! Worst case, in curve evaluations E (one signal-and-derivative of the curve; an
 //! inversion is I, a Newton solve of at most a few E for a band, closed form for a
 //! Sakuma-Hattori curve): 2 E for the ends, at most 13 levels x [`PROBES`] x (2 I + E) of
 //! probes, and full checks over at most 2 x [`MAX_TABLE_ROWS`] rows (each level has twice
 //! the rows of the one before, and none has more than [`MAX_TABLE_ROWS`]) at
-//! (I + 7 E + 2 E for the range ends) per row.
+//! (I + 7 E + 2 E for the range ends) per row, twice for an undecided lazy level. The
+//! slowest refusal found (a 0.4-0.5 um photon band, 500-5000 K, 0.5 mK: probes pass at
+//! ~1250 rows, the full check fails, the next level is too large) takes 9-13 ms on
+//! the host (`benches/frame.rs`, group `table_rows_refusal`); refusals at the f32 floor
+//! take nanoseconds.
+//!
+//! Start-up measured with callgrind (`examples/frame_startup.rs`, 8-14 um energy band,
+//! 250-1200 K, 1 mK, 56 rows; host x86-64 instructions, before -> now):
+//! `required_rows` + `new` 12.28 M -> 1.11 M (11.1x; 10 287 -> 978 band evaluations),
+//! `new` alone 0.73 M, a stored converter re-wrapped and given its scene 8 k.
 //!
 //! # The bound
 //!
@@ -148,8 +163,27 @@ fn horner_rounding(row: &TableRow, span: f64) -> f64 {
     g(1.0) * c0 + g(3.0) * c1 * span + g(5.0) * c2 * span * span + g(6.0) * c3 * span * span * span
 }
 
-/// |T_row(L) - T(L)| at one signal inside the row, by one Newton step from the row's value
-/// (see the module docs); `None` when the step cannot be trusted.
+/// T_row(L) - T(L) at one signal inside the row, by one Newton step from the row's value
+/// (see the module docs): the signed estimate and the bound on its magnitude; `None` when
+/// the step cannot be trusted.
+fn signed_point_error<C: SignalCurve + ?Sized>(
+    curve: &C,
+    row: &TableRow,
+    r: f64,
+    signal: f64,
+    curvature: f64,
+) -> Result<Option<(f64, f64)>> {
+    let approx = cubic(row, r);
+    let (at_approx, slope) = curve.signal_and_derivative(approx)?;
+    if !(slope > 0.0 && slope.is_finite()) {
+        return Ok(None);
+    }
+    let error = (at_approx - signal) / slope;
+    let widen = curvature * libm::fabs(error);
+    Ok((widen <= 0.25).then_some((error, libm::fabs(error) * (1.0 + 2.0 * widen))))
+}
+
+/// |T_row(L) - T(L)| bound at one signal, as [`signed_point_error`].
 fn point_error<C: SignalCurve + ?Sized>(
     curve: &C,
     row: &TableRow,
@@ -157,14 +191,7 @@ fn point_error<C: SignalCurve + ?Sized>(
     signal: f64,
     curvature: f64,
 ) -> Result<Option<f64>> {
-    let approx = cubic(row, r);
-    let (at_approx, slope) = curve.signal_and_derivative(approx)?;
-    if !(slope > 0.0 && slope.is_finite()) {
-        return Ok(None);
-    }
-    let error = libm::fabs((at_approx - signal) / slope);
-    let widen = curvature * error;
-    Ok((widen <= 0.25).then_some(error * (1.0 + 2.0 * widen)))
+    Ok(signed_point_error(curve, row, r, signal, curvature)?.map(|(_, bound)| bound))
 }
 
 /// k = |ln(L'(T1)/L'(T0))| / (T1 - T0): the row's log-slope change per kelvin.
@@ -178,15 +205,26 @@ fn signal_allowance(n0: &Node, n1: &Node) -> f64 {
     SIGNAL_ROUNDING_ULPS * 2.0 * UNIT_ROUNDOFF * (n0.signal / n0.slope).max(n1.signal / n1.slope)
 }
 
-/// What the check of one row found: its table error bound and its signal allowance, K.
+/// What the check of one row found: its table error bound and its signal allowance, K,
+/// and whether the bound is the centre-only one of a lazy check.
 #[derive(Clone, Copy)]
 struct RowBound {
     table_k: f64,
     signal_k: f64,
+    centre_only: bool,
 }
 
 /// Checks one row over its part of [lo, hi] (see the module docs). `None` when a check
 /// point cannot be trusted (the row is far too coarse).
+///
+/// Two bounds under the same premise (the fourth derivative within a factor 2 across the
+/// row, one sign): the dense one (all check points, margin 8/7) and the centre one,
+/// 2 (|e(1/2) - dc0| + w) + |dc0| + 3 D + Horner, where dc0 = c0 - T0 is the stored
+/// constant's exact rounding, D = u (|c1| R + |c2| R^2 + |c3| R^3) bounds the other
+/// coefficients' rounding and w the Newton step's widening: the Hermite remainder is at
+/// most twice its centre value. The row's bound is the smaller. With `lazy` =
+/// (tolerance, largest signal allowance so far), the dense points are skipped when the
+/// centre bound already fits.
 fn check_row<C: SignalCurve + ?Sized>(
     curve: &C,
     lookup: &Lookup<'_>,
@@ -194,12 +232,43 @@ fn check_row<C: SignalCurve + ?Sized>(
     nodes: (&Node, &Node),
     segment: u32,
     shift: u32,
+    lazy: Option<(f64, f64)>,
 ) -> Result<Option<RowBound>> {
     let (n0, n1) = nodes;
     let span = f64::from(1u32 << shift);
     let base = segment << shift;
     let curvature = row_curvature(n0, n1);
+    let horner = horner_rounding(row, span);
+    let signal_k = signal_allowance(n0, n1);
+    let step = 1u32 << (shift - 3);
+    // The centre bound.
+    let centre_bits = base + (CHECK_INTERVALS / 2) * step;
+    let centre = f32::from_bits(centre_bits);
+    let mut centre_bound = f64::INFINITY;
     let mut worst = 0.0f64;
+    if lookup.in_range(centre) {
+        let r = f64::from(centre_bits - base);
+        let Some((e, bound)) = signed_point_error(curve, row, r, f64::from(centre), curvature)?
+        else {
+            return Ok(None);
+        };
+        worst = bound;
+        let dc0 = f64::from(row[0]) - n0.temperature_k;
+        let [_, c1, c2, c3] = row.map(|c| libm::fabs(f64::from(c)));
+        let d =
+            UNIT_ROUNDOFF * (1.0 + UNIT_ROUNDOFF) * (c1 * span + (c2 + c3 * span) * span * span);
+        let widen = bound - libm::fabs(e);
+        centre_bound = 2.0 * (libm::fabs(e - dc0) + widen) + libm::fabs(dc0) + 3.0 * d + horner;
+        if let Some((tolerance_k, max_signal)) = lazy {
+            if centre_bound + max_signal.max(signal_k) <= tolerance_k {
+                return Ok(Some(RowBound {
+                    table_k: centre_bound,
+                    signal_k,
+                    centre_only: true,
+                }));
+            }
+        }
+    }
     let mut consider = |error: Option<f64>| -> bool {
         match error {
             Some(e) => {
@@ -216,8 +285,9 @@ fn check_row<C: SignalCurve + ?Sized>(
     if lookup.in_range(f32::from_bits((segment + 1) << shift)) {
         consider(Some(libm::fabs(cubic(row, span) - n1.temperature_k)));
     }
-    let step = 1u32 << (shift - 3);
-    let inner = (1..CHECK_INTERVALS).map(|j| base + j * step);
+    let inner = (1..CHECK_INTERVALS)
+        .filter(|&j| j != CHECK_INTERVALS / 2)
+        .map(|j| base + j * step);
     let ends = [lookup.lo, lookup.hi]
         .into_iter()
         .map(f32::to_bits)
@@ -233,8 +303,9 @@ fn check_row<C: SignalCurve + ?Sized>(
         }
     }
     Ok(Some(RowBound {
-        table_k: worst * BETWEEN_POINTS + horner_rounding(row, span),
-        signal_k: signal_allowance(n0, n1),
+        table_k: (worst * BETWEEN_POINTS + horner).min(centre_bound),
+        signal_k,
+        centre_only: false,
     }))
 }
 
@@ -301,30 +372,58 @@ fn probe_level<C: SignalCurve + ?Sized>(
     Ok(Probe::Pass)
 }
 
-/// The full check of one level, rows written to `storage` when given. `Ok(None)` as soon
-/// as a row exceeds the tolerance.
+/// What the full check of one level found.
+enum Outcome {
+    /// Every row fits: (max table error, max pixel error), K.
+    Pass(f64, f64),
+    /// A row does not fit.
+    Fail,
+    /// A lazy check failed with centre-only rows in its maximum: decide again densely.
+    Undecided,
+}
+
+/// The full check of one level, rows written to `storage` when given; lazy (centre-only
+/// rows where they fit) when `lazy`. Stops at the first row that makes the table exceed
+/// the tolerance.
 fn full_check<C: SignalCurve + ?Sized>(
     curve: &C,
     geometry: &TableGeometry,
     tolerance_k: f64,
     mut storage: Option<&mut [TableRow]>,
-) -> Result<Option<(f64, f64)>> {
+    lazy: bool,
+) -> Result<Outcome> {
     let lookup = Lookup::new(geometry, &[]);
     let shift = geometry.shift();
     let first = geometry.first_segment;
     let mut left = node(curve, segment_start(first, shift))?;
     let (mut max_table, mut max_signal) = (0.0f64, 0.0f64);
+    let mut centre_only = false;
     for index in 0..geometry.rows {
         let segment = first + index;
         let right = node(curve, segment_start(segment + 1, shift))?;
         let row = hermite_row(&left, &right, shift)?;
-        let Some(bound) = check_row(curve, &lookup, &row, (&left, &right), segment, shift)? else {
-            return Ok(None);
+        let budget = lazy.then_some((tolerance_k, max_signal));
+        let Some(bound) = check_row(
+            curve,
+            &lookup,
+            &row,
+            (&left, &right),
+            segment,
+            shift,
+            budget,
+        )?
+        else {
+            return Ok(Outcome::Fail);
         };
+        centre_only |= bound.centre_only;
         max_table = max_table.max(bound.table_k);
         max_signal = max_signal.max(bound.signal_k);
         if !(max_table + max_signal <= tolerance_k) {
-            return Ok(None);
+            return Ok(if centre_only {
+                Outcome::Undecided
+            } else {
+                Outcome::Fail
+            });
         }
         if let Some(slot) = storage
             .as_deref_mut()
@@ -334,7 +433,7 @@ fn full_check<C: SignalCurve + ?Sized>(
         }
         left = right;
     }
-    Ok(Some((max_table, max_table + max_signal)))
+    Ok(Outcome::Pass(max_table, max_table + max_signal))
 }
 
 /// Finds the coarsest level whose table meets `tolerance_k` and, given storage, writes
@@ -377,14 +476,22 @@ pub(super) fn plan<C: SignalCurve + ?Sized>(
                 }
             }
         }
-        match full_check(curve, &geometry, tolerance_k, storage.as_deref_mut()) {
-            Ok(Some((table_k, pixel_k))) => {
+        // Without storage only the level is wanted: a lazy check decides it as the dense
+        // check of `build` would (its bounds are never below the dense ones, and an
+        // undecided level is checked again densely).
+        let lazy = storage.is_none();
+        let mut outcome = full_check(curve, &geometry, tolerance_k, storage.as_deref_mut(), lazy);
+        if matches!(outcome, Ok(Outcome::Undecided)) {
+            outcome = full_check(curve, &geometry, tolerance_k, None, false);
+        }
+        match outcome {
+            Ok(Outcome::Pass(table_k, pixel_k)) => {
                 geometry.tolerance_k = tolerance_k;
                 geometry.max_table_error_k = table_k;
                 geometry.max_pixel_error_k = pixel_k;
                 return Ok(geometry);
             }
-            Ok(None) => last_error = Error::FrameToleranceUnreachable,
+            Ok(_) => last_error = Error::FrameToleranceUnreachable,
             Err(error) => last_error = error,
         }
     }
