@@ -415,6 +415,10 @@ unsafe fn set_scene<C: SignalCurve>(
 /// checks the rows' fingerprint, that the band gives the table's signal ends, and forms
 /// the scene's coefficients: a few band integrals instead of the table's construction.
 ///
+/// Time: the fingerprint (linear in the rows), two band integrals for the signal ends,
+/// those of the scene's terms (at most about ten), and two 16-step searches for the valid
+/// counts window.
+///
 /// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
 /// `BT_STATUS_FRAME_ROWS_MISMATCH` for rows that are not the converter's,
 /// `BT_STATUS_FRAME_TABLE_INVALID` or `BT_STATUS_FRAME_STORAGE_TOO_SMALL` for a converter
@@ -455,7 +459,8 @@ pub unsafe extern "C" fn bt_frame_converter_set_scene_sakuma_hattori(
     unsafe { set_scene(converter, table, table_rows, || read_curve(p), scene) }
 }
 
-/// Replaces the converter's rails (no rebuild).
+/// Replaces the converter's rails (no rebuild). Time: the fingerprint (linear in the rows)
+/// and two 16-step searches for the valid counts window.
 ///
 /// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
 /// `BT_STATUS_FRAME_RAILS_INVALID`, and those of a converter that does not describe the
@@ -596,6 +601,10 @@ unsafe fn convert<T>(
 /// `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE` if a map is given but the curve has no
 /// signal at the reflected temperature. On error neither `kelvin` nor `summary` is
 /// written.
+///
+/// Time: linear in the pixels, plus the re-wrap of the converter (the rows' fingerprint,
+/// linear in the rows, and two 16-step searches), about 1 us for a 61-row table on an
+/// x86-64 host.
 ///
 /// # Safety
 /// `converter` null or valid for reading a `bt_frame_converter`; `table` null or valid
