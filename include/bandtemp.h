@@ -636,8 +636,9 @@ typedef struct {
     double tolerance_k;
     /**
      * Bound on |T_table(L) - T_exact(L)| for every float signal L in range, K: per row,
-     * the largest error at 9 check points times 8/7 for the points between them, plus a
-     * rigorous bound on the float rounding of the evaluation.
+     * the largest error at 9 check points times 8/7 for the points between them (or, where
+     * smaller, twice the centre error plus the coefficients' rounding), plus a rigorous
+     * bound on the float rounding of the evaluation.
      */
     double max_table_error_k;
     /**

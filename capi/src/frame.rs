@@ -136,8 +136,9 @@ pub struct bt_frame_geometry {
     /// Requested tolerance, K.
     pub tolerance_k: f64,
     /// Bound on |T_table(L) - T_exact(L)| for every float signal L in range, K: per row,
-    /// the largest error at 9 check points times 8/7 for the points between them, plus a
-    /// rigorous bound on the float rounding of the evaluation.
+    /// the largest error at 9 check points times 8/7 for the points between them (or, where
+    /// smaller, twice the centre error plus the coefficients' rounding), plus a rigorous
+    /// bound on the float rounding of the evaluation.
     pub max_table_error_k: f64,
     /// `max_table_error_k` plus the rounding allowance of a uniform-scene pixel from
     /// counts (1.5 float ulps of L in kelvin): a bound on |T_pixel - T_exact| for a

@@ -45,9 +45,13 @@
 //! For row i with nodes (T0, L0) and (T1, L1) the reported table error is
 //!
 //! ```text
-//! E_i = E_s / (1 - 8 d^2)                    interpolation, dense check plus margin
+//! E_i = min(E_s / (1 - 8 d^2), E_c)          interpolation, dense check plus margin
 //!     + g1|c0| + g3|c1|R + g5|c2|R^2 + g6|c3|R^3   f32 Horner rounding (rigorous)
 //! ```
+//!
+//! with E_c the centre-only bound under the same premise (see `check_row`): twice the
+//! Hermite remainder at t = 1/2, plus the coefficients' rounding. It is rarely the smaller
+//! in `build`, and is what lets `required_rows` skip most dense points.
 //!
 //! - E_s is the largest |P(r) - T(L(r))| over the check points r = j R / 8, j = 0..8,
 //!   that lie in the range, and the range ends; P is the row's cubic with its stored f32

@@ -91,8 +91,9 @@ impl TableGeometry {
     /// [`TableGeometry::signal_lo`]..=[`TableGeometry::signal_hi`]: the f32 table evaluation
     /// against exact inversion of the same signal, K. Per row, the largest error at 9 check
     /// points (measured with the stored f32 coefficients) times 8/7 for the points between
-    /// them, plus a rigorous bound on the f32 Horner rounding; see the derivation in the
-    /// module docs ("Accuracy").
+    /// them (or, where smaller, twice the centre error plus the coefficients' rounding),
+    /// plus a rigorous bound on the f32 Horner rounding; see the derivation in the module
+    /// docs ("Accuracy") and in `build.rs`.
     #[must_use]
     pub fn max_table_error_k(&self) -> f64 {
         self.max_table_error_k
