@@ -951,6 +951,111 @@ static void test_frame_foreign_rows(void) {
     CHECK(summary.converted == 4 && fabs((double)kelvin[3] - expected[3]) < 0.006);
 }
 
+/* The reported bound holds for every converted count (it used to be exceeded). The two
+ * outside reproductions, against bt_object_temperature: a Sakuma-Hattori curve (every
+ * count of its 14-bit ramp) and a 0.8-1.1 um photon band (every 64th count, and the count
+ * that exceeded the old figure). */
+static bt_frame_row bound_rows[512];
+static uint16_t ramp_counts[65536];
+static float ramp_kelvin[65536];
+
+static double ramp_worst(const bt_frame_converter *conv, size_t rows, const bt_band *band,
+                         const bt_sakuma_hattori *sh, const bt_scene *scene, double gain,
+                         double offset, size_t n) {
+    bt_frame_summary summary = summary_sentinel();
+    double worst = 0.0;
+    size_t i;
+    CHECK(bt_frame_convert_counts(conv, bound_rows, rows, ramp_counts, n, NULL, 0, ramp_kelvin,
+                                  n, &summary) == BT_STATUS_OK);
+    for (i = 0; i < n; i++) {
+        double exact = SENTINEL, err;
+        double signal = gain * ramp_counts[i] + offset;
+        if (isnan(ramp_kelvin[i])) {
+            continue;
+        }
+        if (band != NULL) {
+            CHECK(bt_object_temperature(band, scene, signal, &exact) == BT_STATUS_OK);
+        } else {
+            /* Sakuma-Hattori: invert the scene on the curve's own signal scale. */
+            double lo = 1.0, hi = 5000.0, s_refl = 0.0, s_air = 0.0, s_win = 0.0, s_wr = 0.0;
+            int k;
+            CHECK(bt_sakuma_hattori_signal(sh, scene->reflected_k, &s_refl) == BT_STATUS_OK);
+            CHECK(bt_sakuma_hattori_signal(sh, scene->atm_k, &s_air) == BT_STATUS_OK);
+            CHECK(bt_sakuma_hattori_signal(sh, scene->window_k, &s_win) == BT_STATUS_OK);
+            CHECK(bt_sakuma_hattori_signal(sh, scene->window_reflected_k, &s_wr) ==
+                  BT_STATUS_OK);
+            for (k = 0; k < 200; k++) { /* bisection on the measurement equation */
+                double mid = 0.5 * (lo + hi), s_obj = 0.0, model;
+                CHECK(bt_sakuma_hattori_signal(sh, mid, &s_obj) == BT_STATUS_OK);
+                model = scene->window_transmittance *
+                            (scene->atm_transmittance *
+                                 (scene->emissivity * s_obj + (1.0 - scene->emissivity) * s_refl) +
+                             (1.0 - scene->atm_transmittance) * s_air) +
+                        scene->window_reflectance * s_wr +
+                        (1.0 - scene->window_transmittance - scene->window_reflectance) * s_win;
+                if (model < signal) {
+                    lo = mid;
+                } else {
+                    hi = mid;
+                }
+                if (hi - lo < 1e-9) {
+                    break;
+                }
+            }
+            exact = 0.5 * (lo + hi);
+        }
+        err = fabs((double)ramp_kelvin[i] - exact);
+        if (err > worst) {
+            worst = err;
+        }
+    }
+    return worst;
+}
+
+static void test_frame_bound(void) {
+    bt_sakuma_hattori sh = {0.9325, 0.41, 6e8};
+    bt_scene sh_scene = {0.7, 600.0, 0.99, 300.0, 0.95, 0.02, 310.0, 300.0};
+    bt_rails sh_rails = {0, 16383};
+    bt_band nir = rectangular(0.8, 1.1, BT_DETECTOR_PHOTON);
+    bt_scene nir_scene = {0.6, 900.0, 0.98, 300.0, 0.92, 0.04, 320.0, 300.0};
+    bt_rails nir_rails = {64, 65472};
+    const double gain = 1.5950699817113938e18, offset = -5.8042016636326524e20;
+    bt_frame_converter conv;
+    bt_frame_geometry geom;
+    size_t i, n;
+    double worst;
+
+    CHECK(bt_frame_converter_new_sakuma_hattori(&sh, &sh_scene, 100.5, &sh_rails, 850.0, 1450.0,
+                                                0.01, bound_rows, 512, &conv) == BT_STATUS_OK);
+    CHECK(bt_frame_converter_geometry(&conv, bound_rows, 512, &geom) == BT_STATUS_OK);
+    for (i = 0; i < 16384; i++) {
+        ramp_counts[i] = (uint16_t)i;
+    }
+    worst = ramp_worst(&conv, geom.rows, NULL, &sh, &sh_scene, 1.0, -100.5, 16384);
+    CHECK(worst > 0.0 && worst <= geom.max_pixel_error_k && geom.max_pixel_error_k <= 0.01);
+    ramp_counts[0] = 6146; /* exact 1391.165896706 K from the outside reference */
+    CHECK(bt_frame_convert_counts(&conv, bound_rows, geom.rows, ramp_counts, 1, NULL, 0,
+                                  ramp_kelvin, 1, NULL) == BT_STATUS_NULL_POINTER);
+    {
+        bt_frame_summary summary = summary_sentinel();
+        CHECK(bt_frame_convert_counts(&conv, bound_rows, geom.rows, ramp_counts, 1, NULL, 0,
+                                      ramp_kelvin, 1, &summary) == BT_STATUS_OK);
+        CHECK(fabs((double)ramp_kelvin[0] - 1391.165896706) <= geom.max_pixel_error_k);
+    }
+
+    CHECK(bt_frame_converter_new_band(&nir, &nir_scene, gain, offset, &nir_rails, 700.0, 2000.0,
+                                      0.01, bound_rows, 512, &conv) == BT_STATUS_OK);
+    CHECK(bt_frame_converter_geometry(&conv, bound_rows, 512, &geom) == BT_STATUS_OK);
+    n = 0;
+    for (i = 0; i < 65536; i += 64) {
+        ramp_counts[n++] = (uint16_t)i;
+    }
+    ramp_counts[n++] = 29138; /* exact 1922.263644 K from the outside reference */
+    worst = ramp_worst(&conv, geom.rows, &nir, NULL, &nir_scene, gain, offset, n);
+    CHECK(worst > 0.0 && worst <= geom.max_pixel_error_k && geom.max_pixel_error_k <= 0.01);
+    CHECK(fabs((double)ramp_kelvin[n - 1] - 1922.263644) <= geom.max_pixel_error_k);
+}
+
 /* Status order: an invalid emissivity wins over a non-finite signal. */
 static void test_frame_status_order(void) {
     bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
@@ -1667,6 +1772,7 @@ int main(void) {
     test_frame_rows();
     test_frame_band();
     test_frame_foreign_rows();
+    test_frame_bound();
     test_frame_status_order();
     test_frame_sakuma_hattori();
     test_ratio();
