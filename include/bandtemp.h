@@ -1893,7 +1893,7 @@ bt_status bt_curve_fit_band(int form,
 /**
  * Fits a curve of `form` (`BT_CURVE_FORM_PLANCK` or `BT_CURVE_FORM_WIEN`) to `n` >= 3
  * blackbody readings (`t_k[i]` K, `signal[i]` signal units) behind a known
- * `dark_offset`: the curve is fitted to signal[i] - dark_offset by Levenberg-Marquardt,
+ * `dark_offset`: the curve is fitted to `signal[i] - dark_offset` by Levenberg-Marquardt,
  * in temperature without `signal_u` (NULL), or by maximum likelihood in signal with the
  * signals' standard uncertainties `signal_u` (n positive doubles). `out->curve.offset`
  * is `dark_offset`. Exact data from a curve of the form are recovered to below 1 uK.
