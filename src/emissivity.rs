@@ -340,9 +340,9 @@ pub fn brewster_angle_deg(n: f64) -> Result<f64> {
     }
 }
 
-/// 4 pi c eps0 in ohm^-1 ... the Hagen-Rubens constant: n^2 = k^2 = lambda / (4 pi c eps0
-/// r_e) with c eps0 = 1/Z0 (Z0 = 376.730313412 ohm, CODATA 2018), so 4 pi c eps0 =
-/// 4 pi / Z0 = 0.0333564095... S (siemens).
+/// The Hagen-Rubens constant 4 pi c eps0 = 4 pi / Z0 = 0.0333564... S (siemens), with the
+/// impedance of free space Z0 = 1/(c eps0) = 376.730313412 ohm (CODATA 2018): the Drude
+/// low-frequency optical constants are n^2 = k^2 = lambda / (4 pi c eps0 r_e).
 const HAGEN_RUBENS_S: f64 = 4.0 * core::f64::consts::PI / 376.730_313_412;
 
 /// Hagen-Rubens normal spectral emissivity of a metal, first term only:

@@ -142,7 +142,8 @@ fn printed_check_values() {
 }
 
 /// Hagen-Rubens: the first term is the leading term of the exact n = k Fresnel value;
-/// 0.365 is its printed coefficient (Siegel and Howell), 2 sqrt(4 pi / Z0) = 0.36528.
+/// 0.365 is the coefficient as heat-transfer texts print it (Siegel and Howell, from
+/// memory); derived, 2 sqrt(4 pi / Z0) = 0.36528.
 #[test]
 fn hagen_rubens_first_term() {
     // An invented conductor, r_e = 1e-7 ohm m, at 10 um: r_e/lambda = 0.01 ohm.
