@@ -357,11 +357,17 @@ const HAGEN_RUBENS_S: f64 = 4.0 * core::f64::consts::PI / 376.730_313_412;
 /// sqrt(lambda / (4 pi c eps0 r_e)) ([`hagen_rubens_constants`]); its relative error is
 /// about 1/n = e_n/2, so it is refused above e_n = 0.2 (error then near 10 %).
 ///
-/// Second term: a second-order coefficient (-0.0464 r_e/lambda) circulates in heat-
-/// transfer texts (quoted here from memory). We could not find a printed source to check
-/// it against, and expanding the exact Fresnel normal emissivity 4n/(2n^2 + 2n + 1) at
-/// n = k gives 2/n - 2/n^2 + ..., i.e. -0.0667 r_e/lambda, which does not match it. So only
-/// the first term ships; for more accuracy use the exact Fresnel value of
+/// First term, checked: the Hagen-Rubens relation as printed in R. E. Hummel, *Electronic
+/// Properties of Materials* (4th ed., Springer), and quoted in the encyclopaedia article on
+/// the relation, reads R ~= 1 - 2 sqrt(2 eps0 omega / sigma); with omega = 2 pi c / lambda
+/// and sigma = 1/r_e that is e = 1 - R = 2 sqrt(4 pi c eps0 r_e / lambda) =
+/// 0.36528 sqrt(r_e / lambda), the coefficient above (`tests/emissivity_fresnel.rs`).
+///
+/// Second term, not confirmed: a second-order coefficient (-0.0464 r_e/lambda) circulates
+/// in heat-transfer texts (quoted here from memory). We found no printed source to check it
+/// against, and expanding the exact Fresnel normal emissivity 4n/(2n^2 + 2n + 1) at n = k
+/// gives 2/n - 2/n^2 + ..., i.e. -0.0667 r_e/lambda, which does not match it. So only the
+/// first term ships; for more accuracy use the exact Fresnel value of
 /// [`hagen_rubens_constants`], and for any metal at wavelengths where the Drude
 /// low-frequency limit fails (below a few um for most metals) use measured n, k.
 ///
