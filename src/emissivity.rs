@@ -357,9 +357,9 @@ const HAGEN_RUBENS_S: f64 = 4.0 * core::f64::consts::PI / 376.730_313_412;
 /// sqrt(lambda / (4 pi c eps0 r_e)) ([`hagen_rubens_constants`]); its relative error is
 /// about 1/n = e_n/2, so it is refused above e_n = 0.2 (error then near 10 %).
 ///
-/// First term, checked: the Hagen-Rubens relation as printed in R. E. Hummel, *Electronic
-/// Properties of Materials* (4th ed., Springer), and quoted in the encyclopaedia article on
-/// the relation, reads R ~= 1 - 2 sqrt(2 eps0 omega / sigma); with omega = 2 pi c / lambda
+/// First term, checked: the Hagen-Rubens relation as the encyclopaedia article on it gives
+/// it (citing R. E. Hummel, *Electronic Properties of Materials*, 4th ed.; Hummel itself
+/// not seen) reads R ~= 1 - 2 sqrt(2 eps0 omega / sigma); with omega = 2 pi c / lambda
 /// and sigma = 1/r_e that is e = 1 - R = 2 sqrt(4 pi c eps0 r_e / lambda) =
 /// 0.36528 sqrt(r_e / lambda), the coefficient above (`tests/emissivity_fresnel.rs`).
 ///
