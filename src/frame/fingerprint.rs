@@ -39,7 +39,7 @@ fn mix_f64(h: u64, value: f64) -> u64 {
 }
 
 /// Fingerprint of `rows` under `geometry` (every field but the fingerprint itself).
-pub(super) fn fingerprint(geometry: &TableGeometry, rows: &[TableRow]) -> u64 {
+pub(crate) fn fingerprint(geometry: &TableGeometry, rows: &[TableRow]) -> u64 {
     let mut h = mix(0x6261_6e64_7465_6d70, geometry.level);
     h = mix(h, geometry.first_segment);
     h = mix(h, geometry.rows);

@@ -162,7 +162,7 @@
 
 mod build;
 mod converter;
-mod fingerprint;
+pub(crate) mod fingerprint;
 mod kernel;
 mod lookup;
 mod params;

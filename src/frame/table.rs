@@ -45,7 +45,7 @@ pub struct TableGeometry {
     /// `max_table_error_k` plus the uniform-scene signal rounding allowance, K.
     pub(super) max_pixel_error_k: f64,
     /// Fingerprint of the rows and the fields above (see `fingerprint.rs`).
-    pub(super) fingerprint: u64,
+    pub(crate) fingerprint: u64,
 }
 
 impl TableGeometry {

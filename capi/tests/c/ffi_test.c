@@ -2567,7 +2567,8 @@ static void test_verify(void) {
                   bt_verify_curve_band(&fitted, 0.0, &band, 1.0, 0.0, 250.0, 500.0, 0, &curve));
 
     /* A frame table built by a converter, then checked; then a copy with one row moved
-     * by +0.05 K (its constant coefficient), which the check must find in that row. */
+     * by +0.05 K (its constant coefficient), which the converter's row fingerprint refuses
+     * before any check runs. */
     CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
                                       1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
           BT_STATUS_OK);
@@ -2580,10 +2581,8 @@ static void test_verify(void) {
     CHECK(table.claimed_max_error_k <= 1e-3);
     memcpy(corrupted, frame_table, sizeof corrupted);
     corrupted[rows / 2].coefficients[0] += 0.05f;
-    EXPECT_REPORT(BT_STATUS_OK, table,
+    EXPECT_REPORT(BT_STATUS_FRAME_ROWS_MISMATCH, table,
                   bt_verify_frame_table_band(&band, &conv, corrupted, rows, 37, &table));
-    CHECK(table.max_abs_error_k > 0.045 && table.max_abs_error_k < 0.055);
-    CHECK(table.worst_error_k > 0.0);
     EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
                   bt_verify_frame_table_band(&band, NULL, frame_table, rows, 37, &table));
     EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
