@@ -209,6 +209,11 @@ pub enum Error {
     FrameEmissivityMapUnavailable,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch,
+
+    // ---- bounded time ---------------------------------------------------------------------------
+    /// A calibration fit was given more points than it accepts
+    /// ([`crate::calibration::MAX_FIT_POINTS`]); the limit bounds the fit's time.
+    CalibrationTooManyPoints,
 }
 
 impl Error {
@@ -350,6 +355,9 @@ impl Error {
                 "no signal at the reflected temperature: emissivity maps unavailable"
             }
             Error::FrameCurveMismatch => "the curve is not the one the table was built from",
+            Error::CalibrationTooManyPoints => {
+                "a calibration fit accepts at most 256 points (MAX_FIT_POINTS)"
+            }
         }
     }
 }

@@ -208,6 +208,8 @@ pub enum bt_status {
     FrameEmissivityMapUnavailable = 710,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch = 711,
+    /// A calibration fit was given more than 256 points (the limit bounds its time).
+    CalibrationTooManyPoints = 1300,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -337,6 +339,7 @@ status_table!(
     FrameCoefficientOverflow,
     FrameEmissivityMapUnavailable,
     FrameCurveMismatch,
+    CalibrationTooManyPoints,
 );
 
 impl bt_status {

@@ -92,6 +92,7 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::FrameCoefficientOverflow, 709),
     (bt_status::FrameEmissivityMapUnavailable, 710),
     (bt_status::FrameCurveMismatch, 711),
+    (bt_status::CalibrationTooManyPoints, 1300),
 ];
 
 fn message(raw: c_int) -> &'static str {
