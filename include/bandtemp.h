@@ -531,6 +531,10 @@ typedef enum {
      * up front, before any row is built.
      */
     BT_STATUS_FRAME_TABLE_TOO_LARGE = 713,
+    /**
+     * A calibration fit was given more than 256 points (the limit bounds its time).
+     */
+    BT_STATUS_CALIBRATION_TOO_MANY_POINTS = 1300,
 } bt_status;
 
 /**
@@ -1773,7 +1777,9 @@ bt_status bt_sakuma_hattori_fit_band(const bt_band *band,
  * (Levenberg-Marquardt). Points may come in any order.
  *
  * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
- * `BT_STATUS_CALIBRATION_TOO_FEW_POINTS` for n < 3, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_CALIBRATION_TOO_FEW_POINTS` for n < 3,
+ * `BT_STATUS_CALIBRATION_TOO_MANY_POINTS` for n > 256 (bounds the fit's time),
+ * `BT_STATUS_NON_FINITE`,
  * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for a
  * signal <= 0, `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE`,
  * `BT_STATUS_CALIBRATION_SIGNAL_NOT_INCREASING`, `BT_STATUS_CALIBRATION_NOT_CONVERGED`,

@@ -146,11 +146,15 @@ impl<'a> SpectralTable<'a> {
         if !(wavelength_um >= first && wavelength_um <= last) {
             return 0.0;
         }
-        // First node strictly above the wavelength; the segment is [i - 1, i].
+        // First node strictly above the wavelength; the segment is [i - 1, i]. Kept within
+        // 1..=len-1 by `min` then `max`, not `Ord::clamp`: clamp asserts min <= max, which
+        // the compiler cannot prove (it does not know that a table has two points), and
+        // that assertion would leave a panic path in every firmware image.
         let upper = self
             .wavelengths_um
             .partition_point(|&w| w <= wavelength_um)
-            .clamp(1, self.wavelengths_um.len() - 1);
+            .min(self.wavelengths_um.len().saturating_sub(1))
+            .max(1);
         let (Some(&w0), Some(&w1), Some(&v0), Some(&v1)) = (
             self.wavelengths_um.get(upper - 1),
             self.wavelengths_um.get(upper),

@@ -271,6 +271,11 @@ pub enum Error {
     /// The table would need more rows than [`crate::frame::MAX_TABLE_ROWS`] (refused up
     /// front, before the rows are built).
     FrameTableTooLarge,
+
+    // ---- bounded time ---------------------------------------------------------------------------
+    /// A calibration fit was given more points than it accepts
+    /// ([`crate::calibration::MAX_FIT_POINTS`]); the limit bounds the fit's time.
+    CalibrationTooManyPoints,
 }
 
 impl Error {
@@ -445,6 +450,9 @@ impl Error {
             Error::MomentsInvalid => "moments need a positive mean and non-negative variance",
             Error::FrameRowsMismatch => "the table rows are not the ones the converter was built with",
             Error::FrameTableTooLarge => "the table would need more rows than the library builds",
+            Error::CalibrationTooManyPoints => {
+                "a calibration fit accepts at most 256 points (MAX_FIT_POINTS)"
+            }
         }
     }
 }

@@ -535,3 +535,22 @@ fn planck_and_wien_forms_agree_where_wien_holds() {
     let y = C2_UMK / (0.65 * 1000.0 + 0.2);
     assert!(((sp - sw) / sw - (-y).exp()).abs() < 1e-15);
 }
+
+/// More than `MAX_FIT_POINTS` points are refused before any work (the pairwise duplicate
+/// check is O(n^2)); exactly `MAX_FIT_POINTS` valid points still fit.
+#[test]
+fn point_count_is_capped() {
+    use bandtemp::calibration::MAX_FIT_POINTS;
+    assert_eq!(MAX_FIT_POINTS, 256);
+    let curve = SakumaHattori::new(3.88, 21.0, 4.0e7).unwrap();
+    let t: Vec<f64> = (0..=MAX_FIT_POINTS)
+        .map(|i| 300.0 + 0.5 * i as f64)
+        .collect();
+    let s: Vec<f64> = t.iter().map(|&t| curve.signal(t).unwrap()).collect();
+    assert_eq!(
+        fit_points(&t, &s, None),
+        Err(Error::CalibrationTooManyPoints)
+    );
+    let fit = fit_points(&t[..MAX_FIT_POINTS], &s[..MAX_FIT_POINTS], None).unwrap();
+    assert!(fit.max_residual_k <= EXACT_RECOVERY_K);
+}

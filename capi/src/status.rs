@@ -269,6 +269,8 @@ pub enum bt_status {
     /// The table would need more rows than the library builds (4096 rows, 64 KiB); refused
     /// up front, before any row is built.
     FrameTableTooLarge = 713,
+    /// A calibration fit was given more than 256 points (the limit bounds its time).
+    CalibrationTooManyPoints = 1300,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -425,6 +427,7 @@ status_table!(
     MomentsInvalid,
     FrameRowsMismatch,
     FrameTableTooLarge,
+    CalibrationTooManyPoints,
 );
 
 impl bt_status {

@@ -119,6 +119,7 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::MomentsInvalid, 918),
     (bt_status::FrameRowsMismatch, 712),
     (bt_status::FrameTableTooLarge, 713),
+    (bt_status::CalibrationTooManyPoints, 1300),
 ];
 
 fn message(raw: c_int) -> &'static str {

@@ -20,6 +20,10 @@ use crate::error::{check_temperature_k, finite, Error, Result};
 /// Cap on Levenberg-Marquardt iterations (accepted plus rejected steps); reaching it is
 /// [`Error::CalibrationNotConverged`].
 pub const MAX_FIT_ITERATIONS: u32 = 500;
+/// The most points [`fit_points`] accepts. The pairwise duplicate check is O(n^2), so this
+/// bounds a fit's time on any input (a calibration has tens of points; 256 points take
+/// about 20 ms in all on a desktop core).
+pub const MAX_FIT_POINTS: usize = 256;
 /// Temperatures (uniform over the range, ends included) at which [`fit_band`] fits the
 /// exact band radiance.
 pub const BAND_FIT_POINTS: usize = 64;
@@ -83,14 +87,15 @@ pub struct PointsFit<P = SakumaHattori> {
 /// Starting values: B = 0, and A and ln C from a least-squares fit of ln S_i against the
 /// curve's shape, A scanned over 0.05-200 um and refined by golden section. Points may
 /// come in any order. Checks every pair of points (O(n^2); calibrations have tens of
-/// points). Same as [`fit_points_with`] with the Planck form and no offset.
+/// points, and at most [`MAX_FIT_POINTS`] are accepted). Same as [`fit_points_with`] with the Planck form and no offset.
 ///
 /// Accuracy: exact data from a Sakuma-Hattori curve are recovered to below 1 uK
 /// (`tests/calibration_points.rs`, invented instruments).
 ///
 /// # Errors
 /// [`Error::CalibrationLengthMismatch`] when the arrays differ in length,
-/// [`Error::CalibrationTooFewPoints`] for n < 3, [`Error::NonFinite`],
+/// [`Error::CalibrationTooFewPoints`] for n < 3, [`Error::CalibrationTooManyPoints`] for
+/// n > [`MAX_FIT_POINTS`], [`Error::NonFinite`],
 /// [`Error::TemperatureNotPositive`], [`Error::CalibrationUncertaintyInvalid`] for an
 /// uncertainty that is not positive, [`Error::SignalAtOrBelowOffset`] for a signal <= 0,
 /// [`Error::CalibrationDuplicateTemperature`], [`Error::CalibrationSignalNotIncreasing`],
@@ -334,6 +339,9 @@ impl<'a> Data<'a> {
         }
         if count < 3 {
             return Err(Error::CalibrationTooFewPoints);
+        }
+        if count > MAX_FIT_POINTS {
+            return Err(Error::CalibrationTooManyPoints);
         }
         finite(offset)?;
         let mut t_max_k: f64 = 0.0;

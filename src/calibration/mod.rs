@@ -82,7 +82,7 @@ mod moments;
 
 pub use fit::{
     curve_residuals_k, fit_band, fit_band_with, fit_points, fit_points_with, residuals_k, BandFit,
-    PointsFit, BAND_CHECK_POINTS, BAND_FIT_POINTS, MAX_FIT_ITERATIONS,
+    PointsFit, BAND_CHECK_POINTS, BAND_FIT_POINTS, MAX_FIT_ITERATIONS, MAX_FIT_POINTS,
 };
 pub use moments::{
     limit_effective_wavelength_um, mean_effective_wavelength_um, moment_estimate,
