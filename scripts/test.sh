@@ -17,3 +17,7 @@ python3 capi/tests/python/ctypes_check.py target/debug/libbandtemp_capi.so
 
 # Regenerate a sample of the stored reference vectors with mpmath and compare.
 python3 tools/refgen/planck_refs.py --check
+
+# Refit the moment-integral polynomials (src/planck/moment_fit.rs) with mpmath, compare
+# the coefficients, and check the stored ones on a seeded sample (about 15 s).
+python3 tools/refgen/moment_fits.py --check

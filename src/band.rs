@@ -357,16 +357,7 @@ impl<'a> Band<'a> {
                 let width = c2_width * inv_t;
                 moment_integral(m, xa, xb, width)
             }
-            Some(response) => {
-                let bound = response.max_value();
-                self.panels(
-                    t,
-                    &[response],
-                    None,
-                    |lambda_um| response.value_at(lambda_um),
-                    Some(bound),
-                )
-            }
+            Some(response) => self.response_panels(t, response),
         };
         let scale = scale_or_overflow(self.detector, t)?;
         let radiance = check_radiance(scale * integral)?;
@@ -465,6 +456,60 @@ impl<'a> Band<'a> {
                 x = next;
             }
             upper_um = lower_um;
+        }
+        (sum, sum_derivative, sum_second)
+    }
+
+    /// [`Band::panels`] for the band's own response alone, walking the table's segments
+    /// in order instead of searching the table for every panel and node: on a segment
+    /// [w0, w1] the response is v0 + (lambda - w0) (v1 - v0)/(w1 - w0), the same linear
+    /// interpolation as [`SpectralTable::value_at`] (to a rounding), and the panels, rules
+    /// and Wien-tail cut are those of [`Band::panels`].
+    fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
+        let m = self.detector.moment();
+        let bound = response.max_value();
+        let c2_over_t = C2_UMK / t;
+        let mut sum = 0.0;
+        let mut sum_derivative = 0.0;
+        let mut sum_second = 0.0;
+        let segments = response
+            .wavelengths_um
+            .windows(2)
+            .zip(response.values.windows(2))
+            .rev();
+        for (wavelengths, values) in segments {
+            let (&[w0, w1], &[v0, v1]) = (wavelengths, values) else {
+                continue;
+            };
+            let upper_um = w1.min(self.hi_um);
+            let lower_um = w0.max(self.lo_um);
+            if w1 <= self.lo_um {
+                break;
+            }
+            if upper_um <= lower_um {
+                continue;
+            }
+            let slope = (v1 - v0) / (w1 - w0);
+            let mut x = C2_UMK / (upper_um * t);
+            let x_end = C2_UMK / (lower_um * t);
+            if !(x > 0.0) {
+                // upper_um * t overflowed: so does the radiance.
+                return (f64::INFINITY, f64::INFINITY, f64::INFINITY);
+            }
+            while x < x_end {
+                if x > X_INTEGRAND_ZERO || (x > 4.0 && bound * tail_bound(m, x) <= 1e-18 * sum) {
+                    // Every remaining integrand value is zero in double precision, or
+                    // the rest of the band is below 1e-18 of the sum.
+                    return (sum, sum_derivative, sum_second);
+                }
+                let next = (x + 1.0).min(2.0 * x).min(x_end);
+                let (s, d, d2) =
+                    weighted_gauss_panel(m, x, next - x, |xi| v0 + (c2_over_t / xi - w0) * slope);
+                sum += s;
+                sum_derivative += d;
+                sum_second += d2;
+                x = next;
+            }
         }
         (sum, sum_derivative, sum_second)
     }
