@@ -1,14 +1,16 @@
 //! Demo: a thermographic survey of a fictional plant, corrected target by target.
 //!
 //! EVERYTHING HERE IS INVENTED: the plant ("Larkspur Valley Paper Mill"), the instrument
-//! (an "LV-T8" 8-14 um microbolometer survey imager with a made-up spectral response), the
-//! targets, their emissivities and the apparent readings. No value is a measurement.
+//! (an 8-14 um microbolometer survey imager with a made-up spectral response), the targets,
+//! their emissivities and the apparent readings. No value is a measurement.
 //!
 //! For each target the imager reports an apparent (blackbody-equivalent) temperature in its
 //! band. The demo corrects it with the measurement equation (emissivity, reflected apparent
 //! temperature, an infrared window, humid air estimated from distance, air temperature and
 //! relative humidity), and gives the GUM uncertainty budget of the result with a flag where
-//! the answer cannot be trusted.
+//! the answer cannot be trusted. The report fits 100 columns: one table line per target,
+//! then a block per target with every input needed to reproduce its reading.
+//! `tests/demo_report.rs` checks the width and the report's cautions.
 //!
 //! Run: `cargo run --release --example plant_survey`
 //!
@@ -21,8 +23,9 @@ use bandtemp::planck::Detector;
 use bandtemp::scene::Scene;
 use bandtemp::uncertainty::{surface_budget, InputUncertainties, SURFACE_INPUT_NAMES};
 use bandtemp::Error;
+use core::fmt::Write as _;
 
-/// Invented relative spectral response of the fictional LV-T8 imager (lens, filter and
+/// Invented relative spectral response of the fictional survey imager (lens, filter and
 /// microbolometer together), um -> relative response.
 const RESPONSE_UM: [f64; 9] = [8.0, 8.5, 9.0, 10.0, 11.0, 12.0, 13.0, 13.5, 14.0];
 const RESPONSE: [f64; 9] = [0.05, 0.55, 0.85, 1.0, 0.98, 0.92, 0.7, 0.35, 0.05];
@@ -45,6 +48,8 @@ struct AirPath {
 /// One survey target (all invented).
 struct Target {
     name: &'static str,
+    /// Energised electrical equipment (the report's caution names these targets).
+    energised: bool,
     emissivity: f64,
     u_emissivity: f64,
     reflected_k: f64,
@@ -57,7 +62,8 @@ struct Target {
 fn targets() -> [Target; 6] {
     [
         Target {
-            name: "P-3 pump motor housing (painted)",
+            name: "P-3 pump motor housing, painted",
+            energised: false,
             emissivity: 0.92,
             u_emissivity: 0.02,
             reflected_k: 296.0,
@@ -72,6 +78,7 @@ fn targets() -> [Target; 6] {
         },
         Target {
             name: "MCC-2 breaker lug, via IR window",
+            energised: true,
             emissivity: 0.85,
             u_emissivity: 0.03,
             reflected_k: 299.0,
@@ -85,6 +92,7 @@ fn targets() -> [Target; 6] {
         },
         Target {
             name: "Bus-bar joint B7, bare copper",
+            energised: true,
             emissivity: 0.12,
             u_emissivity: 0.04,
             reflected_k: 318.0,
@@ -97,7 +105,8 @@ fn targets() -> [Target; 6] {
             apparent_k: 309.9,
         },
         Target {
-            name: "Dryer steam line, aluminium cladding",
+            name: "Dryer steam line, aluminium clad",
+            energised: false,
             emissivity: 0.10,
             u_emissivity: 0.03,
             reflected_k: 305.0,
@@ -112,6 +121,7 @@ fn targets() -> [Target; 6] {
         },
         Target {
             name: "Lime kiln shell, across the yard",
+            energised: false,
             emissivity: 0.88,
             u_emissivity: 0.03,
             reflected_k: 285.0,
@@ -125,7 +135,8 @@ fn targets() -> [Target; 6] {
             apparent_k: 508.0,
         },
         Target {
-            name: "Cooling-water return pipe (taped)",
+            name: "Cooling-water return pipe, taped",
+            energised: false,
             emissivity: 0.95,
             u_emissivity: 0.02,
             reflected_k: 295.0,
@@ -141,33 +152,53 @@ fn targets() -> [Target; 6] {
     ]
 }
 
-/// The survey's trust rule (our own choice, not a standard): flag a result whose expanded
-/// uncertainty (k = 2) exceeds 5 K, or where one input carries over 80 % of the variance.
+/// The survey's trust rule (our own choice, not a standard): a result is UNSURE when its
+/// expanded uncertainty (k = 2) exceeds 5 K, CHECK when one input carries over 80 % of the
+/// variance, OK otherwise; REFUSED when no temperature can be given.
 const FLAG_EXPANDED_K: f64 = 5.0;
 const FLAG_DOMINANT_SHARE: f64 = 0.8;
+
+/// Assumed instrument uncertainties (standard, k = 1; invented instrument figures): noise
+/// equivalent temperature difference and calibration of the temperature scale.
+const NETD_K: f64 = 0.05;
+const CALIBRATION_K: f64 = 1.0;
+/// Assumed standard uncertainties of the path and window inputs.
+const U_ATM_TRANSMITTANCE: f64 = 0.01;
+const U_ATM_K: f64 = 1.0;
+const U_WINDOW_TRANSMITTANCE: f64 = 0.02;
+const U_WINDOW_REFLECTANCE: f64 = 0.01;
+const U_WINDOW_K: f64 = 2.0;
+/// Air pressure assumed for every path, hPa.
+const PRESSURE_HPA: f64 = 1013.25;
+/// Paths at least this long get the continuum model's upper-bound caveat.
+const LONG_PATH_M: f64 = 20.0;
+
+/// Width of the report, characters.
+pub const REPORT_COLUMNS: usize = 100;
 
 struct Row {
     object_k: f64,
     expanded_k: f64,
     top_input: &'static str,
     top_share: f64,
-    transmittance: f64,
+    atm_transmittance: Option<f64>,
 }
 
 fn correct(band: &Band<'_>, target: &Target) -> Result<Row, Error> {
     let mut scene = Scene::new(target.emissivity, target.reflected_k)?;
-    let mut transmittance = 1.0;
+    let mut atm_transmittance = None;
     if let Some(path) = &target.air {
         // Band transmittance of the humid path, weighted by the object's own spectrum: it
         // depends (weakly) on the object temperature, so take it at the apparent one and
         // iterate once at the corrected one.
-        let air = Air::new(path.air_k, path.relative_humidity, 1013.25)?;
+        let air = Air::new(path.air_k, path.relative_humidity, PRESSURE_HPA)?;
         let model = PathTransmittance::Continuum(Path::new(air, path.distance_m)?);
-        transmittance = model.band_transmittance(band, target.apparent_k)?;
-        let first = scene.with_atmosphere(transmittance, path.air_k)?;
+        let first_guess = model.band_transmittance(band, target.apparent_k)?;
+        let first = scene.with_atmosphere(first_guess, path.air_k)?;
         let object_k = first.object_temperature(band, band.signal(target.apparent_k)?)?;
-        transmittance = model.band_transmittance(band, object_k)?;
+        let transmittance = model.band_transmittance(band, object_k)?;
         scene = scene.with_atmosphere(transmittance, path.air_k)?;
+        atm_transmittance = Some(transmittance);
     }
     if let Some(window) = &target.window {
         // The window sits at panel temperature and reflects the room behind the camera.
@@ -179,19 +210,20 @@ fn correct(band: &Band<'_>, target: &Target) -> Result<Row, Error> {
         )?;
     }
     let sensor_signal = band.signal(target.apparent_k)?;
+    let with_air = |u: f64| if target.air.is_some() { u } else { 0.0 };
+    let with_window = |u: f64| if target.window.is_some() { u } else { 0.0 };
     let uncertainties = InputUncertainties {
-        // Imager noise (NETD) of 0.05 K expressed in signal units, and a calibration
-        // uncertainty of 1 K (both invented instrument figures).
-        signal: 0.05 * band.radiance_derivative(target.apparent_k)?,
-        calibration_k: 1.0,
+        // The NETD expressed in signal units at the reading.
+        signal: NETD_K * band.radiance_derivative(target.apparent_k)?,
+        calibration_k: CALIBRATION_K,
         emissivity: target.u_emissivity,
         reflected_k: target.u_reflected_k,
-        atm_transmittance: if target.air.is_some() { 0.01 } else { 0.0 },
-        atm_k: if target.air.is_some() { 1.0 } else { 0.0 },
-        window_transmittance: if target.window.is_some() { 0.02 } else { 0.0 },
-        window_reflectance: if target.window.is_some() { 0.01 } else { 0.0 },
-        window_k: if target.window.is_some() { 2.0 } else { 0.0 },
-        window_reflected_k: if target.window.is_some() { 2.0 } else { 0.0 },
+        atm_transmittance: with_air(U_ATM_TRANSMITTANCE),
+        atm_k: with_air(U_ATM_K),
+        window_transmittance: with_window(U_WINDOW_TRANSMITTANCE),
+        window_reflectance: with_window(U_WINDOW_REFLECTANCE),
+        window_k: with_window(U_WINDOW_K),
+        window_reflected_k: with_window(U_WINDOW_K),
         ..InputUncertainties::default()
     };
     let budget = surface_budget(&scene, band, sensor_signal, &uncertainties)?;
@@ -203,61 +235,209 @@ fn correct(band: &Band<'_>, target: &Target) -> Result<Row, Error> {
             SURFACE_INPUT_NAMES.get(c.index).copied().unwrap_or("-")
         }),
         top_share: top.map_or(0.0, |c| c.variance_share),
-        transmittance,
+        atm_transmittance,
     })
 }
 
-fn main() -> Result<(), Error> {
+/// The flag of a corrected reading, by the survey's rule.
+fn flag(row: &Row) -> &'static str {
+    if row.expanded_k > FLAG_EXPANDED_K {
+        "UNSURE"
+    } else if row.top_share > FLAG_DOMINANT_SHARE {
+        "CHECK"
+    } else {
+        "OK"
+    }
+}
+
+/// A fraction as a percentage without decimals.
+fn percent(fraction: f64) -> String {
+    format!("{:.0} %", 100.0 * fraction)
+}
+
+/// The whole report, lines of at most [`REPORT_COLUMNS`] characters.
+///
+/// # Errors
+/// Errors of the band (none for the built-in response) and of formatting.
+pub fn report() -> Result<String, Error> {
     let response = SpectralTable::new(&RESPONSE_UM, &RESPONSE)?;
     let band = Band::with_response(8.0, 14.0, Detector::Energy, response)?;
+    let targets = targets();
+    let rows: Vec<Result<Row, Error>> = targets.iter().map(|t| correct(&band, t)).collect();
+    let mut out = String::new();
+    // Writing to a String cannot fail.
+    let mut line = |text: String| {
+        let _ = writeln!(out, "{text}");
+    };
 
-    println!("Larkspur Valley Paper Mill: quarterly thermographic survey (INVENTED DATA)");
-    println!("Instrument: LV-T8 survey imager (fictional), 8-14 um microbolometer\n");
-    println!(
-        "{:<38} {:>5} {:>9} {:>6} {:>9} {:>8} {:>8}  {:<30} flag",
-        "target", "e", "apparent", "tau", "object", "object", "U(k=2)", "largest input (share)"
+    line(
+        "Larkspur Valley Paper Mill: quarterly thermographic survey. INVENTED DATA, not measured."
+            .into(),
     );
-    println!(
-        "{:<38} {:>5} {:>9} {:>6} {:>9} {:>8} {:>8}",
-        "", "", "K", "", "K", "degC", "K"
+    line("Instrument: survey imager (fictional), 8-14 um microbolometer, invented spectral response.".into());
+    line(format!(
+        "Assumed instrument uncertainties (standard, k = 1): noise {NETD_K} K (NETD), calibration \
+         {CALIBRATION_K:.1} K."
+    ));
+    line(format!(
+        "Air: continuum model (Roberts, Selby and Biberman 1976) at {PRESSURE_HPA} hPa, u(ta) \
+         {U_ATM_TRANSMITTANCE}, u(Ta) {U_ATM_K:.0} K."
+    ));
+    line(format!(
+        "Window: at panel temperature, reflecting the room; u(tw) {U_WINDOW_TRANSMITTANCE}, u(rw) \
+         {U_WINDOW_REFLECTANCE}, u(Tw) {U_WINDOW_K:.0} K."
+    ));
+    line(String::new());
+    line("Flags (this survey's own rule, not a standard); the first that applies:".into());
+    line(
+        "  REFUSED  no temperature: the signal is at or below what the surroundings alone give"
+            .into(),
     );
-    for target in &targets() {
-        match correct(&band, target) {
-            Ok(row) => {
-                let flag = if row.expanded_k > FLAG_EXPANDED_K {
-                    "CHECK: uncertainty too large to act on"
-                } else if row.top_share > FLAG_DOMINANT_SHARE {
-                    "check: one input dominates"
-                } else {
-                    "ok"
-                };
-                println!(
-                    "{:<38} {:>5.2} {:>9.1} {:>6.3} {:>9.1} {:>8.1} {:>8.1}  {:<30} {}",
-                    target.name,
-                    target.emissivity,
-                    target.apparent_k,
-                    row.transmittance,
-                    row.object_k,
-                    row.object_k - CELSIUS_OFFSET_K,
-                    row.expanded_k,
-                    format!("{} ({:.0} %)", row.top_input, 100.0 * row.top_share),
-                    flag
+    line(format!(
+        "  UNSURE   U(k=2) above {FLAG_EXPANDED_K:.0} K: do not act on the reading"
+    ));
+    line(format!(
+        "  CHECK    one input above {} of the variance: firm up that input before acting",
+        percent(FLAG_DOMINANT_SHARE)
+    ));
+    line("  OK       none of these".into());
+    line(String::new());
+    line(format!(
+        "{:>2} {:<34} {:>5} {:>8} {:>6} {:>6} {:>8} {:>7} {:>7}  {}",
+        "#", "target", "e", "apparent", "air", "window", "object", "object", "U(k=2)", "flag"
+    ));
+    line(format!(
+        "{:>2} {:<34} {:>5} {:>8} {:>6} {:>6} {:>8} {:>7} {:>7}",
+        "", "", "", "K", "ta", "tw", "K", "degC", "K"
+    ));
+    for (i, (target, row)) in targets.iter().zip(&rows).enumerate() {
+        let air = match row {
+            Ok(Row {
+                atm_transmittance: Some(ta),
+                ..
+            }) => format!("{ta:.3}"),
+            _ if target.air.is_some() => "?".into(),
+            _ => "-".into(),
+        };
+        let window = target
+            .window
+            .as_ref()
+            .map_or("-".into(), |w| format!("{:.2}", w.transmittance));
+        let (object, celsius, expanded, flagged) = match row {
+            Ok(row) => (
+                format!("{:.1}", row.object_k),
+                format!("{:.1}", row.object_k - CELSIUS_OFFSET_K),
+                format!("{:.1}", row.expanded_k),
+                flag(row),
+            ),
+            Err(_) => ("-".into(), "-".into(), "-".into(), "REFUSED"),
+        };
+        line(format!(
+            "{:>2} {:<34} {:>5.2} {:>8.1} {:>6} {:>6} {:>8} {:>7} {:>7}  {}",
+            i + 1,
+            target.name,
+            target.emissivity,
+            target.apparent_k,
+            air,
+            window,
+            object,
+            celsius,
+            expanded,
+            flagged
+        ));
+    }
+
+    line(String::new());
+    line(
+        "Inputs of each reading (standard uncertainties in brackets), and what the result says:"
+            .into(),
+    );
+    for (i, (target, row)) in targets.iter().zip(&rows).enumerate() {
+        line(format!("{:>2} {}", i + 1, target.name));
+        line(format!(
+            "   emissivity {:.2} [{:.2}], reflected apparent temperature {:.1} K [{:.1} K]",
+            target.emissivity, target.u_emissivity, target.reflected_k, target.u_reflected_k
+        ));
+        match &target.air {
+            Some(path) => line(format!(
+                "   air path {:.0} m at {:.1} K, relative humidity {}",
+                path.distance_m,
+                path.air_k,
+                percent(path.relative_humidity)
+            )),
+            None => line("   air path: negligible (ta = 1)".into()),
+        }
+        match &target.window {
+            Some(w) => line(format!(
+                "   window tw {:.2}, rw {:.2}, at {:.1} K, reflecting {:.1} K",
+                w.transmittance, w.reflectance, target.reflected_k, target.reflected_k
+            )),
+            None => line("   window: none".into()),
+        }
+        match row {
+            Ok(row) => line(format!(
+                "   largest input: {}, {} of the variance",
+                row.top_input,
+                percent(row.top_share)
+            )),
+            Err(Error::SignalBelowBackground) => {
+                line(
+                    "   REFUSED: the reading is at or below what reflections and the window".into(),
+                );
+                line(format!(
+                    "   alone give (e {:.2} against {:.0} K surroundings). Next: apply tape or paint",
+                    target.emissivity, target.reflected_k
+                ));
+                line(
+                    "   of known emissivity beside the spot (at the next outage for energised"
+                        .into(),
+                );
+                line(
+                    "   gear) and measure again, or shield the spot from the hot surroundings."
+                        .into(),
                 );
             }
-            Err(error) => println!(
-                "{:<38} {:>5.2} {:>9.1} {:>6} {:>9} {:>8} {:>8}  {:<30} CANNOT RESOLVE: {}",
-                target.name, target.emissivity, target.apparent_k, "-", "-", "-", "-", "-", error
-            ),
+            Err(error) => line(format!("   REFUSED: {error}")),
+        }
+        if let Some(path) = target.air.as_ref().filter(|p| p.distance_m >= LONG_PATH_M) {
+            line(format!(
+                "   caution: over {:.0} m the continuum model's ta is an upper bound (it leaves",
+                path.distance_m
+            ));
+            line(
+                "   out water-vapour lines, CO2 and haze): the true ta is lower and the object"
+                    .into(),
+            );
+            line(
+                "   hotter than shown. For a firmer figure use a radiative-transfer table.".into(),
+            );
         }
     }
-    println!(
-        "\nFlags are this survey's own rule: U(k=2) > {FLAG_EXPANDED_K} K, or one input above \
-         {:.0} % of the variance.",
-        100.0 * FLAG_DOMINANT_SHARE
+
+    let energised: Vec<String> = targets
+        .iter()
+        .enumerate()
+        .filter(|(_, t)| t.energised)
+        .map(|(i, _)| (i + 1).to_string())
+        .collect();
+    line(String::new());
+    line(format!(
+        "CAUTION: targets {} are energised electrical equipment: inspected only by qualified",
+        energised.join(" and ")
+    ));
+    line(
+        "persons with the required protective equipment, under the site's permits, lock-out rules"
+            .into(),
     );
-    println!(
-        "A reading is not a safety clearance: follow the site's permits, local codes and \
-         licensed practice."
+    line(
+        "and local codes. A temperature in this report is not a safety clearance. The steam line"
+            .into(),
     );
+    line("and the kiln are burn hazards: keep the site's distances and permits there too.".into());
+    Ok(out)
+}
+
+fn main() -> Result<(), Error> {
+    print!("{}", report()?);
     Ok(())
 }

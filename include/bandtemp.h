@@ -40,6 +40,38 @@
 #define BT_BUDGET_MAX_LINES 16
 
 /**
+ * Most bands a multi-wavelength fit holds.
+ */
+#define BT_MULTIWAVELENGTH_MAX_BANDS 16
+
+/**
+ * Most coefficients of the ln-emissivity polynomial (0 known, 1 grey, 2 linear,
+ * 3 quadratic).
+ */
+#define BT_MULTIWAVELENGTH_MAX_TERMS 3
+
+/**
+ * `bt_target_check` rule: ISO 10878:2013, target >= the 99 % spot (distance / D:S).
+ */
+#define BT_TARGET_RULE_ISO10878 0
+
+/**
+ * `bt_target_check` rule: "3 x 3 pixels", common practice with no standard behind it.
+ */
+#define BT_TARGET_RULE_THREE_BY_THREE 1
+
+/**
+ * `bt_target_check` rule: Pusnik and Gersak 2021 (Sensors 21, 607), >= 10 x 10 pixels
+ * with the central 3 x 3 averaged.
+ */
+#define BT_TARGET_RULE_PUSNIK_GERSAK 2
+
+/**
+ * Most lines of a `bt_site_budget`.
+ */
+#define BT_SITE_BUDGET_MAX_LINES 4
+
+/**
  * What a `bt_` function reports: `BT_STATUS_OK` (0) or the named reason it failed.
  *
  * Values are explicit and never reused: a retired status keeps its number unused. They
@@ -338,6 +370,10 @@ typedef enum {
      */
     BT_STATUS_BAND_OUTSIDE_TRANSMITTANCE_TABLE = 607,
     /**
+     * The air path is opaque: its transmittance underflows a double.
+     */
+    BT_STATUS_PATH_OPAQUE = 608,
+    /**
      * A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
      */
     BT_STATUS_FRAME_RANGE_INVALID = 700,
@@ -388,6 +424,103 @@ typedef enum {
      * The curve given to update a converter is not the one its table was built from.
      */
     BT_STATUS_FRAME_CURVE_MISMATCH = 711,
+    /**
+     * A calibration-curve form outside its declared values (`bt_curve.form`, or a form
+     * argument, not 0 or 1).
+     */
+    BT_STATUS_INVALID_CURVE_FORM = 1100,
+    /**
+     * A verification temperature range without 0 < lo_k < hi_k.
+     */
+    BT_STATUS_VERIFY_RANGE_INVALID = 1000,
+    /**
+     * A verification sample count out of bounds (see `bt_verify_*`).
+     */
+    BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID = 1001,
+    /**
+     * A verification over calibration points was given none.
+     */
+    BT_STATUS_VERIFY_NO_POINTS = 1002,
+    /**
+     * A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+     */
+    BT_STATUS_VERIFY_COVARIANCE_INVALID = 1003,
+    /**
+     * A distance-to-spot ratio, IFOV, pixel pitch, focal length, f-number, wavelength or distance that is not positive.
+     */
+    BT_STATUS_OPTICS_GEOMETRY_INVALID = 900,
+    /**
+     * A target size (diameter) that is not positive.
+     */
+    BT_STATUS_TARGET_SIZE_NOT_POSITIVE = 901,
+    /**
+     * An encircled-energy or signal fraction outside (0, 1).
+     */
+    BT_STATUS_FRACTION_OUT_OF_RANGE = 902,
+    /**
+     * A spatial frequency below zero.
+     */
+    BT_STATUS_SPATIAL_FREQUENCY_NEGATIVE = 903,
+    /**
+     * A size-of-source table with fewer than two points, arrays of different length, diameters not positive and strictly increasing, or a sigma outside [0, 1).
+     */
+    BT_STATUS_SSE_TABLE_INVALID = 904,
+    /**
+     * A source diameter outside the span of the size-of-source table (no extrapolation).
+     */
+    BT_STATUS_SSE_DIAMETER_OUTSIDE_TABLE = 905,
+    /**
+     * Optical constants with n <= 0, k < 0, or |m| above 1e6.
+     */
+    BT_STATUS_REFRACTIVE_INDEX_INVALID = 906,
+    /**
+     * A viewing angle outside [0, 89.999] degrees.
+     */
+    BT_STATUS_ANGLE_OUT_OF_RANGE = 907,
+    /**
+     * A relative emissivity tolerance outside (0, 1).
+     */
+    BT_STATUS_ANGLE_TOLERANCE_INVALID = 908,
+    /**
+     * An electrical resistivity that is not positive.
+     */
+    BT_STATUS_RESISTIVITY_NOT_POSITIVE = 909,
+    /**
+     * The Hagen-Rubens first term exceeds 0.2, where its error reaches 10 %.
+     */
+    BT_STATUS_HAGEN_RUBENS_OUT_OF_RANGE = 910,
+    /**
+     * Fewer bands than the emissivity model has parameters plus one (temperature).
+     */
+    BT_STATUS_TOO_FEW_BANDS = 911,
+    /**
+     * More bands than multi-wavelength pyrometry holds (`multiwavelength::MAX_BANDS`).
+     */
+    BT_STATUS_TOO_MANY_BANDS = 912,
+    /**
+     * Band, wavelength or signal arrays of different lengths.
+     */
+    BT_STATUS_BAND_COUNT_MISMATCH = 913,
+    /**
+     * The multi-wavelength normal matrix is singular: the bands cannot separate temperature from emissivity.
+     */
+    BT_STATUS_MULTIWAVELENGTH_ILL_CONDITIONED = 914,
+    /**
+     * The multi-wavelength Gauss-Newton fit did not converge.
+     */
+    BT_STATUS_MULTIWAVELENGTH_NOT_CONVERGED = 915,
+    /**
+     * An emissivity model outside its declared values (0-3 polynomial terms).
+     */
+    BT_STATUS_EMISSIVITY_MODEL_INVALID = 916,
+    /**
+     * A minimum-target rule outside its declared values (C ABI only).
+     */
+    BT_STATUS_TARGET_RULE_INVALID = 917,
+    /**
+     * Spectral moments with a mean wavelength that is not positive or a negative variance.
+     */
+    BT_STATUS_MOMENTS_INVALID = 918,
 } bt_status;
 
 /**
@@ -408,6 +541,23 @@ typedef enum {
      */
     BT_DETECTOR_PHOTON = 1,
 } bt_detector;
+
+/**
+ * The form of a calibration curve. Read as an integer and validated: any value other than
+ * 0 or 1 is `BT_STATUS_INVALID_CURVE_FORM`, never undefined behaviour.
+ */
+typedef enum {
+    /**
+     * Sakuma-Hattori, Planck form: S(T) = C / (exp(c2 / (A T + B)) - 1). The default;
+     * right at any wavelength.
+     */
+    BT_CURVE_FORM_PLANCK = 0,
+    /**
+     * Sakuma-Hattori, Wien form: S(T) = C exp(-c2 / (A T + B)). For short-wavelength
+     * pyrometers only (lambda T below about 3000 um K); not for thermal imagers.
+     */
+    BT_CURVE_FORM_WIEN = 1,
+} bt_curve_form;
 
 /**
  * A spectral band of an instrument: [lo_um, hi_um], a detector kind, and an optional
@@ -542,6 +692,65 @@ typedef struct {
 } bt_points_fit;
 
 /**
+ * A calibration curve: the Sakuma-Hattori equation in either form, behind a dark offset:
+ * the instrument reads S = `offset` + S_c(T), with S_c the curve of `form`
+ * (c2 = 14387.768775 um K). `offset` = 0 for a curve without one.
+ *
+ * Valid when A > 0, C > 0 and every number finite; the curve is defined where
+ * A T + B > 0. The Wien form's inverse needs S - offset < C.
+ */
+typedef struct {
+    /**
+     * The form of S_c.
+     */
+    bt_curve_form form;
+    /**
+     * A, um (an effective wavelength).
+     */
+    double a_um;
+    /**
+     * B, um K.
+     */
+    double b_umk;
+    /**
+     * C, signal units.
+     */
+    double c;
+    /**
+     * Dark offset (signal with the shutter closed), signal units; may be negative.
+     */
+    double offset;
+} bt_curve;
+
+/**
+ * The report of a curve fitted to blackbody readings.
+ */
+typedef struct {
+    /**
+     * The fitted curve, with the dark offset it was fitted behind.
+     */
+    bt_curve curve;
+    /**
+     * Covariance of (A um, B um K, C signal units), rows and columns in that order; first
+     * order. Without signal uncertainties it is estimated from the scatter of the
+     * temperature residuals, and with exactly three points every entry is NaN.
+     */
+    double covariance[3][3];
+    /**
+     * max |T_fit(S_i) - T_i| over the points, K.
+     */
+    double max_residual_k;
+    /**
+     * sqrt(mean (T_fit(S_i) - T_i)^2) over the points, K.
+     */
+    double rms_residual_k;
+    /**
+     * Levenberg-Marquardt iterations used.
+     */
+    uint32_t iterations;
+} bt_curve_fit;
+
+/**
  * The detector's rails: counts at or below `dead_counts` are dead pixels, counts at or
  * above `saturation_counts` saturated. A 16-bit converter: 0 and 65535; 14-bit: 0 and
  * 16383. Valid when `dead_counts < saturation_counts`.
@@ -670,6 +879,32 @@ typedef struct {
 } bt_frame_summary;
 
 /**
+ * The Wien-approximation model of a two-colour pyrometer, in closed form:
+ * R = S1/S2 = kappa W exp(-c2 / (lambda_R T)), 1/lambda_R = 1/lambda1 - 1/lambda2,
+ * kappa = e1/e2. `prefactor` W is the parameter the closed form needs besides the two
+ * wavelengths: the ratio a grey body would give at infinite temperature in the Wien
+ * approximation, W = (c1 lambda1^-n D1) / (c1 lambda2^-n D2) for bands of response
+ * integral D_i (n = 5 energy, 4 photon). `bt_wien_ratio_from_bands` fills all three
+ * from two bands; a calibrated instrument may set W from its own ratio calibration.
+ *
+ * Valid when both wavelengths are positive and differ, and W > 0 (all finite).
+ */
+typedef struct {
+    /**
+     * Effective wavelength of band 1, um.
+     */
+    double lambda1_um;
+    /**
+     * Effective wavelength of band 2, um.
+     */
+    double lambda2_um;
+    /**
+     * Prefactor W, ratio units (S1/S2).
+     */
+    double prefactor;
+} bt_wien_ratio;
+
+/**
  * Standard uncertainties of the inputs of a surface-temperature measurement, each in its
  * input's unit (0 = known exactly; every value finite and >= 0). The order and names of
  * the inputs are those of `bt_surface_input_name`.
@@ -774,6 +1009,459 @@ typedef struct {
      */
     bt_contribution ranked[BT_BUDGET_MAX_LINES];
 } bt_budget;
+
+/**
+ * The result of a Monte Carlo propagation (JCGM 101:2008) of a surface temperature.
+ */
+typedef struct {
+    /**
+     * Number of trials M.
+     */
+    size_t trials;
+    /**
+     * Mean of the trial temperatures, the Monte Carlo estimate, K. Standard error
+     * sigma / sqrt(M) for a spread sigma.
+     */
+    double mean_k;
+    /**
+     * Standard deviation of the trial temperatures, the standard uncertainty, K
+     * (relative standard error about 1 / sqrt(2 (M - 1))).
+     */
+    double standard_deviation_k;
+    /**
+     * The coverage probability of the intervals, as requested (e.g. 0.95).
+     */
+    double probability;
+    /**
+     * Probabilistically symmetric interval: the (1-p)/2 and (1+p)/2 quantiles, K.
+     */
+    double low_k;
+    /**
+     * Upper end of the symmetric interval, K.
+     */
+    double high_k;
+    /**
+     * Shortest interval holding the fraction p of the trials, K.
+     */
+    double shortest_low_k;
+    /**
+     * Upper end of the shortest interval, K.
+     */
+    double shortest_high_k;
+} bt_monte_carlo;
+
+/**
+ * The tables of a spectral (non-grey) scene: emissivity e(lambda) and air-path
+ * transmittance ta(lambda), each a table of wavelengths (um, positive, strictly
+ * increasing) and values in [0, 1], linear between points. Each table must cover the
+ * whole band (a table reads zero outside its span, which would silently make the surface
+ * a perfect reflector there, so a short table is an error). A length of 0 keeps the
+ * scene's grey value (`bt_scene.emissivity` or `bt_scene.atm_transmittance`) and accepts
+ * NULL pointers. The air path emits (1 - ta(lambda)) L(lambda, Ta) at
+ * `bt_scene.atm_k`; the window stays grey.
+ *
+ * Measurement equation, r the band's response:
+ * S = tw * integral r [ ta e L(T) + ta (1-e) L(Tr) + (1-ta) L(Ta) ] dlambda
+ *     + rw Lb(Twr) + (1-tw-rw) Lb(Tw).
+ */
+typedef struct {
+    /**
+     * Wavelengths of the emissivity table, um; `emissivity_len` entries.
+     */
+    const double *emissivity_um;
+    /**
+     * Emissivity at `emissivity_um`, each in [0, 1].
+     */
+    const double *emissivity;
+    /**
+     * Points in the emissivity table; 0 for the grey `bt_scene.emissivity`.
+     */
+    size_t emissivity_len;
+    /**
+     * Wavelengths of the transmittance table, um; `transmittance_len` entries.
+     */
+    const double *transmittance_um;
+    /**
+     * Air-path transmittance at `transmittance_um`, each in [0, 1].
+     */
+    const double *transmittance;
+    /**
+     * Points in the transmittance table; 0 for the grey `bt_scene.atm_transmittance`.
+     */
+    size_t transmittance_len;
+} bt_spectral_tables;
+
+/**
+ * Residuals T_curve(S_i) - T_i of a calibration curve at its blackbody points, K.
+ */
+typedef struct {
+    /**
+     * Points checked.
+     */
+    size_t points;
+    /**
+     * max |T_curve(S_i) - T_i|, K.
+     */
+    double max_abs_residual_k;
+    /**
+     * sqrt(mean (T_curve(S_i) - T_i)^2), K.
+     */
+    double rms_residual_k;
+    /**
+     * mean (T_curve(S_i) - T_i), K.
+     */
+    double mean_residual_k;
+    /**
+     * Index of the worst point (the first, on a tie).
+     */
+    size_t worst_index;
+    /**
+     * The worst point's blackbody temperature, K.
+     */
+    double worst_t_k;
+    /**
+     * The worst point's signed residual, K (positive: the curve reads warm).
+     */
+    double worst_residual_k;
+} bt_verify_residuals_report;
+
+/**
+ * A calibration curve against the exact band model over a range, K.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max |T_curve(S(L_band(T))) - T|, K.
+     */
+    double max_abs_error_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * The signed error there, K (positive: the curve reads warm).
+     */
+    double worst_error_k;
+    /**
+     * Mean signed error over the samples, K.
+     */
+    double mean_error_k;
+} bt_verify_curve_report;
+
+/**
+ * Round trip T -> S(T) -> T(S) and monotonicity of a curve over a range.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max |T(S(T)) - T|, K.
+     */
+    double max_abs_error_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * The signed error there, K.
+     */
+    double worst_error_k;
+    /**
+     * 1 when S, dS/dT and T(S) rose over every sample, else 0.
+     */
+    uint32_t monotonic;
+    /**
+     * The first sample temperature where they did not, K; 0 when `monotonic` is 1.
+     */
+    double first_non_monotonic_k;
+} bt_verify_round_trip_report;
+
+/**
+ * Coverage of a range by blackbody points, K.
+ */
+typedef struct {
+    /**
+     * Points given.
+     */
+    size_t points;
+    /**
+     * Points inside [lo_k, hi_k].
+     */
+    size_t points_in_range;
+    /**
+     * The coldest point, K.
+     */
+    double t_min_k;
+    /**
+     * The hottest point, K.
+     */
+    double t_max_k;
+    /**
+     * How far the range reaches below the coldest point (extrapolation), K; 0 if none.
+     */
+    double extrapolated_below_k;
+    /**
+     * How far the range reaches above the hottest point (extrapolation), K; 0 if none.
+     */
+    double extrapolated_above_k;
+    /**
+     * The widest interval inside the range between neighbouring points, K.
+     */
+    double largest_gap_k;
+    /**
+     * Its lower end (clipped to the range), K.
+     */
+    double gap_lo_k;
+    /**
+     * Its upper end (clipped to the range), K.
+     */
+    double gap_hi_k;
+} bt_verify_coverage_report;
+
+/**
+ * A frame table against exact inversion of its curve.
+ */
+typedef struct {
+    /**
+     * Rows checked.
+     */
+    size_t rows;
+    /**
+     * Signals sampled inside the table's range.
+     */
+    size_t samples;
+    /**
+     * max |T_table(L) - T_exact(L)|, K.
+     */
+    double max_abs_error_k;
+    /**
+     * The signal where it occurs (the first, on a tie), curve units.
+     */
+    double worst_signal;
+    /**
+     * The exact temperature there, K.
+     */
+    double worst_t_k;
+    /**
+     * The signed table error there, K (positive: the table reads warm).
+     */
+    double worst_error_k;
+    /**
+     * Samples inside the range for which the table gave no finite temperature (refused,
+     * or NaN or infinite from corrupted rows; a sound table has none).
+     */
+    size_t refused;
+    /**
+     * Neighbouring samples where the table's temperature fell with rising signal (a
+     * sound table has none).
+     */
+    size_t non_monotonic;
+    /**
+     * The maximum error the table's construction measured, K.
+     */
+    double claimed_max_error_k;
+} bt_verify_table_report;
+
+/**
+ * The standard uncertainty (k = 1) of a calibration's temperatures over a range, K.
+ */
+typedef struct {
+    /**
+     * Temperatures sampled.
+     */
+    size_t samples;
+    /**
+     * max u(T), K.
+     */
+    double max_u_k;
+    /**
+     * Where it occurs (the first, on a tie), K.
+     */
+    double worst_t_k;
+    /**
+     * u(T) at lo_k, K.
+     */
+    double lo_u_k;
+    /**
+     * u(T) at hi_k, K.
+     */
+    double hi_u_k;
+} bt_verify_uncertainty_report;
+
+/**
+ * Directional spectral emissivity at one angle, by polarisation.
+ */
+typedef struct {
+    /**
+     * s (TE) polarisation.
+     */
+    double s;
+    /**
+     * p (TM) polarisation.
+     */
+    double p;
+    /**
+     * Unpolarised, (s + p) / 2.
+     */
+    double unpolarised;
+} bt_directional_emissivity;
+
+/**
+ * The result of `bt_multiwavelength_fit`.
+ */
+typedef struct {
+    /**
+     * Temperature, K.
+     */
+    double temperature_k;
+    /**
+     * Coefficients a_0.. of ln e = a_0 + a_1 lambda + a_2 lambda^2 (lambda in um; a_j in
+     * um^-j); unused ones are 0.
+     */
+    double coefficients[BT_MULTIWAVELENGTH_MAX_TERMS];
+    /**
+     * Number of coefficients fitted.
+     */
+    uint32_t terms;
+    /**
+     * Gauss-Newton iterations used.
+     */
+    uint32_t iterations;
+    /**
+     * Noise gain: std(dT/T) per unit standard deviation of ln S in each band.
+     */
+    double noise_gain;
+    /**
+     * dT/T per unit coefficient of the first omitted term lambda^terms.
+     */
+    double bias_per_next_term;
+    /**
+     * RMS of the residuals in ln S.
+     */
+    double residual_rms;
+} bt_multiwavelength_result;
+
+/**
+ * The outcome of `bt_target_check`.
+ */
+typedef struct {
+    /**
+     * The rule applied (a `BT_TARGET_RULE_*` value).
+     */
+    uint32_t rule;
+    /**
+     * 1 when the target satisfies the rule, 0 when it does not.
+     */
+    uint32_t valid;
+    /**
+     * The smallest target the rule accepts at this distance, m.
+     */
+    double minimum_m;
+    /**
+     * Target size over `minimum_m` (>= 1 when valid).
+     */
+    double ratio;
+    /**
+     * Pixel footprints across the target (imager rules), or target over spot (ISO).
+     */
+    double across;
+} bt_target_verdict;
+
+/**
+ * The MTF of an imager at one spatial frequency (`bt_mtf_evaluate`).
+ */
+typedef struct {
+    /**
+     * Diffraction MTF of the circular aperture.
+     */
+    double diffraction;
+    /**
+     * Pixel MTF of a square pixel, 100 % fill factor.
+     */
+    double pixel;
+    /**
+     * Their product.
+     */
+    double system;
+} bt_mtf;
+
+/**
+ * A size-of-source correction (`bt_sse_correct`).
+ */
+typedef struct {
+    /**
+     * Exact relative signal error, (1 - sigma_meas)/(1 - sigma_cal) - 1.
+     */
+    double relative_signal;
+    /**
+     * First-order form sigma(d_cal) - sigma(d_meas).
+     */
+    double relative_signal_first_order;
+    /**
+     * The reading corrected to the calibration source size, K.
+     */
+    double corrected_k;
+    /**
+     * corrected_k minus the reading, K.
+     */
+    double correction_k;
+} bt_sse_correction;
+
+/**
+ * One line of a `bt_site_budget`.
+ */
+typedef struct {
+    /**
+     * The input's position (0-based) in the function's argument order (documented with
+     * each function).
+     */
+    size_t index;
+    /**
+     * Standard uncertainty u(x_i), input unit.
+     */
+    double standard_uncertainty;
+    /**
+     * Sensitivity coefficient c_i, estimate unit per input unit.
+     */
+    double sensitivity;
+    /**
+     * Contribution |c_i| u(x_i), estimate unit.
+     */
+    double contribution;
+    /**
+     * Share of the combined variance.
+     */
+    double variance_share;
+} bt_site_line;
+
+/**
+ * A site-method budget: the estimate (emissivity, dimensionless, or reflected apparent
+ * temperature, K, as each function says), its combined standard uncertainty in the same
+ * unit, and the lines ranked largest first.
+ */
+typedef struct {
+    /**
+     * The estimate (emissivity, or K for a reflected temperature).
+     */
+    double estimate;
+    /**
+     * Combined standard uncertainty, in the estimate's unit.
+     */
+    double combined_standard_uncertainty;
+    /**
+     * Number of lines in use.
+     */
+    size_t len;
+    /**
+     * Lines ranked by contribution, largest first; unused lines are zero.
+     */
+    bt_site_line ranked[BT_SITE_BUDGET_MAX_LINES];
+} bt_site_budget;
 
 #ifdef __cplusplus
 extern "C" {
@@ -1094,6 +1782,113 @@ bt_status bt_sakuma_hattori_fit_points_report(const double *t_k,
                                               bt_points_fit *out);
 
 /**
+ * Signal of a blackbody at `temperature_k` on the curve, S = offset + S_c(T), signal
+ * units: S_c = C / (exp(c2/(A T + B)) - 1) (Planck form) or C exp(-c2/(A T + B)) (Wien).
+ *
+ * Accuracy: a few ulp (one exp or expm1 and a division).
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_INVALID_CURVE_FORM`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_CALIBRATION_PARAMETER_INVALID`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN` where A T + B <= 0,
+ * `BT_STATUS_RADIANCE_UNDERFLOW` where S_c underflows.
+ *
+ * # Safety
+ * `curve` null or valid for reading a `bt_curve`; `out` null or valid for writing a
+ * double; written only on success.
+ */
+bt_status bt_curve_signal(const bt_curve *curve, double temperature_k, double *out);
+
+/**
+ * Temperature, K, whose signal on the curve is `signal`, in closed form:
+ * T = (c2 / ln(C/(S - offset) + 1) - B) / A (Planck form) or
+ * T = (c2 / ln(C/(S - offset)) - B) / A (Wien form).
+ *
+ * Accuracy: a few ulp of the closed form. Errors: those of `bt_curve_signal` for the
+ * curve, `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for S <= offset,
+ * `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN` when the result is not a positive temperature
+ * (in the Wien form also for S - offset >= C).
+ *
+ * # Safety
+ * As `bt_curve_signal`, with `temperature_k` the out-pointer.
+ */
+bt_status bt_curve_temperature(const bt_curve *curve, double signal, double *temperature_k);
+
+/**
+ * Instrument signal for an object at `object_k` in the scene: the measurement equation
+ * with L(T) replaced by the curve's S(T) (the offset enters once, since the weights sum
+ * to 1), signal units.
+ *
+ * Errors: those of `bt_curve_signal` and of the scene (`bt_sensor_radiance`).
+ *
+ * # Safety
+ * `curve` as in `bt_curve_signal`; `scene` null or valid for reading a `bt_scene`; `out`
+ * null or valid for writing a double; written only on success.
+ */
+bt_status bt_curve_sensor_signal(const bt_curve *curve,
+                                 const bt_scene *scene,
+                                 double object_k,
+                                 double *out);
+
+/**
+ * True temperature of the object, K, from the instrument signal in the scene: the
+ * measurement equation solved over the curve (as `bt_object_temperature`, within 1e-12 T).
+ *
+ * Errors: those of `bt_curve_sensor_signal` and `bt_curve_temperature`, and
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND`.
+ *
+ * # Safety
+ * As `bt_curve_sensor_signal`, with `object_k` the out-pointer.
+ */
+bt_status bt_curve_object_temperature(const bt_curve *curve,
+                                      const bt_scene *scene,
+                                      double signal,
+                                      double *object_k);
+
+/**
+ * Fits a curve of `form` (a `bt_curve_form` value: `BT_CURVE_FORM_PLANCK` or
+ * `BT_CURVE_FORM_WIEN`) to a band's exact radiance over [t_lo_k, t_hi_k]; `out->offset`
+ * is 0 and C is in band-radiance units. `max_error_k` receives
+ * max |T_fit(L_band(T)) - T| over 2001 temperatures of the range, measured against the
+ * exact band integral (for example 14 uK for 0.645-0.655 um over 700-1400 K, Planck form).
+ *
+ * Errors: `BT_STATUS_INVALID_CURVE_FORM`, and those of `bt_sakuma_hattori_fit_band`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a `bt_curve`;
+ * `max_error_k` null or valid for writing a double; both written only on success.
+ */
+bt_status bt_curve_fit_band(int form,
+                            const bt_band *band,
+                            double t_lo_k,
+                            double t_hi_k,
+                            bt_curve *out,
+                            double *max_error_k);
+
+/**
+ * Fits a curve of `form` (`BT_CURVE_FORM_PLANCK` or `BT_CURVE_FORM_WIEN`) to `n` >= 3
+ * blackbody readings (`t_k[i]` K, `signal[i]` signal units) behind a known
+ * `dark_offset`: the curve is fitted to signal[i] - dark_offset by Levenberg-Marquardt,
+ * in temperature without `signal_u` (NULL), or by maximum likelihood in signal with the
+ * signals' standard uncertainties `signal_u` (n positive doubles). `out->curve.offset`
+ * is `dark_offset`. Exact data from a curve of the form are recovered to below 1 uK.
+ *
+ * Errors: `BT_STATUS_INVALID_CURVE_FORM`, those of
+ * `bt_sakuma_hattori_fit_points_report`, `BT_STATUS_NON_FINITE` for the offset and
+ * `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` for a signal at or below it.
+ *
+ * # Safety
+ * `t_k`, `signal` and (unless NULL) `signal_u` valid for reading `n` doubles; `out` null
+ * or valid for writing a `bt_curve_fit`; written only on success.
+ */
+bt_status bt_curve_fit_points(int form,
+                              const double *t_k,
+                              const double *signal,
+                              const double *signal_u,
+                              size_t n,
+                              double dark_offset,
+                              bt_curve_fit *out);
+
+/**
  * Rows a table of the band's radiance over [lo_k, hi_k] needs so that every pixel of a
  * uniform scene is within `tolerance_k` (K) of exact inversion: the coarsest of
  * 2^0..2^12 rows per octave of signal that meets it. Storage is 16 bytes per row.
@@ -1349,6 +2144,76 @@ bt_status bt_ratio_temperature(const bt_band *band1,
                                double *temperature_k);
 
 /**
+ * The Wien model of two bands: lambda_i the response-weighted mean wavelength of band i
+ * (exact for piecewise-linear responses), W from the bands' response integrals and
+ * detector kinds.
+ *
+ * The closed form agrees with the exact solver (`bt_ratio_temperature`) for narrow
+ * short-wave bands (0.4 K at 800 K for 10 nm bands at 0.65 and 0.90 um) and not for wide
+ * ones (hundreds of kelvin off for 3-5 and 8-14 um bands).
+ * Errors: the bands' errors (as `bt_band_radiance`), `BT_STATUS_WAVELENGTH_NOT_POSITIVE`,
+ * `BT_STATUS_BANDS_INDISTINGUISHABLE` for equal effective wavelengths,
+ * `BT_STATUS_RATIO_NOT_POSITIVE`, `BT_STATUS_NON_FINITE`.
+ *
+ * # Safety
+ * `band1` and `band2` as in `bt_band_radiance`; `out` null or valid for writing a
+ * `bt_wien_ratio`; written only on success.
+ */
+bt_status bt_wien_ratio_from_bands(const bt_band *band1, const bt_band *band2, bt_wien_ratio *out);
+
+/**
+ * Signal ratio R = S1/S2 = kappa W exp(-c2 / (lambda_R T)) of the Wien model at
+ * `temperature_k`, kappa = `emissivity_ratio` = e1/e2 (1 for a grey surface).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, the model's errors (as
+ * `bt_wien_ratio_from_bands`), `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE`,
+ * `BT_STATUS_RATIO_OUT_OF_RANGE` when R is not a normal double.
+ *
+ * # Safety
+ * `model` null or valid for reading a `bt_wien_ratio`; `ratio` null or valid for writing
+ * a double; written only on success.
+ */
+bt_status bt_wien_ratio_signal_ratio(const bt_wien_ratio *model,
+                                     double temperature_k,
+                                     double emissivity_ratio,
+                                     double *ratio);
+
+/**
+ * Temperature from a signal ratio in the Wien model, closed form:
+ * 1/T = (lambda_R / c2) ln(kappa W / R), K. Exact inverse of
+ * `bt_wien_ratio_signal_ratio` (to a few ulp); its error against Planck's law is the
+ * model's (see `bt_wien_ratio_from_bands`).
+ *
+ * Errors: as `bt_wien_ratio_signal_ratio`, `BT_STATUS_RATIO_NOT_POSITIVE` for R <= 0,
+ * `BT_STATUS_RATIO_OUT_OF_RANGE` when no positive temperature gives R (R beyond
+ * kappa W, the infinite-temperature limit).
+ *
+ * # Safety
+ * As `bt_wien_ratio_signal_ratio`, with `temperature_k` the out-pointer.
+ */
+bt_status bt_wien_ratio_temperature(const bt_wien_ratio *model,
+                                    double ratio,
+                                    double emissivity_ratio,
+                                    double *temperature_k);
+
+/**
+ * Emissivity-slope correction of a grey ratio temperature in the Wien model:
+ * 1/T = 1/T_grey + (lambda_R / c2) ln kappa, K (kappa = e1/e2 > 1, emissivity falling
+ * with wavelength as for most metals, lowers the temperature). Exact within the model.
+ *
+ * Errors: as `bt_wien_ratio_signal_ratio`; `BT_STATUS_RATIO_OUT_OF_RANGE` when the
+ * corrected 1/T is not positive.
+ *
+ * # Safety
+ * As `bt_wien_ratio_signal_ratio`, with `temperature_k` the out-pointer.
+ */
+bt_status bt_wien_ratio_correct_grey(const bt_wien_ratio *model,
+                                     double grey_temperature_k,
+                                     double emissivity_ratio,
+                                     double *temperature_k);
+
+/**
  * Saturation vapour pressure of pure water vapour over a plane surface of liquid water
  * at `temperature_k`, hPa, by the CIMO (WMO No. 8) Magnus formula
  * e_w = 6.112 exp(17.62 t / (243.12 + t)), t in deg C; no enhancement factor.
@@ -1385,15 +2250,20 @@ bt_status bt_air_dew_point_k(double temperature_k, double relative_humidity, dou
  * put in `bt_scene.atm_transmittance`.
  *
  * `air_k` the air temperature, `relative_humidity` a fraction in [0, 1], `pressure_hpa`
- * in [500, 1100], `distance_m` >= 0 (0 gives 1), `object_k` the object temperature.
+ * in [500, 1100], `distance_m` >= 0 (0 gives 1), `object_k` the object temperature. The
+ * vapour pressure is e = RH f(p) e_w(T): the CIMO Magnus saturation pressure e_w times the
+ * enhancement factor f(p) = 1.0016 + 3.15e-6 p - 0.074/p of moist air (p in hPa).
  *
- * Accuracy: relative 1e-12 against quadrature of the model (the model's own error is
- * larger; see the crate's atmosphere docs).
+ * Accuracy: relative 1e-12 against quadrature of the model, thick paths included (the
+ * quadrature is sized by the optical depth as well as by the Planck variable; checked on
+ * 2-5 km of saturated air up to 60 C, energy and photon detectors). The model's own
+ * error is larger; see the crate's atmosphere docs.
  * Errors: the band's errors (as `bt_band_radiance`), `BT_STATUS_NON_FINITE`,
  * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE`,
  * `BT_STATUS_RELATIVE_HUMIDITY_OUT_OF_RANGE`, `BT_STATUS_AIR_PRESSURE_OUT_OF_RANGE`,
  * `BT_STATUS_DISTANCE_NEGATIVE`, `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` for a band
- * reaching outside 8-14 um, `BT_STATUS_RADIANCE_UNDERFLOW`.
+ * reaching outside 8-14 um, `BT_STATUS_RADIANCE_UNDERFLOW`, `BT_STATUS_PATH_OPAQUE` when
+ * nothing of the object's radiance gets through (the transmitted integral underflows).
  *
  * # Safety
  * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
@@ -1408,13 +2278,14 @@ bt_status bt_path_band_transmittance(const bt_band *band,
                                      double *out);
 
 /**
- * Spectral transmittance tau(lambda) = exp(-k w) in (0, 1] of a horizontal air path at
+ * Spectral transmittance tau(lambda) = exp(-k w) in [0, 1] of a horizontal air path at
  * `wavelength_um` (8-14 um), the water-vapour continuum model; arguments as
- * `bt_path_band_transmittance`.
+ * `bt_path_band_transmittance` (the same enhancement factor f(p) on the vapour pressure).
  *
  * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, the air's and path's
  * errors (as `bt_path_band_transmittance`), `BT_STATUS_OUTSIDE_CONTINUUM_MODEL` outside
- * 8-14 um.
+ * 8-14 um, `BT_STATUS_PATH_OPAQUE` when exp(-k w) underflows (an optical depth above about
+ * 745, e.g. thousands of km of humid air): a success is never 0.
  *
  * # Safety
  * `out` null or valid for writing a double; written only on success.
@@ -1430,8 +2301,8 @@ bt_status bt_path_spectral_transmittance(double air_k,
  * Uncertainty budget of a surface temperature by the law of propagation (GUM, first
  * order, inputs uncorrelated): the estimate is `bt_object_temperature` of
  * `sensor_radiance`, and each input of `u` enters with the exact derivative of the
- * measurement equation as its sensitivity coefficient. Inputs with u = 0 appear with a
- * zero contribution; `out->len` is 11.
+ * measurement equation as its sensitivity coefficient, whatever its uncertainty. Inputs
+ * with u = 0 appear with their real sensitivity and a zero contribution; `out->len` is 11.
  *
  * Valid where the measurement equation is near-linear over the input uncertainties
  * (low emissivity against a hot background is the classic case where it is not).
@@ -1457,6 +2328,825 @@ bt_status bt_surface_budget(const bt_band *band,
  * NUL-terminated string; NULL for an index past the last input (10). Do not free it.
  */
 const char *bt_surface_input_name(size_t index);
+
+/**
+ * Monte Carlo propagation (JCGM 101:2008) of the uncertainty of a surface temperature,
+ * seeded and reproducible: `n_samples` trials, each drawing every input of `u` and
+ * solving the measurement equation again (`bt_object_temperature`). Signal noise,
+ * calibration terms and temperatures are drawn normal; emissivity, transmittances and
+ * reflectance rectangular with the same standard uncertainty (half-width sqrt(3) u). The
+ * generator is xoshiro256** seeded from `seed` through SplitMix64: the same seed and
+ * inputs give the same result, bit for bit, on every platform.
+ *
+ * `samples` is the caller's storage for the M = `n_samples` trial temperatures (K); on
+ * success it holds them sorted ascending (for histograms or other quantiles). On error its
+ * contents are unspecified (some trials may have been written); `out` is untouched.
+ *
+ * Errors: those of `bt_surface_budget`; `BT_STATUS_TOO_FEW_TRIALS` for `n_samples` < 2
+ * (and, after the trials, when M is too small to hold an interval of `probability`),
+ * `BT_STATUS_COVERAGE_PROBABILITY_OUT_OF_RANGE` unless 0 < `probability` < 1 (both
+ * checked before any draw); any error of a trial: a draw outside the model's domain
+ * (e + sqrt(3) u(e) > 1, a transmittance above 1, or a signal at or below the background,
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND`) stops the run, since the stated distributions then
+ * put probability where the model is undefined.
+ *
+ * # Safety
+ * `band`, `scene`, `u` as in `bt_surface_budget`; `samples` null or valid for reading and
+ * writing `n_samples` doubles, overlapping no other argument; `out` null or valid for
+ * writing a `bt_monte_carlo`; written only on success.
+ */
+bt_status bt_surface_monte_carlo(const bt_band *band,
+                                 const bt_scene *scene,
+                                 double sensor_radiance,
+                                 const bt_input_uncertainties *u,
+                                 uint64_t seed,
+                                 double probability,
+                                 double *samples,
+                                 size_t n_samples,
+                                 bt_monte_carlo *out);
+
+/**
+ * As `bt_surface_monte_carlo` without a buffer: `trials` trials of the same draws,
+ * streamed into a running mean and standard deviation (Welford; no coverage interval,
+ * which needs the sorted trials). With the same seed, `mean_k` and
+ * `standard_deviation_k` equal those of `bt_surface_monte_carlo` with `trials` samples,
+ * bit for bit. Both are written only on success.
+ *
+ * Errors: as `bt_surface_monte_carlo` (`BT_STATUS_TOO_FEW_TRIALS` below 2 trials).
+ *
+ * # Safety
+ * `band`, `scene`, `u` as in `bt_surface_budget`; `mean_k` and `standard_deviation_k`
+ * each null or valid for writing a double.
+ */
+bt_status bt_surface_monte_carlo_streaming(const bt_band *band,
+                                           const bt_scene *scene,
+                                           double sensor_radiance,
+                                           const bt_input_uncertainties *u,
+                                           uint64_t seed,
+                                           size_t trials,
+                                           double *mean_k,
+                                           double *standard_deviation_k);
+
+/**
+ * Emissivity of a surface from its sensor radiance and its true temperature
+ * `reference_k` (K, from a contact probe): the measurement equation is linear in e,
+ * e = (S - W - tw ta L(Tr)) / (tw ta (L(Tref) - L(Tr))),
+ * W = tw (1-ta) L(Ta) + rw L(Twr) + (1-tw-rw) L(Tw). The scene's emissivity is ignored
+ * (it must still be a valid value in (0, 1]); every other input is used. An error dS in
+ * the reading gives de = dS / (tw ta (L(Tref) - L(Tr))): keep the surface well away from
+ * the reflected temperature. For an apparent reading, pass `bt_band_radiance` of it.
+ *
+ * Accuracy: closed form over the band radiances (full double precision for a rectangular
+ * band).
+ * Errors: those of `bt_sensor_radiance`; `BT_STATUS_TEMPERATURE_NOT_POSITIVE` for the
+ * reference; `BT_STATUS_EMISSIVITY_NOT_DETERMINED` when the surface is at the reflected
+ * temperature (every emissivity gives the same signal);
+ * `BT_STATUS_EMISSIVITY_READING_INCONSISTENT` when the result is outside (0, 1].
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` null or valid for reading a `bt_scene`;
+ * `emissivity` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_from_reference(const bt_band *band,
+                                       const bt_scene *scene,
+                                       double sensor_radiance,
+                                       double reference_k,
+                                       double *emissivity);
+
+/**
+ * Emissivity of a surface from a reference coating (tape or paint of known emissivity
+ * `coating_emissivity`) applied beside the spot: the coating's radiance gives the common
+ * temperature T (the scene solved with e = `coating_emissivity`), then the surface's
+ * emissivity follows as in `bt_emissivity_from_reference` at T. Both spots share the
+ * scene's reflected temperature, air path and window; the scene's own emissivity is
+ * ignored (it must still be valid). Writes the surface emissivity and T (K).
+ *
+ * Errors: those of `bt_object_temperature` for the coating
+ * (`BT_STATUS_EMISSIVITY_OUT_OF_RANGE` for a coating emissivity outside (0, 1],
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND`) and of `bt_emissivity_from_reference`.
+ *
+ * # Safety
+ * As `bt_emissivity_from_reference`; `emissivity` and `temperature_k` each null or valid
+ * for writing a double; both written only on success.
+ */
+bt_status bt_emissivity_from_reference_coating(const bt_band *band,
+                                               const bt_scene *scene,
+                                               double surface_radiance,
+                                               double coating_radiance,
+                                               double coating_emissivity,
+                                               double *emissivity,
+                                               double *temperature_k);
+
+/**
+ * Reflected apparent temperature Tr, K, from the sensor radiance of a diffuse reflector
+ * (crumpled aluminium foil, say) placed at the target in the same orientation:
+ * L(Tr) = [ (S_f - W) / (tw ta) - ef L(Tf) ] / (1 - ef), Tr = L^-1(L(Tr)), with
+ * `reflector_emissivity` ef in [0, 1) (0 for an ideal reflector) and its temperature
+ * `reflector_k` Tf (K; matters only when ef > 0). The scene's emissivity and reflected
+ * temperature are ignored (they must still be valid); air path and window are used.
+ *
+ * Accuracy: closed form, then the band inversion (1e-12 T).
+ * Errors: those of `bt_sensor_radiance`; `BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE` for the reflector;
+ * `BT_STATUS_REFLECTED_NOT_DETERMINED` when the reading is at or below what the
+ * reflector's own emission, the air and the window give; the errors of
+ * `bt_band_temperature`.
+ *
+ * # Safety
+ * As `bt_emissivity_from_reference`, with `reflected_k` the out-pointer.
+ */
+bt_status bt_reflected_temperature_from_reflector(const bt_band *band,
+                                                  const bt_scene *scene,
+                                                  double reflector_radiance,
+                                                  double reflector_emissivity,
+                                                  double reflector_k,
+                                                  double *reflected_k);
+
+/**
+ * Sensor radiance S of an object at `object_k` (K) in a spectral scene, band-radiance
+ * units (the equation at `bt_spectral_tables`).
+ *
+ * Accuracy: each band integral is Gauss-Legendre with panel edges at every table node,
+ * relative error below 1e-13 (checked against mpmath quadrature in
+ * `tests/scene_reference.rs` and scipy in `capi/tests/python/ctypes_check.py`).
+ * Errors: those of `bt_sensor_radiance`; for the tables `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, the table errors (`BT_STATUS_TABLE_*`),
+ * `BT_STATUS_SPECTRAL_TABLE_DOES_NOT_COVER_BAND`,
+ * `BT_STATUS_SPECTRAL_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_SPECTRAL_TRANSMITTANCE_OUT_OF_RANGE` for a value above 1,
+ * `BT_STATUS_OBJECT_NOT_VISIBLE` when response x ta x e is zero over the band.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` null or valid for reading a `bt_scene`;
+ * `tables` null or valid for reading a `bt_spectral_tables` (and its tables); `out` null
+ * or valid for writing a double; written only on success.
+ */
+bt_status bt_spectral_sensor_radiance(const bt_band *band,
+                                      const bt_scene *scene,
+                                      const bt_spectral_tables *tables,
+                                      double object_k,
+                                      double *out);
+
+/**
+ * Object temperature, K, from the sensor radiance in a spectral scene: solves
+ * tw integral r ta e L(T) = S - B by safeguarded Newton (within about 1e-12 T of the
+ * tabulated equation's solution).
+ *
+ * Errors: those of `bt_spectral_sensor_radiance`, `BT_STATUS_SIGNAL_BELOW_BACKGROUND`
+ * when S is at or below what reflections, path and window alone give,
+ * `BT_STATUS_RADIANCE_SUBNORMAL`, `BT_STATUS_RADIANCE_OUT_OF_RANGE`,
+ * `BT_STATUS_NOT_CONVERGED`.
+ *
+ * # Safety
+ * As `bt_spectral_sensor_radiance`, with `object_k` the out-pointer.
+ */
+bt_status bt_spectral_object_temperature(const bt_band *band,
+                                         const bt_scene *scene,
+                                         const bt_spectral_tables *tables,
+                                         double sensor_radiance,
+                                         double *object_k);
+
+/**
+ * Object temperature, K, from an apparent (blackbody-equivalent) temperature
+ * `apparent_k` in a spectral scene: S = Lb(T_app), then as
+ * `bt_spectral_object_temperature`.
+ *
+ * Errors: those of `bt_band_radiance` for `apparent_k` and of
+ * `bt_spectral_object_temperature`.
+ *
+ * # Safety
+ * As `bt_spectral_sensor_radiance`, with `object_k` the out-pointer.
+ */
+bt_status bt_spectral_object_temperature_from_apparent(const bt_band *band,
+                                                       const bt_scene *scene,
+                                                       const bt_spectral_tables *tables,
+                                                       double apparent_k,
+                                                       double *object_k);
+
+/**
+ * Residuals of a Sakuma-Hattori calibration with a dark offset at `n` >= 1 blackbody
+ * points: r_i = T_curve(`signal[i]`) - `t_k[i]`, K, with T_curve the closed-form inverse
+ * of S = `dark_offset` + C / (exp(c2 / (A T + B)) - 1). Reports max |r|, rms, mean and
+ * the worst point.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_VERIFY_NO_POINTS` for n = 0, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_CALIBRATION_PARAMETER_INVALID`,
+ * `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET`, `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN`.
+ *
+ * # Safety
+ * `p` null or valid for reading a `bt_sakuma_hattori`; `t_k` and `signal` null or valid
+ * for reading `n` doubles; `out` null or valid for writing a `bt_verify_residuals_report`;
+ * written only on success.
+ */
+bt_status bt_verify_residuals_sakuma_hattori(const bt_sakuma_hattori *p,
+                                             double dark_offset,
+                                             const double *t_k,
+                                             const double *signal,
+                                             size_t n,
+                                             bt_verify_residuals_report *out);
+
+/**
+ * A Sakuma-Hattori calibration (with dark offset) against the exact band model over
+ * [lo_k, hi_k] at `samples` temperatures spread uniformly, ends included: at each T the
+ * band gives L(T); the counts map L = `counts_gain` S + `counts_offset` takes it to the
+ * curve's signal S; the error is T_curve(S) - T, K. For a curve fitted to band radiance
+ * pass gain 1 and offset 0.
+ *
+ * Errors: those of `bt_band_radiance` and `bt_sakuma_hattori_temperature`;
+ * `BT_STATUS_FRAME_COUNTS_MAP_INVALID` unless the gain is finite and positive and the
+ * offset finite, `BT_STATUS_VERIFY_RANGE_INVALID` unless 0 < lo_k < hi_k,
+ * `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID` unless 2 <= samples <= 1000000,
+ * `BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET` where the band's signal maps below the dark
+ * offset.
+ *
+ * # Safety
+ * `p` as in `bt_verify_residuals_sakuma_hattori`; `band` as in `bt_band_radiance`; `out`
+ * null or valid for writing a `bt_verify_curve_report`; written only on success.
+ */
+bt_status bt_verify_curve_band(const bt_sakuma_hattori *p,
+                               double dark_offset,
+                               const bt_band *band,
+                               double counts_gain,
+                               double counts_offset,
+                               double lo_k,
+                               double hi_k,
+                               size_t samples,
+                               bt_verify_curve_report *out);
+
+/**
+ * Round trip T -> S(T) -> T(S) of a Sakuma-Hattori calibration with dark offset at
+ * `samples` temperatures over [lo_k, hi_k], and whether S, dS/dT and T(S) rise over
+ * them.
+ *
+ * Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_VERIFY_RANGE_INVALID`,
+ * `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID` (as in `bt_verify_curve_band`).
+ *
+ * # Safety
+ * `p` as in `bt_verify_residuals_sakuma_hattori`; `out` null or valid for writing a
+ * `bt_verify_round_trip_report`; written only on success.
+ */
+bt_status bt_verify_round_trip_sakuma_hattori(const bt_sakuma_hattori *p,
+                                              double dark_offset,
+                                              double lo_k,
+                                              double hi_k,
+                                              size_t samples,
+                                              bt_verify_round_trip_report *out);
+
+/**
+ * As `bt_verify_round_trip_sakuma_hattori` for a band's exact radiance (Newton
+ * inversion of the band integral).
+ *
+ * Errors: those of `bt_band_radiance` and `bt_band_temperature`,
+ * `BT_STATUS_VERIFY_RANGE_INVALID`, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` as in `bt_verify_round_trip_sakuma_hattori`.
+ */
+bt_status bt_verify_round_trip_band(const bt_band *band,
+                                    double lo_k,
+                                    double hi_k,
+                                    size_t samples,
+                                    bt_verify_round_trip_report *out);
+
+/**
+ * Coverage of [lo_k, hi_k] by `n` >= 1 blackbody points at `t_k` (any order): the
+ * extrapolation below the coldest and above the hottest point, and the largest gap
+ * between neighbouring points inside the range, K. O(n^2) without storage.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_VERIFY_NO_POINTS`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_VERIFY_RANGE_INVALID`.
+ *
+ * # Safety
+ * `t_k` null or valid for reading `n` doubles; `out` null or valid for writing a
+ * `bt_verify_coverage_report`; written only on success.
+ */
+bt_status bt_verify_coverage(const double *t_k,
+                             size_t n,
+                             double lo_k,
+                             double hi_k,
+                             bt_verify_coverage_report *out);
+
+/**
+ * A converter's table (built by `bt_frame_converter_new_band` over `band`) against exact
+ * inversion of the band's radiance: `points_per_row` signals per row, off the table's own
+ * check points, plus the range's ends. Works on rows from anywhere (a firmware image's
+ * copy, say): the converter's geometry must describe them.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_FRAME_TABLE_INVALID` / `BT_STATUS_FRAME_STORAGE_TOO_SMALL` for a converter
+ * that does not describe the rows, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID` unless
+ * 1 <= points_per_row <= 4096 and rows x points_per_row <= 1000000, errors of
+ * `bt_band_temperature`.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `converter` null or valid for reading a
+ * `bt_frame_converter`; `table` null or valid for reading `rows` rows; `out` null or
+ * valid for writing a `bt_verify_table_report`; written only on success.
+ */
+bt_status bt_verify_frame_table_band(const bt_band *band,
+                                     const bt_frame_converter *converter,
+                                     const bt_frame_row *table,
+                                     size_t rows,
+                                     size_t points_per_row,
+                                     bt_verify_table_report *out);
+
+/**
+ * As `bt_verify_frame_table_band` for a converter built by
+ * `bt_frame_converter_new_sakuma_hattori` over `p` (the curve without dark offset, as
+ * the converter's table holds it).
+ *
+ * Errors: as `bt_verify_frame_table_band`, with those of `bt_sakuma_hattori_temperature`.
+ *
+ * # Safety
+ * `p` as in `bt_sakuma_hattori_signal`; the rest as in `bt_verify_frame_table_band`.
+ */
+bt_status bt_verify_frame_table_sakuma_hattori(const bt_sakuma_hattori *p,
+                                               const bt_frame_converter *converter,
+                                               const bt_frame_row *table,
+                                               size_t rows,
+                                               size_t points_per_row,
+                                               bt_verify_table_report *out);
+
+/**
+ * Standard uncertainty (k = 1) of the temperature a Sakuma-Hattori calibration reads, from
+ * the covariance of its parameters, at `samples` temperatures over [lo_k, hi_k]:
+ * u^2(T) = J V J^T, J = (dT/dA, dT/dB, dT/dC) at the curve's signal S(T) (GUM law of
+ * propagation, first order). `covariance` points to 9 doubles, row-major, rows and
+ * columns in the order A (um), B (um K), C (signal units), as `bt_points_fit` gives it.
+ *
+ * Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_NULL_POINTER`,
+ * `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_VERIFY_COVARIANCE_INVALID` for a non-finite
+ * entry, a negative variance or an asymmetry,
+ * `BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE` where J V J^T < 0,
+ * `BT_STATUS_VERIFY_RANGE_INVALID`, `BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID`.
+ *
+ * # Safety
+ * `p` as in `bt_sakuma_hattori_signal`; `covariance` null or valid for reading 9
+ * doubles; `out` null or valid for writing a `bt_verify_uncertainty_report`; written only
+ * on success.
+ */
+bt_status bt_verify_uncertainty_sakuma_hattori(const bt_sakuma_hattori *p,
+                                               const double *covariance,
+                                               double lo_k,
+                                               double hi_k,
+                                               size_t samples,
+                                               bt_verify_uncertainty_report *out);
+
+/**
+ * Limit effective wavelength of the band at `temperature_k`, um:
+ * 1/lambda_T = (T^2/c2) d ln L / dT with the band's exact dL/dT.
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`;
+ * pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
+ * only on success.
+ */
+bt_status bt_limit_effective_wavelength_um(const bt_band *band, double temperature_k, double *out);
+
+/**
+ * Mean effective wavelength of the band between `t1_k` and `t2_k`, um:
+ * c2 (1/T1 - 1/T2) / ln(L(T2)/L(T1)).
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE` for T1 = T2; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written
+ * only on success.
+ */
+bt_status bt_mean_effective_wavelength_um(const bt_band *band,
+                                          double t1_k,
+                                          double t2_k,
+                                          double *out);
+
+/**
+ * Sakuma-Hattori A (um) and B (um K) from the band's spectral moments (Saunders and
+ * White 2003): A = lambda0 (1 - 6 sigma^2/lambda0^2) (5 for a photon detector),
+ * B = c2 sigma^2 / (2 lambda0^2). A start for `bt_sakuma_hattori_fit_band`, not a
+ * calibration.
+ *
+ * Errors: the band's errors; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `a_um` and `b_umk` null or valid for writing a double;
+ * written only on success.
+ */
+bt_status bt_sakuma_hattori_from_moments(const bt_band *band, double *a_um, double *b_umk);
+
+/**
+ * dT/dlambda, K per um, of a one-point calibration at `calibration_k` read at
+ * `temperature_k`: (1 - T/T1) T / lambda (Wien; the reading's error per unit error of the
+ * effective wavelength).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_WAVELENGTH_NOT_POSITIVE`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_one_point_wavelength_sensitivity(double wavelength_um,
+                                              double calibration_k,
+                                              double temperature_k,
+                                              double *out);
+
+/**
+ * dT/dsigma, K per um, of a two-point calibration at `t1_k` and `t2_k` read at
+ * `temperature_k`, for a band of mean `mean_um` and variance `variance_um2` (B from the
+ * moments, A and C through the two points; Sakuma-Hattori Wien form).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_MOMENTS_INVALID`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE`;
+ * pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_two_point_sigma_sensitivity(double mean_um,
+                                         double variance_um2,
+                                         double t1_k,
+                                         double t2_k,
+                                         double temperature_k,
+                                         double *out);
+
+/**
+ * Directional spectral emissivity of a smooth opaque surface with optical constants
+ * n, k at `angle_deg` from the normal ([0, 89.999] deg), by Fresnel's equations.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`,
+ * `BT_STATUS_ANGLE_OUT_OF_RANGE`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a `bt_directional_emissivity`; written only on success.
+ */
+bt_status bt_emissivity_directional(double n,
+                                    double k,
+                                    double angle_deg,
+                                    bt_directional_emissivity *out);
+
+/**
+ * Normal spectral emissivity 4n / ((n + 1)^2 + k^2).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_normal(double n, double k, double *out);
+
+/**
+ * Hemispherical spectral emissivity (integral of e(theta) over the hemisphere, 1e-12).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_hemispherical(double n, double k, double *out);
+
+/**
+ * The angle (deg) and value of the largest unpolarised directional emissivity.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `angle_deg` and `emissivity` null or valid for writing a double; written only on
+ * success.
+ */
+bt_status bt_emissivity_peak(double n, double k, double *angle_deg, double *emissivity);
+
+/**
+ * The largest viewing angle (deg) up to which |e(theta)/e_n - 1| stays within
+ * `relative_tolerance` (in (0, 1)).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_REFRACTIVE_INDEX_INVALID`,
+ * `BT_STATUS_ANGLE_TOLERANCE_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_emissivity_trusted_angle_deg(double n,
+                                          double k,
+                                          double relative_tolerance,
+                                          double *out);
+
+/**
+ * Hagen-Rubens normal emissivity of a metal, first term only: 0.365 sqrt(r_e / lambda),
+ * r_e in ohm m, lambda in um (converted to m).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_RESISTIVITY_NOT_POSITIVE`,
+ * `BT_STATUS_WAVELENGTH_NOT_POSITIVE`, `BT_STATUS_HAGEN_RUBENS_OUT_OF_RANGE` above 0.2;
+ * pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_hagen_rubens_normal(double resistivity_ohm_m, double wavelength_um, double *out);
+
+/**
+ * Wien-linearised noise gain of `count` monochromatic channels at `wavelengths_um`, at
+ * `temperature_k`, for an ln-emissivity polynomial of `terms` coefficients (0-3); also
+ * the bias per unit omitted term.
+ *
+ * Errors: `BT_STATUS_EMISSIVITY_MODEL_INVALID`, `BT_STATUS_TOO_FEW_BANDS`,
+ * `BT_STATUS_TOO_MANY_BANDS`, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_WAVELENGTH_NOT_POSITIVE`, `BT_STATUS_MULTIWAVELENGTH_ILL_CONDITIONED`;
+ * pointer errors.
+ *
+ * # Safety
+ * `wavelengths_um` null or valid for reading `count` doubles; `gain` and `bias` null or
+ * valid for writing a double; written only on success.
+ */
+bt_status bt_multiwavelength_noise_gain(const double *wavelengths_um,
+                                        size_t count,
+                                        double temperature_k,
+                                        uint32_t terms,
+                                        double *gain,
+                                        double *bias);
+
+/**
+ * Fits temperature and an ln-emissivity polynomial of `terms` coefficients (0-3) to the
+ * signals of `count` bands (`bands[i]` with band radiance `signals[i]` in its units),
+ * by least squares in ln S: a Wien-linearised start, then Gauss-Newton on the exact band
+ * integrals.
+ *
+ * Errors: `BT_STATUS_EMISSIVITY_MODEL_INVALID`, `BT_STATUS_TOO_FEW_BANDS` (count <
+ * terms + 1), `BT_STATUS_TOO_MANY_BANDS` (count > 16), the bands' errors,
+ * `BT_STATUS_NON_FINITE`, `BT_STATUS_RADIANCE_NOT_POSITIVE`,
+ * `BT_STATUS_MULTIWAVELENGTH_ILL_CONDITIONED`, `BT_STATUS_MULTIWAVELENGTH_NOT_CONVERGED`;
+ * pointer errors.
+ *
+ * # Safety
+ * `bands` null or valid for reading `count` `bt_band` (each as in `bt_band_radiance`);
+ * `signals` null or valid for reading `count` doubles; `out` null or valid for writing a
+ * `bt_multiwavelength_result`; written only on success.
+ */
+bt_status bt_multiwavelength_fit(const bt_band *bands,
+                                 const double *signals,
+                                 size_t count,
+                                 uint32_t terms,
+                                 bt_multiwavelength_result *out);
+
+/**
+ * Spot diameter at `distance_m` for a distance-to-spot ratio `distance_to_spot`:
+ * distance / D:S, m.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID` for a value that is
+ * not positive; `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER` for `out`.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_spot_diameter_m(double distance_m, double distance_to_spot, double *out);
+
+/**
+ * Instantaneous field of view of one pixel, mrad: 2 atan(p / (2 f)), pitch p in um,
+ * focal length f in mm.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_ifov_mrad(double pitch_um, double focal_length_mm, double *out);
+
+/**
+ * Footprint of one pixel at `distance_m`: 2 D tan(IFOV/2), m.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_footprint_m(double distance_m, double ifov_mrad, double *out);
+
+/**
+ * Checks a target of diameter `target_m` at `distance_m` against `rule` (a
+ * `BT_TARGET_RULE_*` value). `resolution` is the distance-to-spot ratio (99 % spot) for
+ * `BT_TARGET_RULE_ISO10878`, the IFOV in mrad for the pixel rules.
+ *
+ * Errors: `BT_STATUS_TARGET_RULE_INVALID` for another rule value, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TARGET_SIZE_NOT_POSITIVE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer
+ * errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a `bt_target_verdict`; written only on success.
+ */
+bt_status bt_target_check(uint32_t rule,
+                          double target_m,
+                          double distance_m,
+                          double resolution,
+                          bt_target_verdict *out);
+
+/**
+ * Fraction of a point image's power within `radius_um` (Airy pattern):
+ * 1 - J0(v)^2 - J1(v)^2, v = pi r / (lambda N).
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_OPTICS_GEOMETRY_INVALID` (negative radius,
+ * wavelength or f-number not positive); pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_airy_encircled_energy(double radius_um,
+                                   double wavelength_um,
+                                   double f_number,
+                                   double *out);
+
+/**
+ * The smallest radius, um, holding `fraction` (in (0, 1)) of the Airy pattern's power.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_FRACTION_OUT_OF_RANGE`,
+ * `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_airy_radius_um(double fraction, double wavelength_um, double f_number, double *out);
+
+/**
+ * System MTF (diffraction x pixel) at `frequency_cy_mm` for pitch `pitch_um`, wavelength
+ * `wavelength_um` and f-number `f_number`.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_SPATIAL_FREQUENCY_NEGATIVE`,
+ * `BT_STATUS_OPTICS_GEOMETRY_INVALID`; pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a `bt_mtf`; written only on success.
+ */
+bt_status bt_mtf_evaluate(double frequency_cy_mm,
+                          double pitch_um,
+                          double wavelength_um,
+                          double f_number,
+                          bt_mtf *out);
+
+/**
+ * Fraction of the full-field signal that the pixel centred on a small round target's
+ * image receives (diffraction-limited optic, square pixel): how much a small target
+ * reads low. `target_diameter_um` is the image diameter on the detector.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_TARGET_SIZE_NOT_POSITIVE`,
+ * `BT_STATUS_OPTICS_GEOMETRY_INVALID` (also for an image beyond 2000 lambda N in radius,
+ * or pitch and image so large against lambda N that the work bound is exceeded);
+ * pointer errors.
+ *
+ * # Safety
+ * `out` null or valid for writing a double; written only on success.
+ */
+bt_status bt_small_target_fraction(double target_diameter_um,
+                                   double pitch_um,
+                                   double wavelength_um,
+                                   double f_number,
+                                   double *out);
+
+/**
+ * Size-of-source correction of a reading `apparent_k` taken on a source of `measured_mm`
+ * by an instrument (band `band`) calibrated on a source of `calibration_mm`, from the
+ * SSE curve sigma(d) in caller storage (`diameters_mm` increasing, `sigma` in [0, 1),
+ * `len` >= 2 entries each; linear interpolation, no extrapolation).
+ *
+ * Errors: the band's errors, `BT_STATUS_SSE_TABLE_INVALID`,
+ * `BT_STATUS_SSE_DIAMETER_OUTSIDE_TABLE`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, the inversion's errors; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `diameters_mm` and `sigma` null or valid for reading
+ * `len` doubles; `out` null or valid for writing a `bt_sse_correction`; written only on
+ * success.
+ */
+bt_status bt_sse_correct(const bt_band *band,
+                         const double *diameters_mm,
+                         const double *sigma,
+                         size_t len,
+                         double apparent_k,
+                         double calibration_mm,
+                         double measured_mm,
+                         bt_sse_correction *out);
+
+/**
+ * First-order temperature error, K, of a relative signal error `relative_signal` at
+ * `temperature_k` through the band's exact dL/dT: (dS/S) L / (dL/dT).
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`;
+ * pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written only
+ * on success.
+ */
+bt_status bt_sse_temperature_error_k(const bt_band *band,
+                                     double temperature_k,
+                                     double relative_signal,
+                                     double *out);
+
+/**
+ * GUM budget of the emissivity from the ASTM E1933 contact method: estimate e
+ * (dimensionless) from `sensor_radiance` and the probe's `reference_k`; inputs (index):
+ * 0 the signal (`u_signal`, band radiance units), 1 the reference temperature
+ * (`u_reference_k`), 2 the scene's reflected temperature (`u_reflected_k`). The scene's
+ * emissivity is ignored; its path and window are used.
+ *
+ * Errors: those of `bt_object_temperature` for band and scene,
+ * `BT_STATUS_UNCERTAINTY_NEGATIVE`, `BT_STATUS_EMISSIVITY_NOT_DETERMINED`,
+ * `BT_STATUS_EMISSIVITY_READING_INCONSISTENT`; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `scene` null or valid for reading a `bt_scene`; `out`
+ * null or valid for writing a `bt_site_budget`; written only on success.
+ */
+bt_status bt_contact_emissivity_budget(const bt_band *band,
+                                       const bt_scene *scene,
+                                       double sensor_radiance,
+                                       double reference_k,
+                                       double u_signal,
+                                       double u_reference_k,
+                                       double u_reflected_k,
+                                       bt_site_budget *out);
+
+/**
+ * GUM budget of the emissivity from the ASTM E1933 reference-coating method: estimate e
+ * from the surface's and the coating's radiances and the coating's emissivity; inputs
+ * (index): 0 surface signal, 1 coating signal (band radiance units), 2 coating
+ * emissivity, 3 reflected temperature (K), with standard uncertainties `u[0..4]` in that
+ * order.
+ *
+ * Errors: as `bt_contact_emissivity_budget`, and `BT_STATUS_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_SIGNAL_BELOW_BACKGROUND` for the coating; pointer errors (`u` must hold 4
+ * doubles).
+ *
+ * # Safety
+ * As `bt_contact_emissivity_budget`; `u` null or valid for reading 4 doubles.
+ */
+bt_status bt_coating_emissivity_budget(const bt_band *band,
+                                       const bt_scene *scene,
+                                       double surface_radiance,
+                                       double coating_radiance,
+                                       double coating_emissivity,
+                                       const double *u,
+                                       bt_site_budget *out);
+
+/**
+ * GUM budget of the reflected apparent temperature (K) from the ASTM E1862 reflector
+ * method; inputs (index): 0 reflector signal (`u_signal`, band radiance units),
+ * 1 reflector emissivity (`u_emissivity`), 2 reflector temperature (`u_reflector_k`).
+ * The scene's emissivity and reflected temperature are ignored.
+ *
+ * Errors: those of `bt_object_temperature` for band and scene,
+ * `BT_STATUS_UNCERTAINTY_NEGATIVE`, `BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE`,
+ * `BT_STATUS_REFLECTED_NOT_DETERMINED`, the inversion's errors; pointer errors.
+ *
+ * # Safety
+ * As `bt_contact_emissivity_budget`.
+ */
+bt_status bt_reflector_budget(const bt_band *band,
+                              const bt_scene *scene,
+                              double reflector_radiance,
+                              double reflector_emissivity,
+                              double reflector_k,
+                              double u_signal,
+                              double u_emissivity,
+                              double u_reflector_k,
+                              bt_site_budget *out);
+
+/**
+ * The error, K, of the reflector method when a reflector of `reflector_emissivity` at
+ * `reflector_k` is taken as ideal, for a true reflected temperature `reflected_k`.
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE`; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a double; written only
+ * on success.
+ */
+bt_status bt_reflector_bias_k(const bt_band *band,
+                              double reflected_k,
+                              double reflector_emissivity,
+                              double reflector_k,
+                              double *out);
+
+/**
+ * GUM budget of the reflected apparent temperature (K) from the ASTM E1862 direct method
+ * (the instrument at emissivity 1 reads the surroundings): Tr = L^-1(`radiance`); inputs
+ * (index): 0 signal noise (`u_signal`, band radiance units), 1 calibration
+ * (`u_calibration_k`), 2 spread of the surroundings (`u_spread_k`).
+ *
+ * Errors: the band's errors, `BT_STATUS_NON_FINITE`, `BT_STATUS_UNCERTAINTY_NEGATIVE`, the
+ * inversion's errors; pointer errors.
+ *
+ * # Safety
+ * `band` as in `bt_band_radiance`; `out` null or valid for writing a `bt_site_budget`;
+ * written only on success.
+ */
+bt_status bt_direct_reflected_budget(const bt_band *band,
+                                     double radiance,
+                                     double u_signal,
+                                     double u_calibration_k,
+                                     double u_spread_k,
+                                     bt_site_budget *out);
 
 #ifdef __cplusplus
 }  // extern "C"

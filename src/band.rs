@@ -47,6 +47,22 @@ pub const SOLVER_MAX_ITERATIONS: u32 = 200;
 /// number of panels for any finite input).
 const X_INTEGRAND_ZERO: f64 = 710.0;
 
+/// The smallest band integral of x^m/(e^x - 1) over a rectangular band that carries full
+/// double precision: beyond it the closed form's e^-x at the band's long-wavelength end
+/// (x = c2/(lambda T) above about 699) approaches the subnormal range. The scale
+/// c1 T^(m+1)/c2^(m+1) can lift such an integral back into the normal range with few
+/// digits left (a photon band at 0.1 um came out 5e-4 off at 195 K and a factor 2 off at
+/// 193 K), so a smaller integral is [`Error::RadianceUnderflow`].
+const MIN_RESOLVED_INTEGRAL: f64 = 1e-295;
+
+/// As [`MIN_RESOLVED_INTEGRAL`] for a tabulated response, per unit of the response's
+/// largest value (taken as at least 1e-7): the quadrature stops at [`X_INTEGRAND_ZERO`] =
+/// 710, dropping at most 710^3 e^-710 (1.6e-300) per unit response, below 2e-17 of this
+/// limit; and with the floor, an integral of at least 1e-290 keeps the products
+/// response x integrand that carry it out of the subnormal range (a response of 2e-314
+/// came out 1e-6 off in T).
+const MIN_RESOLVED_TABULATED_INTEGRAL: f64 = 1e-283;
+
 /// The band-integral scale c1 T^(m+1)/c2^(m+1); T^4 beyond the double range (T above
 /// about 1e77 K) is [`Error::RadianceOverflow`] rather than an inf * 0 = NaN later.
 fn scale_or_overflow(detector: Detector, temperature_k: f64) -> Result<f64> {
@@ -312,7 +328,11 @@ impl<'a> Band<'a> {
     ///
     /// # Errors
     /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`]; [`Error::RadianceUnderflow`]
-    /// or [`Error::RadianceOverflow`] where the result is not a normal double.
+    /// or [`Error::RadianceOverflow`] where the result is not a normal double, and
+    /// [`Error::RadianceUnderflow`] where the band lies so deep in the Wien tail that the
+    /// integral has lost its precision (x = c2/(lambda T) above about 699 over the whole
+    /// band, 680 for a tabulated response), or a tabulated response so small that its
+    /// integral is below 1e-290 (see `MIN_RESOLVED_INTEGRAL` in the source).
     pub fn radiance(&self, temperature_k: f64) -> Result<f64> {
         self.radiance_and_derivative(temperature_k)
             .map(|(radiance, _)| radiance)
@@ -346,7 +366,7 @@ impl<'a> Band<'a> {
     #[inline]
     fn radiance_derivatives(&self, temperature_k: f64) -> Result<(f64, f64, f64)> {
         let t = check_temperature_k(temperature_k)?;
-        let (integral, derivative_integral, second_integral) = match self.response {
+        let (integral, derivative_integral, second_integral, resolved) = match self.response {
             None => {
                 let m = self.detector.moment();
                 let inv_t = 1.0 / t;
@@ -355,11 +375,22 @@ impl<'a> Band<'a> {
                 let xb = c2_lo * inv_t;
                 // b - a from the band's own width: exact where the edges are close.
                 let width = c2_width * inv_t;
-                moment_integral(m, xa, xb, width)
+                let (i, d, d2) = moment_integral(m, xa, xb, width);
+                (i, d, d2, MIN_RESOLVED_INTEGRAL)
             }
-            Some(response) => self.response_panels(t, response),
+            Some(response) => {
+                let bound = response.max_value();
+                let (i, d, d2) = self.response_panels(t, response);
+                (i, d, d2, MIN_RESOLVED_TABULATED_INTEGRAL * bound.max(1e-7))
+            }
         };
         let scale = scale_or_overflow(self.detector, t)?;
+        // Deep in the Wien tail (the whole band at x > 1), or from a tiny response, the
+        // integral has lost its precision before the scale is applied: see
+        // [`MIN_RESOLVED_INTEGRAL`].
+        if integral < resolved && (self.response.is_some() || self.hi_um * t < C2_UMK) {
+            return Err(Error::RadianceUnderflow);
+        }
         let radiance = check_radiance(scale * integral)?;
         let derivative = scale * derivative_integral / t;
         if derivative.is_infinite() {
@@ -525,7 +556,8 @@ impl<'a> Band<'a> {
     /// # Errors
     /// [`Error::NonFinite`], [`Error::RadianceNotPositive`], [`Error::RadianceSubnormal`],
     /// [`Error::RadianceOutOfRange`] when no temperature in
-    /// [[`SOLVER_MIN_K`], [`SOLVER_MAX_K`]] gives it, [`Error::NotConverged`].
+    /// [[`SOLVER_MIN_K`], [`SOLVER_MAX_K`]] gives it (including a radiance below the
+    /// smallest the band resolves, see [`Band::radiance`]), [`Error::NotConverged`].
     pub fn temperature(&self, radiance: f64) -> Result<f64> {
         self.solve_temperature(radiance).map(|s| s.temperature_k)
     }
@@ -589,7 +621,8 @@ pub fn check_target(radiance: f64) -> Result<f64> {
 /// leaves an error of order 1e-16 T after it) or any step below 1e-12 T.
 ///
 /// # Errors
-/// [`Error::RadianceOutOfRange`] when the bracket collapses onto a search limit,
+/// [`Error::RadianceOutOfRange`] when the bracket collapses onto a search limit or onto
+/// a jump of `eval` (a target between an underflow and the smallest value it resolves),
 /// [`Error::NotConverged`] after [`SOLVER_MAX_ITERATIONS`], and errors of `eval`.
 pub fn solve_increasing<F>(eval: F, target: f64, guess_k: f64) -> Result<Solution>
 where
@@ -698,7 +731,12 @@ where
         {
             let at_floor = !lo_seen && next <= SOLVER_MIN_K * (1.0 + 1e-9);
             let at_ceiling = !hi_seen && next >= SOLVER_MAX_K * (1.0 - 1e-9);
-            if at_floor || at_ceiling {
+            // A bracket that shrank by bisection onto a jump of the curve (from an
+            // underflow straight to values far above the target) holds no root: at a true
+            // root the last value is within P1 * 4e-12 of the target (P1 = d ln f/d ln T,
+            // below 1e3 for any band), far below 1e-6.
+            let on_a_jump = !(newton || halley || libm::fabs(residual) <= 1e-6);
+            if at_floor || at_ceiling || on_a_jump {
                 return Err(Error::RadianceOutOfRange);
             }
             return Ok(Solution {

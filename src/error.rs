@@ -181,6 +181,9 @@ pub enum Error {
     TransmittanceTableAboveOne,
     /// The band reaches beyond the spectral transmittance table.
     BandOutsideTransmittanceTable,
+    /// The air path is opaque: its transmittance underflows a double (an optical depth
+    /// above about 745), so no radiance of the object reaches the sensor.
+    PathOpaque,
     // ---- frame --------------------------------------------------------------------------------
     /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
     FrameRangeInvalid,
@@ -209,6 +212,59 @@ pub enum Error {
     FrameEmissivityMapUnavailable,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch,
+    // ---- calibration curves through the C ABI ---------------------------------------------
+    /// A calibration-curve form outside its declared values (C ABI only).
+    InvalidCurveForm,
+    // ---- verify -------------------------------------------------------------------------------
+    /// A verification temperature range that is not 0 < lo_k < hi_k.
+    VerifyRangeInvalid,
+    /// A verification sample count outside its documented bounds (at least 2 samples over
+    /// a range, 1 to `verify::MAX_POINTS_PER_ROW` per table row, at most
+    /// `verify::MAX_SAMPLES` in all).
+    VerifySampleCountInvalid,
+    /// A verification over calibration points was given none.
+    VerifyNoPoints,
+    /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+    VerifyCovarianceInvalid,
+    // ---- optics and materials ---------------------------------------------------------------
+    /// A distance-to-spot ratio, IFOV, pixel pitch, focal length, f-number, wavelength or distance that is not positive.
+    OpticsGeometryInvalid,
+    /// A target size (diameter) that is not positive.
+    TargetSizeNotPositive,
+    /// An encircled-energy or signal fraction outside (0, 1).
+    FractionOutOfRange,
+    /// A spatial frequency below zero.
+    SpatialFrequencyNegative,
+    /// A size-of-source table with fewer than two points, arrays of different length, diameters not positive and strictly increasing, or a sigma outside [0, 1).
+    SseTableInvalid,
+    /// A source diameter outside the span of the size-of-source table (no extrapolation).
+    SseDiameterOutsideTable,
+    /// Optical constants with n <= 0, k < 0, or |m| above 1e6.
+    RefractiveIndexInvalid,
+    /// A viewing angle outside [0, 89.999] degrees.
+    AngleOutOfRange,
+    /// A relative emissivity tolerance outside (0, 1).
+    AngleToleranceInvalid,
+    /// An electrical resistivity that is not positive.
+    ResistivityNotPositive,
+    /// The Hagen-Rubens first term exceeds 0.2, where its error reaches 10 %.
+    HagenRubensOutOfRange,
+    /// Fewer bands than the emissivity model has parameters plus one (temperature).
+    TooFewBands,
+    /// More bands than multi-wavelength pyrometry holds (`multiwavelength::MAX_BANDS`).
+    TooManyBands,
+    /// Band, wavelength or signal arrays of different lengths.
+    BandCountMismatch,
+    /// The multi-wavelength normal matrix is singular: the bands cannot separate temperature from emissivity.
+    MultiwavelengthIllConditioned,
+    /// The multi-wavelength Gauss-Newton fit did not converge.
+    MultiwavelengthNotConverged,
+    /// An emissivity model outside its declared values (0-3 polynomial terms).
+    EmissivityModelInvalid,
+    /// A minimum-target rule outside its declared values (C ABI only).
+    TargetRuleInvalid,
+    /// Spectral moments with a mean wavelength that is not positive or a negative variance.
+    MomentsInvalid,
 }
 
 impl Error {
@@ -326,6 +382,9 @@ impl Error {
             Error::BandOutsideTransmittanceTable => {
                 "the band reaches beyond the spectral transmittance table"
             }
+            Error::PathOpaque => {
+                "the air path is opaque: its transmittance underflows (optical depth above ~745)"
+            }
 
             // frame
             Error::FrameRangeInvalid => "frame temperature range must satisfy 0 < lo_k < hi_k",
@@ -350,6 +409,34 @@ impl Error {
                 "no signal at the reflected temperature: emissivity maps unavailable"
             }
             Error::FrameCurveMismatch => "the curve is not the one the table was built from",
+            Error::InvalidCurveForm => "calibration curve form is not Planck (0) or Wien (1)",
+            // verify
+            Error::VerifyRangeInvalid => "verification range must satisfy 0 < lo_k < hi_k",
+            Error::VerifySampleCountInvalid => "verification sample count out of bounds",
+            Error::VerifyNoPoints => "verification needs at least one calibration point",
+            Error::VerifyCovarianceInvalid => {
+                "covariance must be finite and symmetric with non-negative variances"
+            }
+            // optics and materials
+            Error::OpticsGeometryInvalid => "optical geometry values must be positive",
+            Error::TargetSizeNotPositive => "target size must be positive",
+            Error::FractionOutOfRange => "the energy fraction must be in (0, 1)",
+            Error::SpatialFrequencyNegative => "spatial frequency must not be negative",
+            Error::SseTableInvalid => "SSE table: >= 2 points, increasing positive diameters, sigma in [0, 1)",
+            Error::SseDiameterOutsideTable => "source diameter outside the SSE table",
+            Error::RefractiveIndexInvalid => "optical constants need n > 0, k >= 0, |m| <= 1e6",
+            Error::AngleOutOfRange => "angle must be in [0, 89.999] degrees",
+            Error::AngleToleranceInvalid => "relative tolerance must be in (0, 1)",
+            Error::ResistivityNotPositive => "resistivity must be positive (ohm m)",
+            Error::HagenRubensOutOfRange => "outside the Hagen-Rubens range (first term above 0.2)",
+            Error::TooFewBands => "too few bands for the emissivity model",
+            Error::TooManyBands => "more bands than the fit holds (16)",
+            Error::BandCountMismatch => "band and signal arrays differ in length",
+            Error::MultiwavelengthIllConditioned => "bands cannot separate temperature from emissivity",
+            Error::MultiwavelengthNotConverged => "the multi-wavelength fit did not converge",
+            Error::EmissivityModelInvalid => "emissivity model must have 0 to 3 terms",
+            Error::TargetRuleInvalid => "unknown minimum-target rule",
+            Error::MomentsInvalid => "moments need a positive mean and non-negative variance",
         }
     }
 }

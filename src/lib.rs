@@ -53,12 +53,21 @@ pub mod atmosphere;
 pub mod band;
 pub mod calibration;
 pub mod constants;
+pub mod emissivity;
 mod error;
 pub mod frame;
+pub mod multiwavelength;
+pub mod optics;
 pub mod planck;
+mod quadrature;
 pub mod ratio;
 pub mod scene;
+pub mod site_budget;
 pub mod uncertainty;
+pub mod verify;
+
+#[cfg(feature = "proptest")]
+pub mod testkit;
 
 pub use error::{Error, Result};
 

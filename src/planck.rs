@@ -224,7 +224,40 @@ pub fn total_photon_radiance(temperature_k: f64) -> Result<f64> {
 /// [`Error::NonFinite`], [`Error::LambdaTNotPositive`].
 pub fn blackbody_fraction(lambda_t_umk: f64) -> Result<f64> {
     let x = fraction_x(lambda_t_umk)?;
-    Ok(tail_integral(3, x) / moment_total(3))
+    Ok(tail_fraction(3, x))
+}
+
+/// Beyond this x = c2/(lambda T) the tail series' e^-x nears the subnormal range (it
+/// enters it at x = 708.4, while F stays a normal double up to x = 726).
+const FRACTION_DEEP_X: f64 = 700.0;
+
+/// The tail share G_m(x) / G_m(0) to full precision, 0 where it is not a normal double.
+///
+/// Beyond [`FRACTION_DEEP_X`] only the first term of the tail series counts (the next is
+/// e^-x = 1e-304 of it): G_m(x) = e^-x P_m(x), P_3 = x^3 + 3x^2 + 6x + 6,
+/// P_2 = x^2 + 2x + 2, with e^-x applied in two halves so that no intermediate leaves the
+/// normal range. (From e^-x directly, F came out with few significant bits there, and as
+/// a subnormal that even decreased with lambda T.)
+fn tail_fraction(m: u32, x: f64) -> f64 {
+    let share = if x > FRACTION_DEEP_X {
+        if x > 800.0 {
+            // F < 1e-340: zero (and x^3 would overflow for an infinite x).
+            return 0.0;
+        }
+        let poly = match m {
+            2 => x * (x + 2.0) + 2.0,
+            _ => x * (x * (x + 3.0) + 6.0) + 6.0,
+        };
+        let half = libm::exp(-0.5 * x);
+        poly / moment_total(m) * half * half
+    } else {
+        tail_integral(m, x) / moment_total(m)
+    };
+    if share < f64::MIN_POSITIVE {
+        0.0
+    } else {
+        share
+    }
 }
 
 /// 1 - F(0 -> lambda T), the share emitted above lambda, computed directly (no
@@ -244,7 +277,7 @@ pub fn blackbody_fraction_complement(lambda_t_umk: f64) -> Result<f64> {
 /// [`Error::NonFinite`], [`Error::LambdaTNotPositive`].
 pub fn photon_blackbody_fraction(lambda_t_umk: f64) -> Result<f64> {
     let x = fraction_x(lambda_t_umk)?;
-    Ok(tail_integral(2, x) / moment_total(2))
+    Ok(tail_fraction(2, x))
 }
 
 fn fraction_x(lambda_t_umk: f64) -> Result<f64> {

@@ -468,21 +468,22 @@ impl RunningStats {
     /// Sample variance m2 / (n - 1) (value unit squared).
     ///
     /// # Errors
-    /// [`Error::TooFewTrials`] with fewer than two values.
+    /// [`Error::TooFewTrials`] with fewer than two values, [`Error::NonFinite`] when the
+    /// sum of squared deviations overflowed (values spread over more than about 1e154).
     pub fn variance(&self) -> Result<f64> {
         if self.count < 2 {
             return Err(Error::TooFewTrials);
         }
         #[allow(clippy::cast_precision_loss)]
         let dof = (self.count - 1) as f64;
-        Ok(self.m2 / dof)
+        finite(self.m2 / dof)
     }
 
     /// Sample standard deviation sqrt(m2 / (n - 1)) (value unit): the standard
     /// uncertainty u(y) of a Monte Carlo output (JCGM 101:2008 7.6).
     ///
     /// # Errors
-    /// [`Error::TooFewTrials`] with fewer than two values.
+    /// As [`RunningStats::variance`].
     pub fn standard_deviation(&self) -> Result<f64> {
         self.variance().map(libm::sqrt)
     }
@@ -759,8 +760,8 @@ pub const SURFACE_INPUTS: usize = 11;
 /// Labels of the surface-temperature inputs, in the order of [`surface_inputs`].
 pub const SURFACE_INPUT_NAMES: [&str; SURFACE_INPUTS] = [
     "signal noise",
-    "calibration (K)",
-    "calibration (signal)",
+    "calibration, temperature scale",
+    "calibration, signal offset",
     "emissivity",
     "reflected temperature",
     "atmosphere transmittance",
@@ -785,8 +786,8 @@ fn check_uncertainties(u: &InputUncertainties) -> Result<()> {
 ///
 /// ```text
 /// G = tw ta e,  dS/dT = G L'(T),  k = -1 / (G L'(T))
-/// signal noise, calibration (signal):  c = 1 / (G L'(T))               K per signal unit
-/// calibration (K):                     c = L'(T_app) / (G L'(T))      K/K, T_app = L^-1(S)
+/// signal noise, calibration offset:    c = 1 / (G L'(T))               K per signal unit
+/// calibration, temperature scale:      c = L'(T_app) / (G L'(T))      K/K, T_app = L^-1(S)
 /// emissivity:                          c = k tw ta (L(T) - L(Tr))
 /// reflected temperature:               c = k tw ta (1-e) L'(Tr)
 /// atmosphere transmittance:            c = k tw (e L(T) + (1-e) L(Tr) - L(Ta))
@@ -816,13 +817,11 @@ pub fn surface_inputs<C: SignalCurve + ?Sized>(
 ) -> Result<(f64, [Input; SURFACE_INPUTS])> {
     check_uncertainties(uncertainties)?;
     let s = scene.sensitivities(curve, sensor_signal)?;
-    let calibration_k = if uncertainties.calibration_k > 0.0 {
-        let apparent_k = curve.temperature(sensor_signal)?;
-        let (_, slope) = curve.signal_and_derivative(apparent_k)?;
-        s.signal * slope
-    } else {
-        0.0
-    };
+    // Always computed, whatever the input's uncertainty: a zero uncertainty gives a zero
+    // contribution, never a zero sensitivity.
+    let apparent_k = curve.temperature(sensor_signal)?;
+    let (_, slope) = curve.signal_and_derivative(apparent_k)?;
+    let calibration_k = s.signal * slope;
     let sensitivities = [
         s.signal,
         calibration_k,
@@ -930,6 +929,31 @@ pub fn surface_monte_carlo<C: SignalCurve + ?Sized>(
     check_uncertainties(uncertainties)?;
     finite(sensor_signal)?;
     monte_carlo(rng, samples, probability, |rng| {
+        surface_draw(scene, curve, sensor_signal, uncertainties, rng)
+    })
+}
+
+/// As [`surface_monte_carlo`] without a buffer: `trials` draws of the same model, in the
+/// same order from the same `rng`, streamed into a [`RunningStats`] (mean and standard
+/// deviation by Welford's method; no coverage interval, which needs the sorted values).
+/// With the same `rng` state the mean and standard deviation equal those of
+/// [`surface_monte_carlo`] with `trials` samples, bit for bit.
+///
+/// # Errors
+/// [`Error::UncertaintyNegative`], [`Error::NonFinite`], [`Error::TooFewTrials`] below 2
+/// trials (checked before any draw), and any error of a trial, as in
+/// [`surface_monte_carlo`].
+pub fn surface_monte_carlo_streaming<C: SignalCurve + ?Sized>(
+    scene: &Scene,
+    curve: &C,
+    sensor_signal: f64,
+    uncertainties: &InputUncertainties,
+    rng: &mut Xoshiro256StarStar,
+    trials: usize,
+) -> Result<RunningStats> {
+    check_uncertainties(uncertainties)?;
+    finite(sensor_signal)?;
+    monte_carlo_streaming(rng, trials, |rng| {
         surface_draw(scene, curve, sensor_signal, uncertainties, rng)
     })
 }

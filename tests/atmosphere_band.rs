@@ -159,3 +159,81 @@ fn named_errors_for_bands_and_tables() {
         Err(Error::TemperatureNotPositive)
     );
 }
+
+const THICK_CSV: &str = include_str!("data/atmosphere_band_thick.csv");
+
+/// Thick, hot, saturated km paths (the transmittance varies by up to e^52 across the
+/// band), energy and photon detectors, against mpmath quadrature
+/// (tests/data/atmosphere_band_thick.csv, tools/refgen/atmosphere_refs.py --only thick).
+/// The band quadrature alone, sized by the Planck variable, missed these by up to 1e-7.
+#[test]
+fn thick_path_band_values_match_mpmath_quadrature() {
+    let mut count = 0;
+    for line in THICK_CSV
+        .lines()
+        .filter(|line| !line.starts_with('#') && !line.trim().is_empty())
+        .skip(1)
+    {
+        let fields: Vec<&str> = line.split(',').collect();
+        let number = |i: usize| -> f64 { fields[i].parse().unwrap() };
+        let detector = match fields[4] {
+            "energy" => Detector::Energy,
+            "photon" => Detector::Photon,
+            other => panic!("bad detector {other}"),
+        };
+        let path = Path::new(
+            Air::new(number(0), number(1), number(2)).unwrap(),
+            number(3),
+        )
+        .unwrap();
+        let model = PathTransmittance::Continuum(path);
+        let band = Band::rectangular(number(5), number(6), detector).unwrap();
+        let object_k = number(7);
+        assert_relative_eq!(
+            model.band_transmitted_radiance(&band, object_k).unwrap(),
+            number(8),
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            model.band_transmittance(&band, object_k).unwrap(),
+            number(9),
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            path.band_path_radiance(&band).unwrap(),
+            number(10),
+            max_relative = 1e-12
+        );
+        count += 1;
+    }
+    assert_eq!(count, 48);
+}
+
+/// A path so long that its transmittance underflows is refused with a named error, never
+/// a transmittance of 0 with success (10,000 km of air at 20 C, 50 % RH, is opaque at
+/// 10 um; its least absorbed wavelengths still pass about 1e-245 of the band; 100,000 km
+/// pass nothing).
+#[test]
+fn an_opaque_path_is_an_error() {
+    let path = Path::new(Air::new(293.15, 0.5, 1013.25).unwrap(), 1.0e7).unwrap();
+    assert_eq!(path.spectral_transmittance(10.0), Err(Error::PathOpaque));
+    let band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+    let tau = path.band_transmittance(&band, 300.0).unwrap();
+    assert!(tau > 0.0 && tau < 1e-200, "{tau}");
+    let path = Path::new(Air::new(293.15, 0.5, 1013.25).unwrap(), 1.0e8).unwrap();
+    assert_eq!(
+        path.band_transmittance(&band, 300.0),
+        Err(Error::PathOpaque)
+    );
+    let model = PathTransmittance::Continuum(path);
+    assert_eq!(
+        model.band_transmitted_radiance(&band, 300.0),
+        Err(Error::PathOpaque)
+    );
+    // The path's own emission is that of a blackbody at the air temperature.
+    assert_relative_eq!(
+        path.band_path_radiance(&band).unwrap(),
+        band.radiance(293.15).unwrap(),
+        max_relative = 1e-12
+    );
+}

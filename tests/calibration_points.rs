@@ -296,7 +296,7 @@ fn mahalanobis2(v: &[[f64; 3]; 3], d: &[f64; 3]) -> f64 {
         let (a, b) = ([1, 0, 0][i], [2, 2, 1][i]);
         let (c, e) = ([1, 0, 0][j], [2, 2, 1][j]);
         let m = r(a, c) * r(b, e) - r(a, e) * r(b, c);
-        if (i + j) % 2 == 0 {
+        if (i + j).is_multiple_of(2) {
             m
         } else {
             -m

@@ -48,7 +48,10 @@ fn detector(name: &str) -> Detector {
 fn rows() -> Vec<Row> {
     let text = include_str!("data/ratio_reference.csv");
     let mut out = Vec::new();
-    for line in text.lines().skip(1).filter(|l| !l.trim().is_empty()) {
+    for line in text
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.starts_with("kind,") && !l.trim().is_empty())
+    {
         let f: Vec<&str> = line.split(',').collect();
         assert_eq!(f.len(), 12, "{line}");
         let num = |i: usize| f[i].parse::<f64>().unwrap();

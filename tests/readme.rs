@@ -65,3 +65,30 @@ fn the_commands_the_readme_gives_exist() {
         ".ci/run must run the README's test command"
     );
 }
+
+/// The README's install-and-link recipe is what `capi/tests/consumer/run.sh` runs (CI runs
+/// that script), and its CMakeLists.txt is the consumer project's.
+#[test]
+fn the_c_install_recipe_is_the_one_ci_runs() {
+    let readme = std::fs::read_to_string(root().join("README.md")).expect("README.md");
+    let script = std::fs::read_to_string(root().join("capi/tests/consumer/run.sh"))
+        .expect("capi/tests/consumer/run.sh");
+    let begin = script
+        .find("# README recipe begins\n")
+        .expect("run.sh marks the recipe's beginning");
+    let end = script
+        .find("# README recipe ends")
+        .expect("run.sh marks the recipe's end");
+    let recipe = &script[begin + "# README recipe begins\n".len()..end];
+    assert!(recipe.contains("capi/install.sh"), "the recipe installs");
+    assert!(
+        blocks(&readme, "sh").contains(&recipe),
+        "the README has no sh block equal to run.sh's recipe:\n{recipe}"
+    );
+    let cmake = std::fs::read_to_string(root().join("capi/tests/consumer/CMakeLists.txt"))
+        .expect("capi/tests/consumer/CMakeLists.txt");
+    assert!(
+        blocks(&readme, "cmake").contains(&cmake.as_str()),
+        "the README's cmake block differs from capi/tests/consumer/CMakeLists.txt"
+    );
+}

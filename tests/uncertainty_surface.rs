@@ -367,3 +367,68 @@ fn errors_and_reproducibility() {
     assert_eq!(run(5), run(5));
     assert_ne!(run(5), run(6));
 }
+
+/// Regression: the calibration (temperature scale) line kept a sensitivity of 0 whenever
+/// its own uncertainty was 0, while every other input kept its real coefficient. The
+/// reference is the central finite difference of the model assembled from the public API
+/// (independent of `surface_inputs`); the values in the comments were reported by an
+/// independent high-precision check of the C ABI.
+#[test]
+fn calibration_sensitivity_does_not_depend_on_its_uncertainty() {
+    let calibration_line = 1;
+    let fd_calibration = |band: &Band, scene: &Scene, s: f64| {
+        let x = point(scene, s);
+        let h = 0.01;
+        (model(band, &nudged(&x, calibration_line, h))
+            - model(band, &nudged(&x, calibration_line, -h)))
+            / (2.0 * h)
+    };
+    // Case 1: 8-14 um, e 0.93, reflected 291 K, air 0.97 at 288 K, no window.
+    let band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+    let scene = Scene::new(0.93, 291.0)
+        .unwrap()
+        .with_atmosphere(0.97, 288.0)
+        .unwrap();
+    let s = 88.040_785_273_998_84;
+    let mut u = InputUncertainties {
+        signal: 0.051,
+        calibration_k: 0.0,
+        emissivity: 0.02,
+        reflected_k: 2.0,
+        atm_transmittance: 0.01,
+        atm_k: 1.0,
+        ..Default::default()
+    };
+    let fd = fd_calibration(&band, &scene, s);
+    // Independent check: 1.07840989006 K/K.
+    assert_relative_eq!(fd, 1.078_409_890_06, max_relative = 1e-7);
+    let zero = surface_inputs(&scene, &band, s, &u).unwrap().1[calibration_line];
+    assert_eq!(zero.name, SURFACE_INPUT_NAMES[calibration_line]);
+    assert_relative_eq!(zero.sensitivity, fd, max_relative = 1e-7);
+    u.calibration_k = 0.5;
+    let half = surface_inputs(&scene, &band, s, &u).unwrap().1[calibration_line];
+    assert_eq!(zero.sensitivity, half.sensitivity);
+    let budget = surface_budget(&scene, &band, s, &u).unwrap();
+    assert!(budget.combined_standard_uncertainty > 0.0);
+
+    // Case 2: 7.5-13.5 um behind a window, every uncertainty 0.
+    let band = Band::rectangular(7.5, 13.5, Detector::Energy).unwrap();
+    let scene = Scene::new(0.85, 300.0)
+        .unwrap()
+        .with_atmosphere(0.99, 298.0)
+        .unwrap()
+        .with_window(0.70, 0.10, 305.0, 298.0)
+        .unwrap();
+    let s = 79.705_305_760_836_48;
+    let fd = fd_calibration(&band, &scene, s);
+    // Independent check: 1.5288882566 K/K.
+    assert_relative_eq!(fd, 1.528_888_256_6, max_relative = 1e-7);
+    let inputs = surface_inputs(&scene, &band, s, &InputUncertainties::default())
+        .unwrap()
+        .1;
+    assert_relative_eq!(
+        inputs[calibration_line].sensitivity,
+        fd,
+        max_relative = 1e-7
+    );
+}

@@ -33,7 +33,7 @@
 //!    them with arbitrary f64 bit patterns; `tests/c/ffi_test.c` drives every export with
 //!    hostile input from C and C++, under AddressSanitizer and UndefinedBehaviorSanitizer.
 //! 3. By configuration: the release profile sets `panic = "abort"`, so even a panic that
-//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.82) a
+//!    escaped 1 and 2 cannot unwind; and since Rust 1.81 (the crate's MSRV is 1.88) a
 //!    panic reaching an `extern "C"` function aborts in every profile instead of
 //!    unwinding into C.
 //!
@@ -99,6 +99,18 @@ mod ratio;
 mod atmosphere;
 // Uncertainty budgets.
 mod uncertainty;
+// Spectral (non-grey) scenes and the site methods.
+mod site;
+mod spectral;
+// Calibration checks.
+mod verify;
+// Optics and materials: spot, diffraction, SSE, emissivity from optical constants,
+// effective wavelengths, multi-wavelength pyrometry, site-method budgets.
+mod effective;
+mod emissivity;
+mod multiwavelength;
+mod optics;
+mod site_budget;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -106,6 +118,10 @@ pub use atmosphere::{
 };
 pub use band::{
     bt_band, bt_band_radiance, bt_band_radiance_derivative, bt_band_temperature, bt_detector,
+};
+pub use calibration::{
+    bt_curve, bt_curve_fit, bt_curve_fit_band, bt_curve_fit_points, bt_curve_form,
+    bt_curve_object_temperature, bt_curve_sensor_signal, bt_curve_signal, bt_curve_temperature,
 };
 pub use calibration::{
     bt_points_fit, bt_sakuma_hattori, bt_sakuma_hattori_fit_band, bt_sakuma_hattori_fit_points,
@@ -125,9 +141,21 @@ pub use planck::{
     bt_spectral_radiance, bt_total_radiance,
 };
 pub use ratio::bt_ratio_temperature;
+pub use ratio::{
+    bt_wien_ratio, bt_wien_ratio_correct_grey, bt_wien_ratio_from_bands,
+    bt_wien_ratio_signal_ratio, bt_wien_ratio_temperature,
+};
 pub use scene::{
     bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,
     bt_sensor_radiance,
+};
+pub use site::{
+    bt_emissivity_from_reference, bt_emissivity_from_reference_coating,
+    bt_reflected_temperature_from_reflector,
+};
+pub use spectral::{
+    bt_spectral_object_temperature, bt_spectral_object_temperature_from_apparent,
+    bt_spectral_sensor_radiance, bt_spectral_tables,
 };
 pub use status::{
     bt_status, bt_status_message, bt_version, BT_VERSION_MAJOR, BT_VERSION_MINOR, BT_VERSION_PATCH,
@@ -135,6 +163,40 @@ pub use status::{
 pub use uncertainty::{
     bt_budget, bt_contribution, bt_input_uncertainties, bt_surface_budget, bt_surface_input_name,
     BT_BUDGET_MAX_LINES,
+};
+pub use uncertainty::{bt_monte_carlo, bt_surface_monte_carlo, bt_surface_monte_carlo_streaming};
+pub use verify::{
+    bt_verify_coverage, bt_verify_coverage_report, bt_verify_curve_band, bt_verify_curve_report,
+    bt_verify_frame_table_band, bt_verify_frame_table_sakuma_hattori, bt_verify_residuals_report,
+    bt_verify_residuals_sakuma_hattori, bt_verify_round_trip_band, bt_verify_round_trip_report,
+    bt_verify_round_trip_sakuma_hattori, bt_verify_table_report, bt_verify_uncertainty_report,
+    bt_verify_uncertainty_sakuma_hattori,
+};
+
+pub use effective::{
+    bt_limit_effective_wavelength_um, bt_mean_effective_wavelength_um,
+    bt_one_point_wavelength_sensitivity, bt_sakuma_hattori_from_moments,
+    bt_two_point_sigma_sensitivity,
+};
+pub use emissivity::{
+    bt_directional_emissivity, bt_emissivity_directional, bt_emissivity_hemispherical,
+    bt_emissivity_normal, bt_emissivity_peak, bt_emissivity_trusted_angle_deg,
+    bt_hagen_rubens_normal,
+};
+pub use multiwavelength::{
+    bt_multiwavelength_fit, bt_multiwavelength_noise_gain, bt_multiwavelength_result,
+    BT_MULTIWAVELENGTH_MAX_BANDS, BT_MULTIWAVELENGTH_MAX_TERMS,
+};
+pub use optics::{
+    bt_airy_encircled_energy, bt_airy_radius_um, bt_footprint_m, bt_ifov_mrad, bt_mtf,
+    bt_mtf_evaluate, bt_small_target_fraction, bt_spot_diameter_m, bt_sse_correct,
+    bt_sse_correction, bt_sse_temperature_error_k, bt_target_check, bt_target_verdict,
+    BT_TARGET_RULE_ISO10878, BT_TARGET_RULE_PUSNIK_GERSAK, BT_TARGET_RULE_THREE_BY_THREE,
+};
+pub use site_budget::{
+    bt_coating_emissivity_budget, bt_contact_emissivity_budget, bt_direct_reflected_budget,
+    bt_reflector_bias_k, bt_reflector_budget, bt_site_budget, bt_site_line,
+    BT_SITE_BUDGET_MAX_LINES,
 };
 
 use bandtemp::{Error, Result};

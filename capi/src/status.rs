@@ -179,6 +179,8 @@ pub enum bt_status {
     TransmittanceTableAboveOne = 606,
     /// The band reaches beyond the spectral transmittance table.
     BandOutsideTransmittanceTable = 607,
+    /// The air path is opaque: its transmittance underflows a double.
+    PathOpaque = 608,
 
     // 700: frame
     /// A frame temperature range with `lo_k >= hi_k` (or a non-positive end).
@@ -208,6 +210,59 @@ pub enum bt_status {
     FrameEmissivityMapUnavailable = 710,
     /// The curve given to update a converter is not the one its table was built from.
     FrameCurveMismatch = 711,
+    /// A calibration-curve form outside its declared values (`bt_curve.form`, or a form
+    /// argument, not 0 or 1).
+    InvalidCurveForm = 1100,
+
+    // ---- verify: calibration checks --------------------------------------------------------
+    /// A verification temperature range without 0 < lo_k < hi_k.
+    VerifyRangeInvalid = 1000,
+    /// A verification sample count out of bounds (see `bt_verify_*`).
+    VerifySampleCountInvalid = 1001,
+    /// A verification over calibration points was given none.
+    VerifyNoPoints = 1002,
+    /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
+    VerifyCovarianceInvalid = 1003,
+
+    // 900: optics and materials
+    /// A distance-to-spot ratio, IFOV, pixel pitch, focal length, f-number, wavelength or distance that is not positive.
+    OpticsGeometryInvalid = 900,
+    /// A target size (diameter) that is not positive.
+    TargetSizeNotPositive = 901,
+    /// An encircled-energy or signal fraction outside (0, 1).
+    FractionOutOfRange = 902,
+    /// A spatial frequency below zero.
+    SpatialFrequencyNegative = 903,
+    /// A size-of-source table with fewer than two points, arrays of different length, diameters not positive and strictly increasing, or a sigma outside [0, 1).
+    SseTableInvalid = 904,
+    /// A source diameter outside the span of the size-of-source table (no extrapolation).
+    SseDiameterOutsideTable = 905,
+    /// Optical constants with n <= 0, k < 0, or |m| above 1e6.
+    RefractiveIndexInvalid = 906,
+    /// A viewing angle outside [0, 89.999] degrees.
+    AngleOutOfRange = 907,
+    /// A relative emissivity tolerance outside (0, 1).
+    AngleToleranceInvalid = 908,
+    /// An electrical resistivity that is not positive.
+    ResistivityNotPositive = 909,
+    /// The Hagen-Rubens first term exceeds 0.2, where its error reaches 10 %.
+    HagenRubensOutOfRange = 910,
+    /// Fewer bands than the emissivity model has parameters plus one (temperature).
+    TooFewBands = 911,
+    /// More bands than multi-wavelength pyrometry holds (`multiwavelength::MAX_BANDS`).
+    TooManyBands = 912,
+    /// Band, wavelength or signal arrays of different lengths.
+    BandCountMismatch = 913,
+    /// The multi-wavelength normal matrix is singular: the bands cannot separate temperature from emissivity.
+    MultiwavelengthIllConditioned = 914,
+    /// The multi-wavelength Gauss-Newton fit did not converge.
+    MultiwavelengthNotConverged = 915,
+    /// An emissivity model outside its declared values (0-3 polynomial terms).
+    EmissivityModelInvalid = 916,
+    /// A minimum-target rule outside its declared values (C ABI only).
+    TargetRuleInvalid = 917,
+    /// Spectral moments with a mean wavelength that is not positive or a negative variance.
+    MomentsInvalid = 918,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -325,6 +380,7 @@ status_table!(
     OutsideContinuumModel,
     TransmittanceTableAboveOne,
     BandOutsideTransmittanceTable,
+    PathOpaque,
     FrameRangeInvalid,
     FrameToleranceInvalid,
     FrameToleranceUnreachable,
@@ -337,6 +393,30 @@ status_table!(
     FrameCoefficientOverflow,
     FrameEmissivityMapUnavailable,
     FrameCurveMismatch,
+    InvalidCurveForm,
+    VerifyRangeInvalid,
+    VerifySampleCountInvalid,
+    VerifyNoPoints,
+    VerifyCovarianceInvalid,
+    OpticsGeometryInvalid,
+    TargetSizeNotPositive,
+    FractionOutOfRange,
+    SpatialFrequencyNegative,
+    SseTableInvalid,
+    SseDiameterOutsideTable,
+    RefractiveIndexInvalid,
+    AngleOutOfRange,
+    AngleToleranceInvalid,
+    ResistivityNotPositive,
+    HagenRubensOutOfRange,
+    TooFewBands,
+    TooManyBands,
+    BandCountMismatch,
+    MultiwavelengthIllConditioned,
+    MultiwavelengthNotConverged,
+    EmissivityModelInvalid,
+    TargetRuleInvalid,
+    MomentsInvalid,
 );
 
 impl bt_status {

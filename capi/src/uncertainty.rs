@@ -3,10 +3,10 @@
 use super::band::{band_from_c, bt_band};
 use super::scene::{bt_scene, read_scene};
 use super::status::nul_terminated;
-use super::{bt_status, deliver, read_input, Output};
+use super::{bt_status, deliver, deliver2, read_input, slice_from_c_mut, Output};
 use bandtemp::uncertainty::{
-    surface_budget, Budget, Contribution, InputUncertainties, MAX_INPUTS, SURFACE_INPUTS,
-    SURFACE_INPUT_NAMES,
+    surface_budget, surface_monte_carlo, surface_monte_carlo_streaming, Budget, Contribution,
+    InputUncertainties, Xoshiro256StarStar, MAX_INPUTS, SURFACE_INPUTS, SURFACE_INPUT_NAMES,
 };
 use bandtemp::Result;
 use core::ffi::c_char;
@@ -150,8 +150,8 @@ impl Output for bt_budget {
 /// Uncertainty budget of a surface temperature by the law of propagation (GUM, first
 /// order, inputs uncorrelated): the estimate is `bt_object_temperature` of
 /// `sensor_radiance`, and each input of `u` enters with the exact derivative of the
-/// measurement equation as its sensitivity coefficient. Inputs with u = 0 appear with a
-/// zero contribution; `out->len` is 11.
+/// measurement equation as its sensitivity coefficient, whatever its uncertainty. Inputs
+/// with u = 0 appear with their real sensitivity and a zero contribution; `out->len` is 11.
 ///
 /// Valid where the measurement equation is near-linear over the input uncertainties
 /// (low emissivity against a hot background is the classic case where it is not).
@@ -212,4 +212,154 @@ const _: () = assert!(
 #[no_mangle]
 pub extern "C" fn bt_surface_input_name(index: usize) -> *const c_char {
     input_name(index)
+}
+
+/// The result of a Monte Carlo propagation (JCGM 101:2008) of a surface temperature.
+#[repr(C)]
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct bt_monte_carlo {
+    /// Number of trials M.
+    pub trials: usize,
+    /// Mean of the trial temperatures, the Monte Carlo estimate, K. Standard error
+    /// sigma / sqrt(M) for a spread sigma.
+    pub mean_k: f64,
+    /// Standard deviation of the trial temperatures, the standard uncertainty, K
+    /// (relative standard error about 1 / sqrt(2 (M - 1))).
+    pub standard_deviation_k: f64,
+    /// The coverage probability of the intervals, as requested (e.g. 0.95).
+    pub probability: f64,
+    /// Probabilistically symmetric interval: the (1-p)/2 and (1+p)/2 quantiles, K.
+    pub low_k: f64,
+    /// Upper end of the symmetric interval, K.
+    pub high_k: f64,
+    /// Shortest interval holding the fraction p of the trials, K.
+    pub shortest_low_k: f64,
+    /// Upper end of the shortest interval, K.
+    pub shortest_high_k: f64,
+}
+
+impl Output for bt_monte_carlo {
+    fn finite(self) -> Result<bt_monte_carlo> {
+        Ok(bt_monte_carlo {
+            mean_k: self.mean_k.finite()?,
+            standard_deviation_k: self.standard_deviation_k.finite()?,
+            probability: self.probability.finite()?,
+            low_k: self.low_k.finite()?,
+            high_k: self.high_k.finite()?,
+            shortest_low_k: self.shortest_low_k.finite()?,
+            shortest_high_k: self.shortest_high_k.finite()?,
+            ..self
+        })
+    }
+}
+
+/// Monte Carlo propagation (JCGM 101:2008) of the uncertainty of a surface temperature,
+/// seeded and reproducible: `n_samples` trials, each drawing every input of `u` and
+/// solving the measurement equation again (`bt_object_temperature`). Signal noise,
+/// calibration terms and temperatures are drawn normal; emissivity, transmittances and
+/// reflectance rectangular with the same standard uncertainty (half-width sqrt(3) u). The
+/// generator is xoshiro256** seeded from `seed` through SplitMix64: the same seed and
+/// inputs give the same result, bit for bit, on every platform.
+///
+/// `samples` is the caller's storage for the M = `n_samples` trial temperatures (K); on
+/// success it holds them sorted ascending (for histograms or other quantiles). On error its
+/// contents are unspecified (some trials may have been written); `out` is untouched.
+///
+/// Errors: those of `bt_surface_budget`; `BT_STATUS_TOO_FEW_TRIALS` for `n_samples` < 2
+/// (and, after the trials, when M is too small to hold an interval of `probability`),
+/// `BT_STATUS_COVERAGE_PROBABILITY_OUT_OF_RANGE` unless 0 < `probability` < 1 (both
+/// checked before any draw); any error of a trial: a draw outside the model's domain
+/// (e + sqrt(3) u(e) > 1, a transmittance above 1, or a signal at or below the background,
+/// `BT_STATUS_SIGNAL_BELOW_BACKGROUND`) stops the run, since the stated distributions then
+/// put probability where the model is undefined.
+///
+/// # Safety
+/// `band`, `scene`, `u` as in `bt_surface_budget`; `samples` null or valid for reading and
+/// writing `n_samples` doubles, overlapping no other argument; `out` null or valid for
+/// writing a `bt_monte_carlo`; written only on success.
+#[no_mangle]
+pub unsafe extern "C" fn bt_surface_monte_carlo(
+    band: *const bt_band,
+    scene: *const bt_scene,
+    sensor_radiance: f64,
+    u: *const bt_input_uncertainties,
+    seed: u64,
+    probability: f64,
+    samples: *mut f64,
+    n_samples: usize,
+    out: *mut bt_monte_carlo,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `band_from_c`, `read_scene`,
+    // `read_input`, `slice_from_c_mut` and `deliver`.
+    unsafe {
+        deliver(out, || {
+            let band = band_from_c(band)?;
+            let scene = read_scene(scene)?;
+            let u = InputUncertainties::from(read_input(u)?);
+            let samples = slice_from_c_mut(samples, n_samples)?;
+            let mut rng = Xoshiro256StarStar::seed_from_u64(seed);
+            let summary = surface_monte_carlo(
+                &scene,
+                &band,
+                sensor_radiance,
+                &u,
+                &mut rng,
+                samples,
+                probability,
+            )?;
+            Ok(bt_monte_carlo {
+                trials: summary.trials,
+                mean_k: summary.mean,
+                standard_deviation_k: summary.standard_deviation,
+                probability: summary.interval.probability,
+                low_k: summary.interval.low,
+                high_k: summary.interval.high,
+                shortest_low_k: summary.interval.shortest_low,
+                shortest_high_k: summary.interval.shortest_high,
+            })
+        })
+    }
+}
+
+/// As `bt_surface_monte_carlo` without a buffer: `trials` trials of the same draws,
+/// streamed into a running mean and standard deviation (Welford; no coverage interval,
+/// which needs the sorted trials). With the same seed, `mean_k` and
+/// `standard_deviation_k` equal those of `bt_surface_monte_carlo` with `trials` samples,
+/// bit for bit. Both are written only on success.
+///
+/// Errors: as `bt_surface_monte_carlo` (`BT_STATUS_TOO_FEW_TRIALS` below 2 trials).
+///
+/// # Safety
+/// `band`, `scene`, `u` as in `bt_surface_budget`; `mean_k` and `standard_deviation_k`
+/// each null or valid for writing a double.
+#[no_mangle]
+pub unsafe extern "C" fn bt_surface_monte_carlo_streaming(
+    band: *const bt_band,
+    scene: *const bt_scene,
+    sensor_radiance: f64,
+    u: *const bt_input_uncertainties,
+    seed: u64,
+    trials: usize,
+    mean_k: *mut f64,
+    standard_deviation_k: *mut f64,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `band_from_c`, `read_scene`,
+    // `read_input` and `deliver2`.
+    unsafe {
+        deliver2(mean_k, standard_deviation_k, || {
+            let band = band_from_c(band)?;
+            let scene = read_scene(scene)?;
+            let u = InputUncertainties::from(read_input(u)?);
+            let mut rng = Xoshiro256StarStar::seed_from_u64(seed);
+            let stats = surface_monte_carlo_streaming(
+                &scene,
+                &band,
+                sensor_radiance,
+                &u,
+                &mut rng,
+                trials,
+            )?;
+            Ok((stats.mean, stats.standard_deviation()?))
+        })
+    }
 }

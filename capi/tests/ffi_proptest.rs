@@ -1193,3 +1193,669 @@ proptest! {
         }
     }
 }
+
+// ---- site methods, spectral scenes, the Wien ratio, calibration curves, Monte Carlo ----------
+
+/// Two-output exports: both values equal the Rust result on success; both untouched on error.
+fn agrees2(
+    status: bt_status,
+    out: (f64, f64),
+    rust: Result<(f64, f64), Error>,
+) -> Result<(), TestCaseError> {
+    match rust {
+        Ok((a, b)) if a.is_finite() && b.is_finite() => {
+            prop_assert_eq!(status, bt_status::Ok);
+            prop_assert_eq!(out.0.to_bits(), a.to_bits());
+            prop_assert_eq!(out.1.to_bits(), b.to_bits());
+        }
+        Ok(_) => {
+            prop_assert!(status == bt_status::NonFinite || status == bt_status::RadianceOverflow);
+            prop_assert_eq!(out.0.to_bits(), SENTINEL.to_bits());
+            prop_assert_eq!(out.1.to_bits(), SENTINEL.to_bits());
+        }
+        Err(error) => {
+            prop_assert_eq!(status, bt_status::from(error));
+            prop_assert_eq!(out.0.to_bits(), SENTINEL.to_bits());
+            prop_assert_eq!(out.1.to_bits(), SENTINEL.to_bits());
+        }
+    }
+    Ok(())
+}
+
+/// A spectral scene in Rust, built as the export builds it.
+fn rust_spectral<'a>(
+    scene: &bt_scene,
+    e: &'a (Vec<f64>, Vec<f64>),
+    ta: &'a (Vec<f64>, Vec<f64>),
+) -> Result<bandtemp::scene::SpectralScene<'a>, Error> {
+    let band = Band::rectangular(8.0, 14.0, Detector::Energy)?;
+    let grey = rust_scene(scene)?;
+    let mut spectral = bandtemp::scene::SpectralScene::new(band, grey)?;
+    if !e.0.is_empty() {
+        spectral = spectral.with_spectral_emissivity(SpectralTable::new(&e.0, &e.1)?)?;
+    }
+    if !ta.0.is_empty() {
+        spectral =
+            spectral.with_spectral_atmosphere(SpectralTable::new(&ta.0, &ta.1)?, grey.atm_k())?;
+    }
+    Ok(spectral)
+}
+
+/// Tables over 7-15 um with values in [0, 1.2] (most valid, some above 1), or arbitrary.
+fn spectral_table() -> impl Strategy<Value = (Vec<f64>, Vec<f64>)> {
+    prop_oneof![
+        (2usize..6)
+            .prop_flat_map(|n| { (Just(n), prop::collection::vec(0.0f64..1.2, n),) })
+            .prop_map(|(n, v)| {
+                #[allow(clippy::cast_precision_loss)]
+                let wl = (0..n)
+                    .map(|i| 7.0 + 8.0 * i as f64 / (n - 1) as f64)
+                    .collect();
+                (wl, v)
+            }),
+        table(),
+        Just((Vec::new(), Vec::new())),
+    ]
+}
+
+/// `bt_curve` with the form as a plain integer, to hand the library any value.
+#[repr(C)]
+struct RawCurve {
+    form: u32,
+    a_um: f64,
+    b_umk: f64,
+    c: f64,
+    offset: f64,
+}
+
+#[test]
+fn raw_curve_mirrors_bt_curve() {
+    assert_eq!(size_of::<bt_curve_form>(), size_of::<u32>());
+    assert_eq!(size_of::<RawCurve>(), size_of::<bt_curve>());
+    assert_eq!(offset_of!(RawCurve, a_um), offset_of!(bt_curve, a_um));
+    assert_eq!(offset_of!(RawCurve, offset), offset_of!(bt_curve, offset));
+}
+
+fn rust_curve_value(
+    form: u32,
+    p: [f64; 4],
+    f: impl Fn(&dyn SignalCurve) -> Result<f64, Error>,
+) -> Result<f64, Error> {
+    use bandtemp::calibration::{OffsetCurve, SakumaHattoriWien};
+    match form {
+        0 => f(&OffsetCurve::new(
+            SakumaHattori::new(p[0], p[1], p[2])?,
+            p[3],
+        )?),
+        1 => f(&OffsetCurve::new(
+            SakumaHattoriWien::new(p[0], p[1], p[2])?,
+            p[3],
+        )?),
+        _ => Err(Error::InvalidCurveForm),
+    }
+}
+
+fn monte_carlo_sentinel() -> bt_monte_carlo {
+    bt_monte_carlo {
+        trials: 7,
+        mean_k: SENTINEL,
+        standard_deviation_k: SENTINEL,
+        probability: SENTINEL,
+        low_k: SENTINEL,
+        high_k: SENTINEL,
+        shortest_low_k: SENTINEL,
+        shortest_high_k: SENTINEL,
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn site_methods(
+        fields in scene_fields(),
+        signal in prop_oneof![any_f64(), 5.0f64..200.0],
+        other in prop_oneof![any_f64(), 5.0f64..200.0],
+        x in prop_oneof![any_f64(), 0.0f64..1.0, 250.0f64..600.0],
+        t in prop_oneof![any_f64(), 250.0f64..600.0],
+    ) {
+        let band = rect_band(8.0, 14.0, bt_detector::Energy);
+        let rust_band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+        let scene = c_scene(fields);
+        let rust = rust_scene(&scene);
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_emissivity_from_reference(&band, &scene, signal, x, &mut out) };
+        agrees(s, out, rust.and_then(|sc| sc.emissivity_from_reference(&rust_band, signal, x)))?;
+
+        let (mut e, mut tk) = (SENTINEL, SENTINEL);
+        let s = unsafe {
+            bt_emissivity_from_reference_coating(&band, &scene, signal, other, x, &mut e, &mut tk)
+        };
+        let want = rust.and_then(|sc| {
+            sc.emissivity_from_reference_coating(&rust_band, signal, other, x)
+                .map(|r| (r.emissivity, r.temperature_k))
+        });
+        agrees2(s, (e, tk), want)?;
+
+        let mut out = SENTINEL;
+        let s = unsafe { bt_reflected_temperature_from_reflector(&band, &scene, signal, x, t, &mut out) };
+        agrees(s, out, rust.and_then(|sc| sc.reflected_k_from_reflector(&rust_band, signal, x, t)))?;
+    }
+
+    #[test]
+    fn spectral_scenes(
+        fields in scene_fields(),
+        e in spectral_table(),
+        ta in spectral_table(),
+        t in prop_oneof![any_f64(), 250.0f64..1500.0],
+        signal in prop_oneof![any_f64(), 5.0f64..2000.0],
+    ) {
+        let band = rect_band(8.0, 14.0, bt_detector::Energy);
+        let scene = c_scene(fields);
+        let tables = bt_spectral_tables {
+            emissivity_um: e.0.as_ptr(),
+            emissivity: e.1.as_ptr(),
+            emissivity_len: e.0.len(),
+            transmittance_um: ta.0.as_ptr(),
+            transmittance: ta.1.as_ptr(),
+            transmittance_len: ta.0.len(),
+        };
+        let rust = rust_spectral(&scene, &e, &ta);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_spectral_sensor_radiance(&band, &scene, &tables, t, &mut out) };
+        agrees(s, out, rust.and_then(|sp| sp.sensor_signal(t)))?;
+        let mut out = SENTINEL;
+        let s = unsafe { bt_spectral_object_temperature(&band, &scene, &tables, signal, &mut out) };
+        agrees(s, out, rust.and_then(|sp| sp.object_temperature(signal)))?;
+        let mut out = SENTINEL;
+        let s = unsafe {
+            bt_spectral_object_temperature_from_apparent(&band, &scene, &tables, t, &mut out)
+        };
+        agrees(s, out, rust.and_then(|sp| sp.object_temperature_from_apparent(t)))?;
+    }
+
+    #[test]
+    fn wien_ratio(
+        l1 in prop_oneof![any_f64(), 0.5f64..1.0],
+        l2 in prop_oneof![any_f64(), 0.8f64..2.0],
+        w in prop_oneof![any_f64(), 0.1f64..10.0],
+        x in prop_oneof![any_f64(), 0.001f64..2.0, 500.0f64..3000.0],
+        kappa in prop_oneof![any_f64(), 0.8f64..1.2],
+        lo in any_f64(),
+    ) {
+        use bandtemp::ratio::WienRatio;
+        let model = bt_wien_ratio { lambda1_um: l1, lambda2_um: l2, prefactor: w };
+        let rust = WienRatio::new(l1, l2, w);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_wien_ratio_signal_ratio(&model, x, kappa, &mut out) };
+        agrees(s, out, rust.and_then(|m| m.ratio(x, kappa)))?;
+        let mut out = SENTINEL;
+        let s = unsafe { bt_wien_ratio_temperature(&model, x, kappa, &mut out) };
+        agrees(s, out, rust.and_then(|m| m.temperature(x, kappa)))?;
+        let mut out = SENTINEL;
+        let s = unsafe { bt_wien_ratio_correct_grey(&model, x, kappa, &mut out) };
+        agrees(s, out, rust.and_then(|m| m.correct_grey(x, kappa)))?;
+
+        let band1 = rect_band(lo, 0.655, bt_detector::Energy);
+        let band2 = rect_band(0.895, 0.905, bt_detector::Photon);
+        let mut got = bt_wien_ratio { lambda1_um: SENTINEL, lambda2_um: SENTINEL, prefactor: SENTINEL };
+        let s = unsafe { bt_wien_ratio_from_bands(&band1, &band2, &mut got) };
+        let want = Band::rectangular(lo, 0.655, Detector::Energy).and_then(|b1| {
+            WienRatio::from_bands(&b1, &Band::rectangular(0.895, 0.905, Detector::Photon)?)
+        });
+        match want {
+            Ok(m) => {
+                prop_assert_eq!(s, bt_status::Ok);
+                prop_assert_eq!(got.lambda1_um.to_bits(), m.lambda1_um().to_bits());
+                prop_assert_eq!(got.prefactor.to_bits(), m.prefactor().to_bits());
+            }
+            Err(error) => {
+                prop_assert_eq!(s, bt_status::from(error));
+                prop_assert_eq!(got.prefactor.to_bits(), SENTINEL.to_bits());
+            }
+        }
+    }
+
+    #[test]
+    fn calibration_curves(
+        form in prop_oneof![0u32..2, any::<u32>()],
+        p in prop_oneof![
+            prop::array::uniform4(any_f64()),
+            (0.5f64..14.0, -50.0f64..150.0, 1.0f64..1e9, -1e3f64..1e3).prop_map(|(a, b, c, o)| [a, b, c, o]),
+        ],
+        x in prop_oneof![any_f64(), 250.0f64..2500.0, 1.0f64..1e9],
+        fields in scene_fields(),
+    ) {
+        let raw = RawCurve { form, a_um: p[0], b_umk: p[1], c: p[2], offset: p[3] };
+        let curve = (&raw as *const RawCurve).cast::<bt_curve>();
+        let mut out = SENTINEL;
+        let s = unsafe { bt_curve_signal(curve, x, &mut out) };
+        agrees(s, out, rust_curve_value(form, p, |c| c.signal(x)))?;
+        let mut out = SENTINEL;
+        let s = unsafe { bt_curve_temperature(curve, x, &mut out) };
+        agrees(s, out, rust_curve_value(form, p, |c| c.temperature(x)))?;
+        let scene = c_scene(fields);
+        let mut out = SENTINEL;
+        let s = unsafe { bt_curve_sensor_signal(curve, &scene, x, &mut out) };
+        // The export validates the curve first, then the scene.
+        let want = rust_curve_value(form, p, |_| Ok(0.0))
+            .and_then(|_| rust_scene(&scene))
+            .and_then(|sc| rust_curve_value(form, p, |c| sc.sensor_signal(c, x)));
+        agrees(s, out, want)?;
+        let mut out = SENTINEL;
+        let s = unsafe { bt_curve_object_temperature(curve, &scene, x, &mut out) };
+        let want = rust_curve_value(form, p, |_| Ok(0.0))
+            .and_then(|_| rust_scene(&scene))
+            .and_then(|sc| rust_curve_value(form, p, |c| sc.object_temperature(c, x)));
+        agrees(s, out, want)?;
+    }
+
+    #[test]
+    fn curve_forms_outside_the_enum_are_errors(form in any::<i32>()) {
+        let band = rect_band(0.645, 0.655, bt_detector::Energy);
+        let mut curve = bt_curve { form: bt_curve_form::Planck, a_um: SENTINEL, b_umk: SENTINEL, c: SENTINEL, offset: SENTINEL };
+        let mut max_error = SENTINEL;
+        if !(0..=1).contains(&form) {
+            let s = unsafe { bt_curve_fit_band(form, &band, 700.0, 1400.0, &mut curve, &mut max_error) };
+            prop_assert_eq!(s, bt_status::InvalidCurveForm);
+            prop_assert_eq!(curve.a_um.to_bits(), SENTINEL.to_bits());
+            prop_assert_eq!(max_error.to_bits(), SENTINEL.to_bits());
+            let t = [900.0, 1000.0, 1100.0];
+            let mut fit = core::mem::MaybeUninit::<bt_curve_fit>::zeroed();
+            let s = unsafe {
+                bt_curve_fit_points(form, t.as_ptr(), t.as_ptr(), core::ptr::null(), 3, 0.0, fit.as_mut_ptr())
+            };
+            prop_assert_eq!(s, bt_status::InvalidCurveForm);
+        }
+    }
+}
+
+proptest! {
+    // Each case runs up to 40 Monte Carlo trials twice.
+    #![proptest_config(ProptestConfig::with_cases(128))]
+
+    #[test]
+    fn monte_carlo_budgets(
+        fields in scene_fields(),
+        u in uncertainty_fields(),
+        signal in prop_oneof![any_f64(), 5.0f64..200.0],
+        seed in any::<u64>(),
+        n in 0usize..40,
+        probability in prop_oneof![any_f64(), 0.5f64..0.99],
+    ) {
+        use bandtemp::uncertainty::{surface_monte_carlo, surface_monte_carlo_streaming, Xoshiro256StarStar};
+        let band = rect_band(8.0, 14.0, bt_detector::Energy);
+        let rust_band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+        let scene = c_scene(fields);
+        let c_u = c_uncertainties(u);
+        let mut samples = vec![SENTINEL; n];
+        let mut out = monte_carlo_sentinel();
+        let s = unsafe {
+            bt_surface_monte_carlo(&band, &scene, signal, &c_u, seed, probability, samples.as_mut_ptr(), n, &mut out)
+        };
+        let mut rust_samples = vec![0.0; n];
+        let want = rust_scene(&scene).and_then(|sc| {
+            surface_monte_carlo(&sc, &rust_band, signal, &rust_uncertainties(u),
+                &mut Xoshiro256StarStar::seed_from_u64(seed), &mut rust_samples, probability)
+        });
+        match want {
+            Ok(m) if s == bt_status::Ok => {
+                prop_assert_eq!(out.trials, n);
+                prop_assert_eq!(out.mean_k.to_bits(), m.mean.to_bits());
+                prop_assert_eq!(out.standard_deviation_k.to_bits(), m.standard_deviation.to_bits());
+                prop_assert_eq!(out.low_k.to_bits(), m.interval.low.to_bits());
+                prop_assert_eq!(out.shortest_high_k.to_bits(), m.interval.shortest_high.to_bits());
+                prop_assert_eq!(&samples, &rust_samples);
+            }
+            Ok(m) => {
+                prop_assert!(s == bt_status::NonFinite || s == bt_status::RadianceOverflow, "{:?} {:?}", s, m);
+                prop_assert_eq!(out, monte_carlo_sentinel());
+            }
+            Err(error) => {
+                prop_assert_eq!(s, bt_status::from(error));
+                prop_assert_eq!(out, monte_carlo_sentinel());
+            }
+        }
+        let (mut mean, mut sd) = (SENTINEL, SENTINEL);
+        let s = unsafe {
+            bt_surface_monte_carlo_streaming(&band, &scene, signal, &c_u, seed, n, &mut mean, &mut sd)
+        };
+        let want = rust_scene(&scene).and_then(|sc| {
+            let stats = surface_monte_carlo_streaming(&sc, &rust_band, signal, &rust_uncertainties(u),
+                &mut Xoshiro256StarStar::seed_from_u64(seed), n)?;
+            Ok((stats.mean, stats.standard_deviation()?))
+        });
+        agrees2(s, (mean, sd), want)?;
+    }
+}
+
+#[test]
+fn new_exports_answer_bad_pointers_with_a_status() {
+    let band = rect_band(8.0, 14.0, bt_detector::Energy);
+    let scene = c_scene([0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0]);
+    let tables = bt_spectral_tables {
+        emissivity_um: core::ptr::null(),
+        emissivity: core::ptr::null(),
+        emissivity_len: 0,
+        transmittance_um: core::ptr::null(),
+        transmittance: core::ptr::null(),
+        transmittance_len: 0,
+    };
+    let model = bt_wien_ratio {
+        lambda1_um: 0.65,
+        lambda2_um: 0.9,
+        prefactor: 5.0,
+    };
+    let curve = bt_curve {
+        form: bt_curve_form::Wien,
+        a_um: 0.9,
+        b_umk: 1.0,
+        c: 1e9,
+        offset: 0.0,
+    };
+    let u = c_uncertainties([0.05, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0]);
+    let mut out = SENTINEL;
+    let mut samples = [0.0; 8];
+    let null = core::ptr::null_mut::<f64>();
+    unsafe {
+        assert_eq!(
+            bt_emissivity_from_reference(&band, &scene, 50.0, 400.0, null),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_reflected_temperature_from_reflector(
+                &band,
+                core::ptr::null(),
+                50.0,
+                0.0,
+                300.0,
+                &mut out
+            ),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_spectral_sensor_radiance(&band, &scene, core::ptr::null(), 400.0, &mut out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_spectral_object_temperature(&band, &scene, &tables, 50.0, null),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_wien_ratio_temperature(core::ptr::null(), 0.1, 1.0, &mut out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_wien_ratio_temperature(&model, 0.1, 1.0, null),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_curve_signal(core::ptr::null(), 1000.0, &mut out),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_curve_temperature(&curve, 1e3, null),
+            bt_status::NullPointer
+        );
+        let misaligned = (&curve as *const bt_curve)
+            .cast::<u8>()
+            .add(1)
+            .cast::<bt_curve>();
+        assert_eq!(
+            bt_curve_signal(misaligned, 1000.0, &mut out),
+            bt_status::InvalidBuffer
+        );
+        assert_eq!(
+            bt_surface_monte_carlo(
+                &band,
+                &scene,
+                50.0,
+                &u,
+                1,
+                0.95,
+                samples.as_mut_ptr(),
+                8,
+                core::ptr::null_mut()
+            ),
+            bt_status::NullPointer
+        );
+        assert_eq!(
+            bt_surface_monte_carlo_streaming(&band, &scene, 50.0, &u, 1, 8, &mut out, null),
+            bt_status::NullPointer
+        );
+    }
+    assert_eq!(out.to_bits(), SENTINEL.to_bits());
+}
+
+// ---- calibration checks ------------------------------------------------------------------
+
+/// Sample counts: small ones (including the refused 0 and 1) and the refused huge ones.
+fn verify_samples() -> impl Strategy<Value = usize> {
+    prop_oneof![
+        4 => 0usize..24,
+        1 => Just(bandtemp::verify::MAX_SAMPLES + 1),
+        1 => Just(usize::MAX),
+    ]
+}
+
+/// A C report and the Rust report behind it agree: the same status, the same fields bit
+/// for bit on success (compared through `Debug`, which prints every bit of an f64), the
+/// report untouched on error.
+fn report_agrees<C: core::fmt::Debug + PartialEq, R: Into<C>>(
+    status: bt_status,
+    out: &C,
+    sentinel: &C,
+    rust: Result<R, Error>,
+) -> Result<(), TestCaseError> {
+    match rust {
+        Ok(report) => {
+            prop_assert_eq!(status, bt_status::Ok);
+            prop_assert_eq!(format!("{out:?}"), format!("{:?}", report.into()));
+        }
+        Err(error) => {
+            prop_assert_eq!(status, bt_status::from(error));
+            prop_assert_eq!(out, sentinel);
+        }
+    }
+    Ok(())
+}
+
+const RESIDUALS_SENTINEL: bt_verify_residuals_report = bt_verify_residuals_report {
+    points: 7,
+    max_abs_residual_k: SENTINEL,
+    rms_residual_k: SENTINEL,
+    mean_residual_k: SENTINEL,
+    worst_index: 7,
+    worst_t_k: SENTINEL,
+    worst_residual_k: SENTINEL,
+};
+const CURVE_SENTINEL: bt_verify_curve_report = bt_verify_curve_report {
+    samples: 7,
+    max_abs_error_k: SENTINEL,
+    worst_t_k: SENTINEL,
+    worst_error_k: SENTINEL,
+    mean_error_k: SENTINEL,
+};
+const TRIP_SENTINEL: bt_verify_round_trip_report = bt_verify_round_trip_report {
+    samples: 7,
+    max_abs_error_k: SENTINEL,
+    worst_t_k: SENTINEL,
+    worst_error_k: SENTINEL,
+    monotonic: 7,
+    first_non_monotonic_k: SENTINEL,
+};
+const COVERAGE_SENTINEL: bt_verify_coverage_report = bt_verify_coverage_report {
+    points: 7,
+    points_in_range: 7,
+    t_min_k: SENTINEL,
+    t_max_k: SENTINEL,
+    extrapolated_below_k: SENTINEL,
+    extrapolated_above_k: SENTINEL,
+    largest_gap_k: SENTINEL,
+    gap_lo_k: SENTINEL,
+    gap_hi_k: SENTINEL,
+};
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    /// Residuals, coverage, round trips and the curve-against-band check with every
+    /// argument drawn from arbitrary bit patterns (or near valid values): agreement with
+    /// the Rust API, the report untouched on error.
+    #[test]
+    fn verify_checks(
+        [a, b, c] in prop_oneof![Just([10.2, 60.0, 2.0e6]), prop::array::uniform3(any_f64())],
+        dark in prop_oneof![Just(900.0), any_f64()],
+        points in prop::collection::vec(
+            (prop_oneof![250.0f64..500.0, any_f64()], prop_oneof![1000.0f64..1e5, any_f64()]),
+            0..6,
+        ),
+        lo in prop_oneof![250.0f64..300.0, any_f64()],
+        hi in prop_oneof![400.0f64..500.0, any_f64()],
+        [gain, offset] in prop_oneof![Just([1.0, 0.0]), prop::array::uniform2(any_f64())],
+        edges in prop_oneof![Just((8.0, 14.0)), (any_f64(), any_f64())],
+        samples in verify_samples(),
+    ) {
+        let p = bt_sakuma_hattori { a_um: a, b_umk: b, c };
+        let (t_k, signal): (Vec<f64>, Vec<f64>) = points.into_iter().unzip();
+        let n = t_k.len();
+        let rust_curve = SakumaHattori::new(a, b, c)
+            .and_then(|sh| bandtemp::calibration::OffsetCurve::new(sh, dark));
+        let band = rect_band(edges.0, edges.1, bt_detector::Energy);
+        let rust_band = Band::rectangular(edges.0, edges.1, Detector::Energy);
+
+        let mut out = RESIDUALS_SENTINEL;
+        let s = unsafe {
+            bt_verify_residuals_sakuma_hattori(&p, dark, t_k.as_ptr(), signal.as_ptr(), n, &mut out)
+        };
+        let want = rust_curve.and_then(|curve| bandtemp::verify::residuals(&curve, &t_k, &signal));
+        report_agrees(s, &out, &RESIDUALS_SENTINEL, want)?;
+
+        let mut out = COVERAGE_SENTINEL;
+        let s = unsafe { bt_verify_coverage(t_k.as_ptr(), n, lo, hi, &mut out) };
+        report_agrees(s, &out, &COVERAGE_SENTINEL, bandtemp::verify::coverage(&t_k, lo, hi))?;
+
+        let mut out = TRIP_SENTINEL;
+        let s = unsafe { bt_verify_round_trip_sakuma_hattori(&p, dark, lo, hi, samples, &mut out) };
+        let want = rust_curve
+            .and_then(|curve| bandtemp::verify::round_trip(&curve, lo, hi, samples));
+        report_agrees(s, &out, &TRIP_SENTINEL, want)?;
+
+        let mut out = TRIP_SENTINEL;
+        let s = unsafe { bt_verify_round_trip_band(&band, lo, hi, samples, &mut out) };
+        let want = rust_band
+            .and_then(|band| bandtemp::verify::round_trip(&band, lo, hi, samples));
+        report_agrees(s, &out, &TRIP_SENTINEL, want)?;
+
+        let mut out = CURVE_SENTINEL;
+        let s = unsafe {
+            bt_verify_curve_band(&p, dark, &band, gain, offset, lo, hi, samples, &mut out)
+        };
+        let want = (|| {
+            let map = bandtemp::frame::CountsMap::linear(gain, offset)?;
+            bandtemp::verify::curve_against_model(&rust_curve?, &rust_band?, map, lo, hi, samples)
+        })();
+        // The C side reads the curve, the band and the map in that order; the Rust side
+        // above builds them in another, so only the success/failure and, on success, the
+        // report must agree; an error is still a named one with the report untouched.
+        match want {
+            Ok(report) => {
+                prop_assert_eq!(s, bt_status::Ok);
+                prop_assert_eq!(format!("{out:?}"), format!("{:?}", bt_verify_curve_report::from(report)));
+            }
+            Err(_) => {
+                prop_assert!(s != bt_status::Ok && s.error().is_some());
+                prop_assert_eq!(out, CURVE_SENTINEL);
+            }
+        }
+    }
+
+    /// The uncertainty check with arbitrary covariances (near valid ones or bit patterns)
+    /// and ranges: agreement with the Rust API, the report untouched on error.
+    #[test]
+    fn verify_uncertainty(
+        [a, b, c] in prop_oneof![Just([10.2, 60.0, 2.0e6]), prop::array::uniform3(any_f64())],
+        v in prop_oneof![
+            Just([1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6]),
+            prop::array::uniform9(any_f64()),
+            (0usize..9, any_f64()).prop_map(|(i, x)| {
+                let mut v = [1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6];
+                if let Some(slot) = v.get_mut(i) {
+                    *slot = x;
+                }
+                v
+            }),
+        ],
+        lo in prop_oneof![250.0f64..300.0, any_f64()],
+        hi in prop_oneof![400.0f64..500.0, any_f64()],
+        samples in verify_samples(),
+    ) {
+        let p = bt_sakuma_hattori { a_um: a, b_umk: b, c };
+        let sentinel = bt_verify_uncertainty_report {
+            samples: 7,
+            max_u_k: SENTINEL,
+            worst_t_k: SENTINEL,
+            lo_u_k: SENTINEL,
+            hi_u_k: SENTINEL,
+        };
+        let mut out = sentinel;
+        let s = unsafe {
+            bt_verify_uncertainty_sakuma_hattori(&p, v.as_ptr(), lo, hi, samples, &mut out)
+        };
+        let matrix = [[v[0], v[1], v[2]], [v[3], v[4], v[5]], [v[6], v[7], v[8]]];
+        let want = SakumaHattori::new(a, b, c).and_then(|curve| {
+            bandtemp::verify::calibration_uncertainty(&curve, &matrix, lo, hi, samples)
+        });
+        report_agrees(s, &out, &sentinel, want)?;
+    }
+
+    /// The frame-table check over a good converter with arbitrary rows, row counts and
+    /// points per row, and over converters with words overwritten: a report that agrees
+    /// with the Rust check, or a named status with the report untouched.
+    #[test]
+    fn verify_frame_table_hostile(
+        words in prop::collection::vec((0usize..32, any::<u64>()), 0..3),
+        row_bits in prop::collection::vec(any::<u32>(), 4),
+        corrupt_row in any::<bool>(),
+        rows_len in prop_oneof![Just(None), (0usize..300).prop_map(Some)],
+        points_per_row in prop_oneof![0usize..8, Just(5000usize)],
+    ) {
+        let (mut conv, mut rows, used) = c_converter();
+        for (i, w) in words {
+            conv.opaque[i] = w;
+        }
+        if corrupt_row {
+            if let Some(r) = rows.first_mut() {
+                r.coefficients = [0, 1, 2, 3].map(|i| f32::from_bits(row_bits[i]));
+            }
+        }
+        let n = rows_len.unwrap_or(used).min(rows.len());
+        let band = frame_band();
+        let sentinel = bt_verify_table_report {
+            rows: 7,
+            samples: 7,
+            max_abs_error_k: SENTINEL,
+            worst_signal: SENTINEL,
+            worst_t_k: SENTINEL,
+            worst_error_k: SENTINEL,
+            refused: 7,
+            non_monotonic: 7,
+            claimed_max_error_k: SENTINEL,
+        };
+        let mut out = sentinel;
+        let s = unsafe {
+            bt_verify_frame_table_band(&band, &*conv, rows.as_ptr(), n, points_per_row, &mut out)
+        };
+        let rust_rows: Vec<[f32; 4]> = rows.iter().map(|r| r.coefficients).collect();
+        let want = (|| {
+            let converter = bandtemp::frame::FrameConverter::from_parts(
+                state_of(&conv),
+                rust_rows.get(..n).unwrap_or(&[]),
+            )?;
+            let band = Band::rectangular(8.0, 14.0, Detector::Energy)?;
+            bandtemp::verify::frame_table(&converter.table(), &band, points_per_row)
+        })();
+        report_agrees(s, &out, &sentinel, want)?;
+    }
+}

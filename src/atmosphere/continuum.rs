@@ -164,9 +164,15 @@ impl Path {
     /// docs.
     ///
     /// # Errors
-    /// As [`Path::optical_depth`].
+    /// As [`Path::optical_depth`]; [`Error::PathOpaque`] when exp(-k w) underflows to zero
+    /// (an optical depth above about 745: the path is opaque at this wavelength).
     pub fn spectral_transmittance(&self, wavelength_um: f64) -> Result<f64> {
-        Ok(libm::exp(-self.optical_depth(wavelength_um)?))
+        let tau = libm::exp(-self.optical_depth(wavelength_um)?);
+        if tau > 0.0 {
+            Ok(tau)
+        } else {
+            Err(Error::PathOpaque)
+        }
     }
 
     /// Samples tau(lambda) at `wavelengths_um` into the caller's `out_transmittance` (same

@@ -50,6 +50,114 @@ pub use humidity::{Air, Phase, SaturationFormula};
 use crate::band::{Band, SpectralTable};
 use crate::error::{Error, Result};
 
+/// Largest change of the optical depth across one sub-band of a continuum integral. The
+/// band's quadrature is sized by the Planck variable x = c2/(lambda T); on a thick path
+/// the transmittance exp(-k w) also varies steeply (an 8-14 um band through 2 km of hot,
+/// saturated air runs from depth 13 to 65, a factor e^52), so the band is split first into
+/// sub-bands over which the depth changes by at most this much. Within one sub-band
+/// exp(-depth) then varies by at most e^0.5 and is entire, and the Gauss-Legendre rules
+/// of the band quadrature integrate it to below 1e-14 relative (checked against mpmath
+/// on thick, hot, humid km paths in `tests/atmosphere_band.rs`).
+const MAX_DEPTH_STEP: f64 = 0.5;
+
+/// Samples of the optical depth used to measure its total variation over a band.
+const DEPTH_SAMPLES: u32 = 64;
+
+/// Most sub-bands one continuum integral uses: a depth variation of 1024 across the band.
+/// Beyond it (paths of hundreds of km, whose band transmittance is below 1e-100) the
+/// sub-bands see a larger depth step and the 1e-12 accuracy is no longer checked; the cap
+/// bounds the time of a call on any input (at most 2 x 2048 sub-band quadratures).
+const MAX_SUB_BANDS: u32 = 2048;
+
+/// int r w L(T) dlambda and int r L(T) dlambda over `band` with w = exp(-depth) or
+/// -expm1(-depth), on sub-bands sized by [`MAX_DEPTH_STEP`].
+fn continuum_integrals(
+    path: &Path,
+    band: &Band<'_>,
+    temperature_k: f64,
+    complement: bool,
+) -> Result<(f64, f64)> {
+    let (lo_um, hi_um) = (band.lo_um(), band.hi_um());
+    // Total variation of the depth, sampled: the depth is smooth and has at most one
+    // extremum in the model's range, so the samples see all of its variation but for a
+    // sliver at an extremum (made up by the margin in the step).
+    let step_um = (hi_um - lo_um) / f64::from(DEPTH_SAMPLES);
+    let mut variation = 0.0;
+    let mut previous = path.optical_depth_unchecked(lo_um);
+    for i in 1..=DEPTH_SAMPLES {
+        let wavelength_um = if i == DEPTH_SAMPLES {
+            hi_um
+        } else {
+            lo_um + step_um * f64::from(i)
+        };
+        let depth = path.optical_depth_unchecked(wavelength_um);
+        variation += (depth - previous).abs();
+        previous = depth;
+    }
+    if !variation.is_finite() {
+        return Err(Error::NonFinite);
+    }
+    let pieces = libm::ceil(variation / MAX_DEPTH_STEP).clamp(1.0, f64::from(MAX_SUB_BANDS));
+    // `pieces` is an integer in [1, MAX_SUB_BANDS]: the conversion is exact.
+    #[allow(clippy::cast_possible_truncation, clippy::cast_sign_loss)]
+    let count = pieces as u32;
+    let width_um = (hi_um - lo_um) / pieces;
+    let weight = |wavelength_um: f64| {
+        let depth = path.optical_depth_unchecked(wavelength_um);
+        if complement {
+            -libm::expm1(-depth)
+        } else {
+            libm::exp(-depth)
+        }
+    };
+    if count == 1 {
+        let weighted = band
+            .weighted_radiance_and_derivative(temperature_k, &[], weight)?
+            .0;
+        let plain = band
+            .weighted_radiance_and_derivative(temperature_k, &[], |_| 1.0)?
+            .0;
+        return Ok((weighted, plain));
+    }
+    let mut weighted = 0.0;
+    let mut plain = 0.0;
+    for i in 0..count {
+        let a_um = lo_um + width_um * f64::from(i);
+        let b_um = if i + 1 == count {
+            hi_um
+        } else {
+            lo_um + width_um * f64::from(i + 1)
+        };
+        let sub = match band.response() {
+            None => Band::rectangular(a_um, b_um, band.detector()),
+            Some(response) => Band::with_response(a_um, b_um, band.detector(), response),
+        };
+        let sub = match sub {
+            Ok(sub) => sub,
+            // A stretch where the response is zero contributes nothing.
+            Err(Error::BandEmpty) => continue,
+            Err(error) => return Err(error),
+        };
+        weighted += sub
+            .weighted_radiance_and_derivative(temperature_k, &[], weight)?
+            .0;
+        plain += sub
+            .weighted_radiance_and_derivative(temperature_k, &[], |_| 1.0)?
+            .0;
+    }
+    Ok((weighted, plain))
+}
+
+/// [`Error::PathOpaque`] when the object's band radiance is there but nothing of it gets
+/// through (the transmitted integral underflowed to zero).
+fn opaque_check(weighted: f64, plain: f64) -> Result<()> {
+    if weighted == 0.0 && plain > 0.0 {
+        Err(Error::PathOpaque)
+    } else {
+        Ok(())
+    }
+}
+
 /// A caller's spectral transmittance table: tau at strictly increasing wavelengths (um),
 /// values in [0, 1], linear between points. Borrowed, never copied.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -127,16 +235,7 @@ impl PathTransmittance<'_> {
         self.check_band(band)?;
         match self {
             PathTransmittance::Continuum(path) => {
-                let weighted = band.weighted_radiance_and_derivative(temperature_k, &[], |wl| {
-                    let depth = path.optical_depth_unchecked(wl);
-                    if complement {
-                        -libm::expm1(-depth)
-                    } else {
-                        libm::exp(-depth)
-                    }
-                })?;
-                let plain = band.weighted_radiance_and_derivative(temperature_k, &[], |_| 1.0)?;
-                Ok((weighted.0, plain.0))
+                continuum_integrals(path, band, temperature_k, complement)
             }
             PathTransmittance::Table(table) => {
                 let tables = [table.table];
@@ -162,11 +261,13 @@ impl PathTransmittance<'_> {
     /// Accuracy: relative 1e-12 against mpmath quadrature (`tests/atmosphere_band.rs`).
     ///
     /// # Errors
-    /// [`PathTransmittance::check_band`], and the errors of
-    /// [`Band::weighted_radiance_and_derivative`].
+    /// [`PathTransmittance::check_band`], the errors of
+    /// [`Band::weighted_radiance_and_derivative`], and [`Error::PathOpaque`] when the
+    /// transmitted radiance underflows to zero (a path no object radiance gets through).
     pub fn band_transmitted_radiance(&self, band: &Band<'_>, object_k: f64) -> Result<f64> {
-        self.integrals(band, object_k, false)
-            .map(|(weighted, _)| weighted)
+        let (weighted, plain) = self.integrals(band, object_k, false)?;
+        opaque_check(weighted, plain)?;
+        Ok(weighted)
     }
 
     /// Band-effective transmittance weighted by the object's own spectrum,
@@ -178,11 +279,17 @@ impl PathTransmittance<'_> {
     /// # Errors
     /// As [`PathTransmittance::band_transmitted_radiance`]; [`Error::RadianceUnderflow`]
     /// when the object's band radiance underflows.
+    ///
+    /// Accuracy: relative 1e-12 against mpmath quadrature, thick paths included (2 km of
+    /// saturated air at 60 C: `tests/atmosphere_band.rs`).
     pub fn band_transmittance(&self, band: &Band<'_>, object_k: f64) -> Result<f64> {
         let (weighted, plain) = self.integrals(band, object_k, false)?;
         if !(plain > 0.0) {
             return Err(Error::RadianceUnderflow);
         }
+        opaque_check(weighted, plain)?;
+        // The ratio of two sums over the same nodes with weights in (0, 1]: the clamp only
+        // removes a rounding excess of a few ulp above 1.
         Ok((weighted / plain).clamp(0.0, 1.0))
     }
 

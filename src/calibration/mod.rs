@@ -84,7 +84,11 @@ pub use fit::{
     curve_residuals_k, fit_band, fit_band_with, fit_points, fit_points_with, residuals_k, BandFit,
     PointsFit, BAND_CHECK_POINTS, BAND_FIT_POINTS, MAX_FIT_ITERATIONS,
 };
-pub use moments::{moment_estimate, spectral_moments, MomentEstimate, SpectralMoments};
+pub use moments::{
+    limit_effective_wavelength_um, mean_effective_wavelength_um, moment_estimate,
+    one_point_wavelength_sensitivity, spectral_moments, two_point_sigma_sensitivity,
+    MomentEstimate, SpectralMoments,
+};
 
 use crate::band::SignalCurve;
 use crate::constants::C2_UMK;
@@ -131,6 +135,31 @@ fn effective_umk(a_um: f64, b_umk: f64, temperature_k: f64) -> Result<f64> {
         Ok(denominator)
     } else {
         Err(Error::CalibrationOutOfDomain)
+    }
+}
+
+/// Beyond this y = c2/(A T + B), e^-y nears the subnormal range (it enters it at 708.4).
+const DEEP_Y: f64 = 700.0;
+
+/// C e^-y, through exp(ln C - y) beyond [`DEEP_Y`] so that no intermediate leaves the
+/// normal range while the product is a normal double (C e^-y with e^-y subnormal lost its
+/// digits, and C / expm1(y) with expm1(y) = inf gave 0 for a representable signal).
+fn c_exp_neg(c: f64, y: f64) -> f64 {
+    if y > DEEP_Y {
+        libm::exp(libm::log(c) - y)
+    } else {
+        c * libm::exp(-y)
+    }
+}
+
+/// ln(C / S) for positive C and S, also where C / S leaves the double range (ln C - ln S
+/// then; C / S = inf made the inverse return T = -B/A, the edge of the curve's domain).
+fn ln_ratio(c: f64, s: f64) -> f64 {
+    let ratio = c / s;
+    if ratio.is_finite() && ratio >= f64::MIN_POSITIVE {
+        libm::log(ratio)
+    } else {
+        libm::log(c) - libm::log(s)
     }
 }
 
@@ -192,6 +221,14 @@ impl SignalCurve for SakumaHattori {
     fn signal_and_derivative(&self, temperature_k: f64) -> Result<(f64, f64)> {
         let denominator = effective_umk(self.a_um, self.b_umk, temperature_k)?;
         let y = C2_UMK / denominator;
+        if y > DEEP_Y {
+            // e^y - 1 = e^y to 1e-304: S = C e^-y, dS/dT = S A y / (A T + B).
+            let signal = c_exp_neg(self.c, y);
+            if !(signal >= f64::MIN_POSITIVE) {
+                return Err(Error::RadianceUnderflow);
+            }
+            return Ok((signal, signal * self.a_um * y / denominator));
+        }
         let e = libm::expm1(y);
         let signal = self.c / e;
         if !(signal >= f64::MIN_POSITIVE) {
@@ -211,7 +248,14 @@ impl SignalCurve for SakumaHattori {
     /// [`Error::CalibrationOutOfDomain`] when the result is not a positive temperature.
     fn temperature(&self, signal: f64) -> Result<f64> {
         let s = check_signal(signal)?;
-        check_inverse((C2_UMK / libm::log1p(self.c / s) - self.b_umk) / self.a_um)
+        let ratio = self.c / s;
+        // ln(1 + C/S) = ln(C/S) to 1e-308 where C/S overflows.
+        let log = if ratio.is_finite() {
+            libm::log1p(ratio)
+        } else {
+            ln_ratio(self.c, s)
+        };
+        check_inverse((C2_UMK / log - self.b_umk) / self.a_um)
     }
 }
 
@@ -264,7 +308,7 @@ impl SignalCurve for SakumaHattoriWien {
     fn signal_and_derivative(&self, temperature_k: f64) -> Result<(f64, f64)> {
         let denominator = effective_umk(self.a_um, self.b_umk, temperature_k)?;
         let y = C2_UMK / denominator;
-        let signal = self.c * libm::exp(-y);
+        let signal = c_exp_neg(self.c, y);
         if !(signal >= f64::MIN_POSITIVE) {
             return Err(Error::RadianceUnderflow);
         }
@@ -279,7 +323,7 @@ impl SignalCurve for SakumaHattoriWien {
     /// temperature.
     fn temperature(&self, signal: f64) -> Result<f64> {
         let s = check_signal(signal)?;
-        let log_ratio = libm::log(self.c / s);
+        let log_ratio = ln_ratio(self.c, s);
         if !(log_ratio > 0.0) {
             return Err(Error::CalibrationOutOfDomain);
         }

@@ -1,9 +1,10 @@
 //! Spectral moments of a band and the published first-order estimates of the
-//! Sakuma-Hattori A and B from them.
+//! Sakuma-Hattori A and B from them; effective wavelengths and the sensitivity of a
+//! calibration to the band's wavelength and width.
 
-use crate::band::Band;
+use crate::band::{Band, SignalCurve};
 use crate::constants::C2_UMK;
-use crate::error::{Error, Result};
+use crate::error::{check_temperature_k, finite, Error, Result};
 use crate::planck::Detector;
 
 /// Mean and variance of a band's relative spectral response over wavelength.
@@ -115,4 +116,136 @@ pub fn moment_estimate(moments: SpectralMoments, detector: Detector) -> MomentEs
         a_um,
         b_umk: C2_UMK * relative / 2.0,
     }
+}
+
+/// Limit effective wavelength of an instrument at `temperature_k`, um:
+///
+/// ```text
+/// 1/lambda_T = (T^2 / c2) d ln S / dT
+/// ```
+///
+/// the wavelength of a line instrument (Wien approximation) whose signal changes with
+/// temperature as this one's does at T. For a Sakuma-Hattori curve (Wien form) it is
+/// lambda_T = A + 2B/T + B^2/(A T^2) exactly; for a [`Band`], it uses the band's exact
+/// dL/dT (so it includes the departure from Wien at long lambda T). Definitions as in the
+/// CCT-WG5 uncertainty guidance for radiation thermometers (from memory).
+///
+/// # Errors
+/// [`Error::NonFinite`], [`Error::TemperatureNotPositive`], errors of `curve`.
+pub fn limit_effective_wavelength_um<C: SignalCurve + ?Sized>(
+    curve: &C,
+    temperature_k: f64,
+) -> Result<f64> {
+    let t = check_temperature_k(temperature_k)?;
+    let (signal, slope) = curve.signal_and_derivative(t)?;
+    finite(C2_UMK * signal / (t * t * slope))
+}
+
+/// Mean effective wavelength between `t1_k` and `t2_k`, um:
+///
+/// ```text
+/// lambda_12 = c2 (1/T1 - 1/T2) / ln(S(T2)/S(T1))
+/// ```
+///
+/// the line wavelength (Wien approximation) whose signal ratio over [T1, T2] equals the
+/// instrument's; it tends to the limit effective wavelength as T2 -> T1.
+///
+/// # Errors
+/// [`Error::NonFinite`], [`Error::TemperatureNotPositive`],
+/// [`Error::CalibrationDuplicateTemperature`] when T1 = T2, errors of `curve`.
+pub fn mean_effective_wavelength_um<C: SignalCurve + ?Sized>(
+    curve: &C,
+    t1_k: f64,
+    t2_k: f64,
+) -> Result<f64> {
+    let t1 = check_temperature_k(t1_k)?;
+    let t2 = check_temperature_k(t2_k)?;
+    if t1 == t2 {
+        return Err(Error::CalibrationDuplicateTemperature);
+    }
+    let s1 = curve.signal(t1)?;
+    let s2 = curve.signal(t2)?;
+    // (1/T1 - 1/T2) = (T2 - T1)/(T1 T2), free of cancellation.
+    finite(C2_UMK * ((t2 - t1) / (t1 * t2)) / libm::log(s2 / s1))
+}
+
+/// Sensitivity of the measured temperature to the effective wavelength, one-point
+/// calibration at `calibration_k` (T1), in K per um, at `temperature_k` (T):
+///
+/// ```text
+/// dT/dlambda = (1 - T/T1) T / lambda
+/// ```
+///
+/// Model (Wien approximation, line instrument): the instrument converts the signal ratio
+/// S/S1 = exp((c2/lambda)(1/T1 - 1/T)) to temperature with an assumed `wavelength_um`;
+/// if its true effective wavelength is longer by dlambda, it reads dT = (dT/dlambda)
+/// dlambda (negative above T1, positive below: a longer wavelength makes the ratio rise
+/// more slowly). Zero at T = T1, where the calibration pins the reading. Check: 1 nm at
+/// 650 nm, T1 = 1234.93 K (the silver point), T = 2000 K: -1.906 K (CCT-WG5 guidance
+/// for radiation thermometers, cited from memory; recomputed in
+/// `tools/refgen/calibration_sensitivity_refs.py`).
+///
+/// # Errors
+/// [`Error::NonFinite`], [`Error::TemperatureNotPositive`],
+/// [`Error::WavelengthNotPositive`].
+pub fn one_point_wavelength_sensitivity(
+    wavelength_um: f64,
+    calibration_k: f64,
+    temperature_k: f64,
+) -> Result<f64> {
+    let t1 = check_temperature_k(calibration_k)?;
+    let t = check_temperature_k(temperature_k)?;
+    if !(finite(wavelength_um)? > 0.0) {
+        return Err(Error::WavelengthNotPositive);
+    }
+    finite((t1 - t) / t1 * t / wavelength_um)
+}
+
+/// Sensitivity of the measured temperature to the band's standard deviation sigma
+/// (um), two-point calibration at `t1_k` and `t2_k`, in K per um, at `temperature_k`.
+///
+/// Model: the Sakuma-Hattori curve (Wien form) S = C exp(-c2/(A T + B)) with
+/// B = c2 sigma^2 / (2 lambda0^2) taken from the band's moments and A, C fitted through
+/// the two calibration points. An error dsigma moves B by dB = c2 sigma dsigma / lambda0^2;
+/// A and C re-fit to the same two signals, and the reading at T moves by
+///
+/// ```text
+/// X_i = A T_i + B,  A' = dA/dB = (1/X1^2 - 1/X2^2) / (T2/X2^2 - T1/X1^2)
+/// dT/dB = [ X^2 (A' T1 + 1) / X1^2 - A' T - 1 ] / A,      dT/dsigma = dT/dB dB/dsigma
+/// ```
+///
+/// (implicit differentiation of 1/X1 - 1/X2 and 1/X1 - 1/X fixed by the signals; derived
+/// here, checked against an explicit two-point solve with mpmath in
+/// `tools/refgen/calibration_sensitivity_refs.py`). Zero at T1 and T2; the estimate's A
+/// is A = lambda0 (1 - 6 sigma^2/lambda0^2) ([`moment_estimate`], energy detector).
+///
+/// # Errors
+/// [`Error::NonFinite`], [`Error::TemperatureNotPositive`], [`Error::MomentsInvalid`]
+/// for a mean that is not positive or a variance below zero,
+/// [`Error::CalibrationDuplicateTemperature`] when T1 = T2.
+pub fn two_point_sigma_sensitivity(
+    moments: SpectralMoments,
+    t1_k: f64,
+    t2_k: f64,
+    temperature_k: f64,
+) -> Result<f64> {
+    let lambda0 = finite(moments.mean_um)?;
+    let variance = finite(moments.variance_um2)?;
+    if !(lambda0 > 0.0 && variance >= 0.0) {
+        return Err(Error::MomentsInvalid);
+    }
+    let t1 = check_temperature_k(t1_k)?;
+    let t2 = check_temperature_k(t2_k)?;
+    let t = check_temperature_k(temperature_k)?;
+    if t1 == t2 {
+        return Err(Error::CalibrationDuplicateTemperature);
+    }
+    let estimate = moment_estimate(moments, Detector::Energy);
+    let (a, b) = (estimate.a_um, estimate.b_umk);
+    let (x1, x2, x) = (a * t1 + b, a * t2 + b, a * t + b);
+    let (w1, w2) = (1.0 / (x1 * x1), 1.0 / (x2 * x2));
+    let a_prime = (w1 - w2) / (t2 * w2 - t1 * w1);
+    let dt_db = (x * x * (a_prime * t1 + 1.0) * w1 - a_prime * t - 1.0) / a;
+    let sigma = libm::sqrt(variance);
+    finite(dt_db * C2_UMK * sigma / (lambda0 * lambda0))
 }

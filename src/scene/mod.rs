@@ -291,10 +291,16 @@ impl Scene {
     ///
     /// # Errors
     /// [`Error::TemperatureNotPositive`], [`Error::NonFinite`], and errors of `curve`
-    /// (including [`Error::RadianceUnderflow`] when the object's own signal underflows).
+    /// (including [`Error::RadianceUnderflow`] when the object's own signal underflows);
+    /// [`Error::RadianceUnderflow`] also when S itself is not a normal double (weights near
+    /// the smallest doubles: e = ta = tw = 5e-324 gave S = 0).
     pub fn sensor_signal<C: SignalCurve + ?Sized>(&self, curve: &C, object_k: f64) -> Result<f64> {
         let terms = self.grey_terms(curve)?;
-        Ok(terms.gain * curve.signal(object_k)? + terms.background)
+        let signal = terms.gain * curve.signal(object_k)? + terms.background;
+        if signal < f64::MIN_POSITIVE {
+            return Err(Error::RadianceUnderflow);
+        }
+        Ok(signal)
     }
 
     /// Apparent temperature for an object at `object_k`, K: the blackbody temperature

@@ -1336,6 +1336,23 @@ static void test_atmosphere(void) {
            bt_path_band_transmittance(&narrow, 303.15, 0.8, 1013.25, 100.0, 350.0, &out));
     CHECK(out > 0.0 && out < 1.0);
 
+    /* Regression, thick path: 2 km of saturated air at 60 C and 1100 hPa, 2000 K object,
+       8-14 um photon band; an independent high-precision quadrature (two methods agreeing
+       to 1e-31) gives 1.2724080802391162e-06 (the quadrature sized by the Planck variable
+       alone missed it by -1.1e-7 relative). */
+    {
+        bt_band lwir_photon = rectangular(8.0, 14.0, BT_DETECTOR_PHOTON);
+        EXPECT_NEAR(
+            bt_path_band_transmittance(&lwir_photon, 333.15, 1.0, 1100.0, 2000.0, 2000.0, &out),
+            1.2724080802391162e-06, 1e-12);
+    }
+    /* An opaque path is an error, never a transmittance of 0 with success: 10,000 km at
+       10 um, 100,000 km over the whole band. */
+    EXPECT(BT_STATUS_PATH_OPAQUE,
+           bt_path_spectral_transmittance(293.15, 0.5, 1013.25, 1.0e7, 10.0, &out));
+    EXPECT(BT_STATUS_PATH_OPAQUE,
+           bt_path_band_transmittance(&lwir, 293.15, 0.5, 1013.25, 1.0e8, 300.0, &out));
+
     /* Named errors, out untouched. */
     EXPECT(BT_STATUS_AIR_TEMPERATURE_OUT_OF_RANGE,
            bt_air_saturation_vapour_pressure_hpa(400.0, &out));
@@ -1512,6 +1529,26 @@ static void test_uncertainty(void) {
     CHECK(bt_surface_budget(&lwir, &scene, s, &hostile, &budget) == BT_STATUS_OK);
     CHECK(budget.combined_standard_uncertainty_k == 0.0 && budget.len == 11);
 
+    /* Regression: a zero uncertainty keeps the real sensitivity (the calibration line read 0).
+       8-14 um, e 0.93, reflected 291 K, air 0.97 at 288 K, no window; an independent
+       high-precision check gives 1.07840989006 K/K for the calibration (temperature) line. */
+    {
+        bt_scene plain = {0.93, 291.0, 0.97, 288.0, 1.0, 0.0, 288.0, 288.0};
+        bt_input_uncertainties zero_cal = {0.051, 0.0, 0.0, 0.02, 2.0, 0.01, 1.0, 0, 0, 0, 0};
+        int found = 0;
+        budget = budget_sentinel();
+        CHECK(bt_surface_budget(&lwir, &plain, 88.04078527399884, &zero_cal, &budget) ==
+              BT_STATUS_OK);
+        for (i = 0; i < budget.len; i++) {
+            if (budget.ranked[i].index == 1) {
+                found = 1;
+                CHECK(fabs(budget.ranked[i].sensitivity - 1.07840989006) <= 1e-7);
+                CHECK(budget.ranked[i].contribution_k == 0.0);
+            }
+        }
+        CHECK(found);
+    }
+
     /* Named errors, budget untouched. */
 #define EXPECT_BUDGET(want, call)                                                              \
     do {                                                                                       \
@@ -1559,6 +1596,1221 @@ static void test_uncertainty(void) {
     (void)out;
 }
 
+/* ---- site methods: emissivity from a reference, reflected temperature from a reflector ---- */
+
+/* The scene below with emissivity e, over Simpson band radiances of 8-14 um. */
+static double site_signal(const bt_scene *s, double e, double t_object, double t_reflected) {
+    bt_scene with_e = *s;
+    with_e.emissivity = e;
+    return measurement(&with_e, band_ref(8.0, 14.0, t_object, 0),
+                       band_ref(8.0, 14.0, t_reflected, 0), band_ref(8.0, 14.0, s->atm_k, 0),
+                       band_ref(8.0, 14.0, s->window_reflected_k, 0),
+                       band_ref(8.0, 14.0, s->window_k, 0));
+}
+
+static void test_site(void) {
+    double out, e = SENTINEL, t = SENTINEL;
+    size_t i;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene(); /* e 0.9, Tr 295 K, ta 0.95, tw 0.9, rw 0.05 */
+    /* An invented surface of emissivity 0.62 at 400 K, a coating of 0.95 beside it. */
+    double s_surface = site_signal(&scene, 0.62, 400.0, scene.reflected_k);
+    double s_coating = site_signal(&scene, 0.95, 400.0, scene.reflected_k);
+    /* A foil reflector of emissivity 0.05 at 300 K reflecting 330 K. */
+    double s_foil = site_signal(&scene, 0.05, 300.0, 330.0);
+    bt_status status;
+
+    /* Values against the written-out equation (Simpson band radiances, ~1e-12). */
+    EXPECT_NEAR(bt_emissivity_from_reference(&lwir, &scene, s_surface, 400.0, &out), 0.62, 1e-9);
+    status = bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, s_coating, 0.95, &e, &t);
+    expect_near(status, e, 0.62, 1e-9, "coating: surface emissivity", __LINE__);
+    expect_near(status, t, 400.0, 1e-9, "coating: common temperature", __LINE__);
+    EXPECT_NEAR(bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, 0.05, 300.0, &out),
+                330.0, 1e-9);
+    /* An ideal reflector (ef = 0) sees Tr through the path and window alone. */
+    EXPECT_NEAR(bt_reflected_temperature_from_reflector(&lwir, &scene,
+                                                        site_signal(&scene, 0.0, 300.0, 330.0),
+                                                        0.0, 300.0, &out),
+                330.0, 1e-9);
+
+    /* Named errors. */
+    EXPECT(BT_STATUS_EMISSIVITY_NOT_DETERMINED,
+           bt_emissivity_from_reference(&lwir, &scene, s_surface, scene.reflected_k, &out));
+    EXPECT(BT_STATUS_EMISSIVITY_READING_INCONSISTENT,
+           bt_emissivity_from_reference(&lwir, &scene, s_surface, 330.0, &out));
+    EXPECT(BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE,
+           bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, 1.0, 300.0, &out));
+    EXPECT(BT_STATUS_REFLECTED_NOT_DETERMINED,
+           bt_reflected_temperature_from_reflector(&lwir, &scene, 0.0, 0.05, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_emissivity_from_reference(NULL, &scene, s_surface, 400.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_emissivity_from_reference(&lwir, NULL, s_surface, 400.0, &out));
+    CHECK(bt_emissivity_from_reference(&lwir, &scene, s_surface, 400.0, NULL) == BT_STATUS_NULL_POINTER);
+    e = SENTINEL;
+    t = SENTINEL;
+    status = bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, s_coating, 1.5, &e, &t);
+    CHECK(status == BT_STATUS_EMISSIVITY_OUT_OF_RANGE && untouched(e) && untouched(t));
+    CHECK(bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, s_coating, 0.95, &e, NULL) ==
+              BT_STATUS_NULL_POINTER &&
+          untouched(e));
+    status = bt_emissivity_from_reference_coating(&lwir, &scene, s_surface, 0.0, 0.95, &e, &t);
+    CHECK(status == BT_STATUS_SIGNAL_BELOW_BACKGROUND && untouched(e) && untouched(t));
+
+    /* Hostile scalars in every position. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        EXPECT_SANE(bt_emissivity_from_reference(&lwir, &scene, x, 400.0, &out));
+        EXPECT_SANE(bt_emissivity_from_reference(&lwir, &scene, s_surface, x, &out));
+        EXPECT_SANE(bt_reflected_temperature_from_reflector(&lwir, &scene, x, 0.05, 300.0, &out));
+        EXPECT_SANE(bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, x, 300.0, &out));
+        EXPECT_SANE(bt_reflected_temperature_from_reflector(&lwir, &scene, s_foil, 0.05, x, &out));
+        {
+            size_t j;
+            for (j = 0; j < 3; j++) {
+                double args[3] = {s_surface, s_coating, 0.95};
+                args[j] = x;
+                e = SENTINEL;
+                t = SENTINEL;
+                status = bt_emissivity_from_reference_coating(&lwir, &scene, args[0], args[1],
+                                                              args[2], &e, &t);
+                CHECK(status == BT_STATUS_OK ? isfinite(e) && isfinite(t)
+                                             : untouched(e) && untouched(t) && known_status(status));
+            }
+        }
+    }
+}
+
+/* ---- spectral scenes ------------------------------------------------------------------- */
+
+/* Linear interpolation in a table (inside its span). */
+static double lerp_table(const double *wl, const double *v, size_t n, double x) {
+    size_t i;
+    for (i = 0; i + 1 < n; i++) {
+        if (x <= wl[i + 1]) {
+            return v[i] + (v[i + 1] - v[i]) * (x - wl[i]) / (wl[i + 1] - wl[i]);
+        }
+    }
+    return v[n - 1];
+}
+
+static const double SPEC_E_WL[] = {8.0, 11.0, 14.0};
+static const double SPEC_E[] = {0.95, 0.85, 0.75};  /* invented: emissivity falling with lambda */
+static const double SPEC_TA_WL[] = {7.5, 10.0, 12.0, 14.5};
+static const double SPEC_TA[] = {0.90, 0.97, 0.95, 0.85}; /* invented air transmittance */
+
+/* The spectral equation of bt_spectral_tables written out: Simpson on each piece between the
+ * tables' nodes (where the integrand is smooth), 1000 panels per piece. */
+static double spectral_ref(const bt_scene *s, double t_k) {
+    static const double edges[] = {8.0, 10.0, 11.0, 12.0, 14.0};
+    double integral = 0.0;
+    size_t k;
+    for (k = 0; k + 1 < sizeof edges / sizeof edges[0]; k++) {
+        const int n = 1000;
+        double lo = edges[k], step = (edges[k + 1] - edges[k]) / n, sum = 0.0;
+        int i;
+        for (i = 0; i <= n; i++) {
+            double wl = lo + i * step;
+            double e = lerp_table(SPEC_E_WL, SPEC_E, 3, wl);
+            double ta = lerp_table(SPEC_TA_WL, SPEC_TA, 4, wl);
+            double f = ta * e * planck(wl, t_k) + ta * (1.0 - e) * planck(wl, s->reflected_k) +
+                       (1.0 - ta) * planck(wl, s->atm_k);
+            sum += ((i == 0 || i == n) ? 1.0 : (i % 2 ? 4.0 : 2.0)) * f;
+        }
+        integral += sum * step / 3.0;
+    }
+    return s->window_transmittance * integral +
+           s->window_reflectance * band_ref(8.0, 14.0, s->window_reflected_k, 0) +
+           (1.0 - s->window_transmittance - s->window_reflectance) *
+               band_ref(8.0, 14.0, s->window_k, 0);
+}
+
+static void test_spectral(void) {
+    double out, s_ref, apparent = SENTINEL, grey = SENTINEL;
+    double bad[3] = {0.9, 1.5, 0.9}, short_wl[3] = {9.0, 11.0, 14.0};
+    size_t i;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = full_scene();
+    bt_spectral_tables tables = {SPEC_E_WL, SPEC_E, 3, SPEC_TA_WL, SPEC_TA, 4};
+    bt_spectral_tables none = {NULL, NULL, 0, NULL, NULL, 0};
+    bt_spectral_tables broken;
+
+    /* Against the written-out integral (Simpson, ~1e-12; the library claims 1e-13). */
+    for (i = 0; i < 4; i++) {
+        double t = 320.0 + 250.0 * (double)i;
+        s_ref = spectral_ref(&scene, t);
+        EXPECT_NEAR(bt_spectral_sensor_radiance(&lwir, &scene, &tables, t, &out), s_ref, 1e-10);
+        EXPECT_NEAR(bt_spectral_object_temperature(&lwir, &scene, &tables, s_ref, &out), t, 1e-10);
+        CHECK(bt_band_temperature(&lwir, s_ref, &apparent) == BT_STATUS_OK);
+        EXPECT_NEAR(bt_spectral_object_temperature_from_apparent(&lwir, &scene, &tables, apparent,
+                                                                 &out),
+                    t, 1e-9);
+    }
+    /* Without tables the spectral scene is the grey one. */
+    CHECK(bt_sensor_radiance(&lwir, &scene, 500.0, &grey) == BT_STATUS_OK);
+    EXPECT_NEAR(bt_spectral_sensor_radiance(&lwir, &scene, &none, 500.0, &out), grey, 1e-13);
+
+    /* Named errors. */
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(&lwir, &scene, NULL, 500.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(NULL, &scene, &tables, 500.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(&lwir, NULL, &tables, 500.0, &out));
+    CHECK(bt_spectral_sensor_radiance(&lwir, &scene, &tables, 500.0, NULL) == BT_STATUS_NULL_POINTER);
+    broken = tables;
+    broken.emissivity_um = short_wl; /* starts at 9 um: does not cover 8-14 um */
+    EXPECT(BT_STATUS_SPECTRAL_TABLE_DOES_NOT_COVER_BAND,
+           bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity = bad;
+    EXPECT(BT_STATUS_SPECTRAL_EMISSIVITY_OUT_OF_RANGE,
+           bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.transmittance = bad;
+    broken.transmittance_len = 3;
+    broken.transmittance_um = SPEC_E_WL;
+    EXPECT(BT_STATUS_SPECTRAL_TRANSMITTANCE_OUT_OF_RANGE,
+           bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity = NULL;
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.transmittance_um = (const double *)misaligned((void *)SPEC_TA_WL);
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity_len = SIZE_MAX;
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    broken = tables;
+    broken.emissivity_len = 1;
+    EXPECT(BT_STATUS_TABLE_TOO_SHORT, bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+    EXPECT(BT_STATUS_SIGNAL_BELOW_BACKGROUND,
+           bt_spectral_object_temperature(&lwir, &scene, &tables, 1e-3, &out));
+
+    /* Hostile scalars, and hostile table values. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i], values[4];
+        size_t j;
+        EXPECT_SANE(bt_spectral_sensor_radiance(&lwir, &scene, &tables, x, &out));
+        EXPECT_SANE(bt_spectral_object_temperature(&lwir, &scene, &tables, x, &out));
+        EXPECT_SANE(bt_spectral_object_temperature_from_apparent(&lwir, &scene, &tables, x, &out));
+        for (j = 0; j < 4; j++) {
+            memcpy(values, SPEC_TA, sizeof values);
+            values[j] = x;
+            broken = tables;
+            broken.transmittance = values;
+            EXPECT_SANE(bt_spectral_sensor_radiance(&lwir, &scene, &broken, 500.0, &out));
+            broken = tables;
+            broken.transmittance_um = values;
+            EXPECT_SANE(bt_spectral_object_temperature(&lwir, &scene, &broken, 150.0, &out));
+        }
+    }
+}
+
+/* ---- Wien ratio model ---------------------------------------------------------------- */
+
+static int wien_untouched(const bt_wien_ratio *w) {
+    return untouched(w->lambda1_um) && untouched(w->lambda2_um) && untouched(w->prefactor);
+}
+
+static void test_wien_ratio(void) {
+    double out, exact = SENTINEL;
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    size_t i;
+    bt_band b1 = rectangular(0.645, 0.655, BT_DETECTOR_ENERGY);
+    bt_band b2 = rectangular(0.895, 0.905, BT_DETECTOR_ENERGY);
+    bt_wien_ratio w = {SENTINEL, SENTINEL, SENTINEL}, bad;
+    double lambda_r, r_ref, r_planck;
+    bt_status status;
+
+    /* The model of two rectangular bands: centre wavelengths, W = (l1^-5 D1)/(l2^-5 D2). */
+    status = bt_wien_ratio_from_bands(&b1, &b2, &w);
+    expect_near(status, w.lambda1_um, 0.65, 1e-14, "Wien lambda1", __LINE__);
+    expect_near(status, w.lambda2_um, 0.90, 1e-14, "Wien lambda2", __LINE__);
+    expect_near(status, w.prefactor, pow(0.65, -5.0) * 0.01 / (pow(0.90, -5.0) * 0.01), 1e-13,
+                "Wien prefactor", __LINE__);
+    lambda_r = w.lambda1_um * w.lambda2_um / (w.lambda2_um - w.lambda1_um);
+
+    /* R = kappa W exp(-c2 / (lambda_R T)) and its inverse, written out. */
+    r_ref = 1.1 * w.prefactor * exp(-c2_umk / (lambda_r * 1500.0));
+    EXPECT_NEAR(bt_wien_ratio_signal_ratio(&w, 1500.0, 1.1, &out), r_ref, 1e-13);
+    EXPECT_NEAR(bt_wien_ratio_temperature(&w, r_ref, 1.1, &out), 1500.0, 1e-12);
+    EXPECT_NEAR(bt_wien_ratio_correct_grey(&w, 1500.0, 1.1, &out),
+                1.0 / (1.0 / 1500.0 + lambda_r / c2_umk * log(1.1)), 1e-13);
+
+    /* Against Planck's law: the documented agreement of the closed form with the exact solver
+     * for 10 nm bands at 0.65/0.90 um is within 0.4 K at 800 K. */
+    r_planck = band_ref(0.645, 0.655, 800.0, 0) / band_ref(0.895, 0.905, 800.0, 0);
+    status = bt_wien_ratio_temperature(&w, r_planck, 1.0, &out);
+    CHECK(status == BT_STATUS_OK && fabs(out - 800.0) < 0.4);
+    CHECK(bt_ratio_temperature(&b1, &b2, 600.0, 2000.0, r_planck, 1.0, 1.0, &exact) ==
+              BT_STATUS_OK &&
+          fabs(exact - 800.0) < 1e-6);
+
+    /* Named errors. */
+    bad = w;
+    bad.lambda2_um = bad.lambda1_um;
+    EXPECT(BT_STATUS_BANDS_INDISTINGUISHABLE, bt_wien_ratio_temperature(&bad, 0.1, 1.0, &out));
+    bad = w;
+    bad.prefactor = 0.0;
+    EXPECT(BT_STATUS_RATIO_NOT_POSITIVE, bt_wien_ratio_temperature(&bad, 0.1, 1.0, &out));
+    bad = w;
+    bad.lambda1_um = -0.65;
+    EXPECT(BT_STATUS_WAVELENGTH_NOT_POSITIVE, bt_wien_ratio_signal_ratio(&bad, 900.0, 1.0, &out));
+    EXPECT(BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE, bt_wien_ratio_temperature(&w, 0.1, 0.0, &out));
+    EXPECT(BT_STATUS_RATIO_NOT_POSITIVE, bt_wien_ratio_temperature(&w, 0.0, 1.0, &out));
+    EXPECT(BT_STATUS_RATIO_OUT_OF_RANGE, bt_wien_ratio_temperature(&w, 2.0 * w.prefactor, 1.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_wien_ratio_temperature(NULL, 0.1, 1.0, &out));
+    EXPECT(BT_STATUS_INVALID_BUFFER,
+           bt_wien_ratio_temperature((const bt_wien_ratio *)misaligned(&w), 0.1, 1.0, &out));
+    bad.lambda1_um = SENTINEL;
+    bad.lambda2_um = SENTINEL;
+    bad.prefactor = SENTINEL;
+    CHECK(bt_wien_ratio_from_bands(&b1, &b1, &bad) == BT_STATUS_BANDS_INDISTINGUISHABLE &&
+          wien_untouched(&bad));
+    CHECK(bt_wien_ratio_from_bands(&b1, NULL, &bad) == BT_STATUS_NULL_POINTER && wien_untouched(&bad));
+    CHECK(bt_wien_ratio_from_bands(&b1, &b2, NULL) == BT_STATUS_NULL_POINTER);
+
+    /* Hostile scalars in every position, in the struct and as arguments. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        size_t j;
+        EXPECT_SANE(bt_wien_ratio_signal_ratio(&w, x, 1.0, &out));
+        EXPECT_SANE(bt_wien_ratio_signal_ratio(&w, 1000.0, x, &out));
+        EXPECT_SANE(bt_wien_ratio_temperature(&w, x, 1.0, &out));
+        EXPECT_SANE(bt_wien_ratio_temperature(&w, 0.01, x, &out));
+        EXPECT_SANE(bt_wien_ratio_correct_grey(&w, x, 1.1, &out));
+        EXPECT_SANE(bt_wien_ratio_correct_grey(&w, 1500.0, x, &out));
+        for (j = 0; j < 3; j++) {
+            double fields[3];
+            fields[0] = w.lambda1_um;
+            fields[1] = w.lambda2_um;
+            fields[2] = w.prefactor;
+            fields[j] = x;
+            bad.lambda1_um = fields[0];
+            bad.lambda2_um = fields[1];
+            bad.prefactor = fields[2];
+            EXPECT_SANE(bt_wien_ratio_temperature(&bad, 0.01, 1.0, &out));
+            EXPECT_SANE(bt_wien_ratio_signal_ratio(&bad, 1000.0, 1.0, &out));
+        }
+        b2 = rectangular(x, 0.905, BT_DETECTOR_PHOTON);
+        bad.lambda1_um = SENTINEL;
+        bad.lambda2_um = SENTINEL;
+        bad.prefactor = SENTINEL;
+        status = bt_wien_ratio_from_bands(&b1, &b2, &bad);
+        CHECK(status == BT_STATUS_OK
+                  ? isfinite(bad.lambda1_um) && isfinite(bad.lambda2_um) && isfinite(bad.prefactor)
+                  : wien_untouched(&bad) && known_status(status));
+    }
+}
+
+/* ---- calibration curves of either form, behind a dark offset --------------------------- */
+
+static void set_raw_form(bt_curve *curve, unsigned int value) {
+    if (sizeof curve->form == sizeof(unsigned int)) {
+        memcpy(&curve->form, &value, sizeof curve->form);
+    } else if (sizeof curve->form == sizeof(unsigned short)) {
+        unsigned short narrow = (unsigned short)value;
+        memcpy(&curve->form, &narrow, sizeof curve->form);
+    } else {
+        unsigned char narrow = (unsigned char)value;
+        memcpy(&curve->form, &narrow, sizeof curve->form);
+    }
+}
+
+/* The two forms written out: offset + C/(exp(c2/(A T + B)) - 1), offset + C exp(-c2/(A T + B)). */
+static double curve_ref(const bt_curve *p, double t_k) {
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    double y = c2_umk / (p->a_um * t_k + p->b_umk);
+    return p->offset + (p->form == BT_CURVE_FORM_WIEN ? p->c * exp(-y) : p->c / expm1(y));
+}
+
+static int curve_untouched(const bt_curve *p) {
+    return untouched(p->a_um) && untouched(p->b_umk) && untouched(p->c) && untouched(p->offset);
+}
+
+static void test_curves(void) {
+    double out, max_error = SENTINEL, t_k[6], counts[6];
+    size_t i;
+    bt_curve planck_curve = {BT_CURVE_FORM_PLANCK, 10.2, 25.0, 5.0e4, 1024.0};
+    bt_curve wien_curve = {BT_CURVE_FORM_WIEN, 0.905, 1.5, 2.0e9, 250.0};
+    bt_curve bad, fitted;
+    bt_curve_fit fit;
+    bt_scene scene = full_scene();
+    bt_band narrow = rectangular(0.645, 0.655, BT_DETECTOR_ENERGY);
+    bt_status status;
+
+    /* Both forms against the written-out curves, and their closed-form inverses. */
+    for (i = 0; i < 5; i++) {
+        double t_ir = 260.0 + 60.0 * (double)i, t_nir = 900.0 + 250.0 * (double)i;
+        EXPECT_NEAR(bt_curve_signal(&planck_curve, t_ir, &out), curve_ref(&planck_curve, t_ir), 1e-14);
+        EXPECT_NEAR(bt_curve_temperature(&planck_curve, curve_ref(&planck_curve, t_ir), &out), t_ir,
+                    1e-12);
+        EXPECT_NEAR(bt_curve_signal(&wien_curve, t_nir, &out), curve_ref(&wien_curve, t_nir), 1e-14);
+        EXPECT_NEAR(bt_curve_temperature(&wien_curve, curve_ref(&wien_curve, t_nir), &out), t_nir,
+                    1e-12);
+    }
+    /* The measurement equation over a curve: the offset enters once. */
+    {
+        double s = measurement(&scene, curve_ref(&planck_curve, 350.0) - 1024.0,
+                               curve_ref(&planck_curve, scene.reflected_k) - 1024.0,
+                               curve_ref(&planck_curve, scene.atm_k) - 1024.0,
+                               curve_ref(&planck_curve, scene.window_reflected_k) - 1024.0,
+                               curve_ref(&planck_curve, scene.window_k) - 1024.0) +
+                   1024.0;
+        EXPECT_NEAR(bt_curve_sensor_signal(&planck_curve, &scene, 350.0, &out), s, 1e-13);
+        EXPECT_NEAR(bt_curve_object_temperature(&planck_curve, &scene, s, &out), 350.0, 1e-11);
+    }
+
+    /* Fits: exact readings of the invented Wien-form pyrometer behind its 250-count dark
+     * offset come back to below 1 uK (the documented recovery), parameters to 1e-6. */
+    for (i = 0; i < 6; i++) {
+        t_k[i] = 873.15 + 120.0 * (double)i;
+        counts[i] = curve_ref(&wien_curve, t_k[i]);
+    }
+    memset(&fit, 0, sizeof fit);
+    status = bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 6, 250.0, &fit);
+    CHECK(status == BT_STATUS_OK && fit.curve.form == BT_CURVE_FORM_WIEN &&
+          fit.max_residual_k < 1e-6 && fabs(fit.curve.a_um / 0.905 - 1.0) < 1e-6 &&
+          fit.curve.offset == 250.0);
+    /* The band fit in the Wien form: 0.645-0.655 um over 700-1400 K interpolates to well
+     * under a millikelvin, and its curve inverts Simpson band radiance within that. */
+    fitted.a_um = SENTINEL;
+    fitted.b_umk = SENTINEL;
+    fitted.c = SENTINEL;
+    fitted.offset = SENTINEL;
+    status = bt_curve_fit_band(BT_CURVE_FORM_WIEN, &narrow, 700.0, 1400.0, &fitted, &max_error);
+    CHECK(status == BT_STATUS_OK && fitted.form == BT_CURVE_FORM_WIEN && fitted.offset == 0.0 &&
+          max_error > 0.0 && max_error < 1e-3);
+    EXPECT_NEAR(bt_curve_temperature(&fitted, band_ref(0.645, 0.655, 1000.0, 0), &out), 1000.0,
+                (max_error + 1e-6) / 1000.0);
+
+    /* Named errors. */
+    bad = planck_curve;
+    set_raw_form(&bad, 7);
+    EXPECT(BT_STATUS_INVALID_CURVE_FORM, bt_curve_signal(&bad, 300.0, &out));
+    set_raw_form(&bad, 0xFFFFFFFFu);
+    EXPECT(BT_STATUS_INVALID_CURVE_FORM, bt_curve_temperature(&bad, 2000.0, &out));
+    EXPECT(BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET, bt_curve_temperature(&planck_curve, 1024.0, &out));
+    EXPECT(BT_STATUS_CALIBRATION_OUT_OF_DOMAIN, bt_curve_temperature(&wien_curve, 3.0e9, &out));
+    bad = planck_curve;
+    bad.a_um = 0.0;
+    EXPECT(BT_STATUS_CALIBRATION_PARAMETER_INVALID, bt_curve_signal(&bad, 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_curve_signal(NULL, 300.0, &out));
+    EXPECT(BT_STATUS_INVALID_BUFFER, bt_curve_signal((const bt_curve *)misaligned(&bad), 300.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_curve_sensor_signal(&planck_curve, NULL, 300.0, &out));
+    CHECK(bt_curve_signal(&planck_curve, 300.0, NULL) == BT_STATUS_NULL_POINTER);
+    bad.a_um = SENTINEL;
+    bad.b_umk = SENTINEL;
+    bad.c = SENTINEL;
+    bad.offset = SENTINEL;
+    max_error = SENTINEL;
+    CHECK(bt_curve_fit_band(2, &narrow, 700.0, 1400.0, &bad, &max_error) ==
+              BT_STATUS_INVALID_CURVE_FORM &&
+          curve_untouched(&bad) && untouched(max_error));
+    CHECK(bt_curve_fit_band(-1, &narrow, 700.0, 1400.0, &bad, &max_error) ==
+              BT_STATUS_INVALID_CURVE_FORM &&
+          curve_untouched(&bad));
+    CHECK(bt_curve_fit_band(BT_CURVE_FORM_PLANCK, &narrow, 1400.0, 700.0, &bad, &max_error) ==
+              BT_STATUS_CALIBRATION_RANGE_INVALID &&
+          curve_untouched(&bad) && untouched(max_error));
+    CHECK(bt_curve_fit_points(5, t_k, counts, NULL, 6, 250.0, &fit) == BT_STATUS_INVALID_CURVE_FORM);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 2, 250.0, &fit) ==
+          BT_STATUS_CALIBRATION_TOO_FEW_POINTS);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 6, 1e12, &fit) ==
+          BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, NULL, counts, NULL, 6, 250.0, &fit) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, SIZE_MAX, 250.0, &fit) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_curve_fit_points(BT_CURVE_FORM_WIEN, t_k, counts, NULL, 6, 250.0, NULL) ==
+          BT_STATUS_NULL_POINTER);
+
+    /* Hostile scalars in every field and argument. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        size_t j;
+        for (j = 0; j < 4; j++) {
+            bad = (j % 2 == 0) ? planck_curve : wien_curve;
+            if (j == 0) bad.a_um = x;
+            if (j == 1) bad.b_umk = x;
+            if (j == 2) bad.c = x;
+            if (j == 3) bad.offset = x;
+            EXPECT_SANE(bt_curve_signal(&bad, 1000.0, &out));
+            EXPECT_SANE(bt_curve_temperature(&bad, 5000.0, &out));
+            EXPECT_SANE(bt_curve_object_temperature(&bad, &scene, 5000.0, &out));
+        }
+        EXPECT_SANE(bt_curve_signal(&planck_curve, x, &out));
+        EXPECT_SANE(bt_curve_temperature(&planck_curve, x, &out));
+        EXPECT_SANE(bt_curve_signal(&wien_curve, x, &out));
+        EXPECT_SANE(bt_curve_temperature(&wien_curve, x, &out));
+        EXPECT_SANE(bt_curve_sensor_signal(&wien_curve, &scene, x, &out));
+        EXPECT_SANE(bt_curve_object_temperature(&planck_curve, &scene, x, &out));
+        status = bt_curve_fit_points(BT_CURVE_FORM_PLANCK, t_k, counts, NULL, 6, x, &fit);
+        CHECK(status == BT_STATUS_OK ? isfinite(fit.curve.a_um) : known_status(status));
+    }
+}
+
+/* ---- Monte Carlo uncertainty of a surface temperature --------------------------------- */
+
+#define MC_TRIALS 20000
+static double mc_samples[MC_TRIALS];
+static double mc_again[MC_TRIALS];
+
+static int mc_untouched(const bt_monte_carlo *m) {
+    return m->trials == 7 && untouched(m->mean_k) && untouched(m->standard_deviation_k) &&
+           untouched(m->low_k) && untouched(m->high_k);
+}
+
+static bt_monte_carlo mc_sentinel(void) {
+    bt_monte_carlo m;
+    memset(&m, 0, sizeof m);
+    m.trials = 7;
+    m.mean_k = SENTINEL;
+    m.standard_deviation_k = SENTINEL;
+    m.probability = SENTINEL;
+    m.low_k = SENTINEL;
+    m.high_k = SENTINEL;
+    m.shortest_low_k = SENTINEL;
+    m.shortest_high_k = SENTINEL;
+    return m;
+}
+
+static void test_monte_carlo(void) {
+    double mean = SENTINEL, sd = SENTINEL, slope, sigma_t, s;
+    size_t i, sorted = 1;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = plain_scene(); /* e 0.95, no air, no window */
+    bt_input_uncertainties u, bad_u;
+    bt_monte_carlo mc = mc_sentinel(), again = mc_sentinel();
+    bt_status status;
+
+    /* Only signal noise: for a small noise the temperature spread is u(S) / (e L'(T)), L' by
+     * a central difference of Simpson band radiance (independent of the library). */
+    memset(&u, 0, sizeof u);
+    u.signal = 0.05;
+    s = measurement(&scene, band_ref(8.0, 14.0, 350.0, 0), band_ref(8.0, 14.0, 293.15, 0), 0.0,
+                    0.0, 0.0);
+    slope = (band_ref(8.0, 14.0, 350.01, 0) - band_ref(8.0, 14.0, 349.99, 0)) / 0.02;
+    sigma_t = u.signal / (scene.emissivity * slope);
+    status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 2024, 0.95, mc_samples, MC_TRIALS, &mc);
+    CHECK(status == BT_STATUS_OK && mc.trials == MC_TRIALS && mc.probability == 0.95);
+    /* Statistical bounds (JCGM 101 7.6 standard errors, 4 sigma): mean sigma/sqrt(M), standard
+     * deviation sigma/sqrt(2(M-1)); plus 1e-3 relative for the linearisation. */
+    CHECK(fabs(mc.mean_k - 350.0) < 4.0 * sigma_t / sqrt((double)MC_TRIALS) + 1e-3 * sigma_t);
+    CHECK(fabs(mc.standard_deviation_k / sigma_t - 1.0) < 4.0 / sqrt(2.0 * (MC_TRIALS - 1)) + 1e-3);
+    /* A normal output: the 95 % interval is mean -+ 1.96 sigma (quantile standard error about
+     * 2.7 sigma/sqrt(M) at 1.96 sigma; 4 of them allowed). */
+    CHECK(fabs(mc.low_k - (350.0 - 1.959964 * sigma_t)) < 12.0 * sigma_t / sqrt((double)MC_TRIALS));
+    CHECK(fabs(mc.high_k - (350.0 + 1.959964 * sigma_t)) < 12.0 * sigma_t / sqrt((double)MC_TRIALS));
+    CHECK(mc.shortest_low_k >= mc_samples[0] && mc.shortest_high_k <= mc_samples[MC_TRIALS - 1]);
+    for (i = 1; i < MC_TRIALS; i++) {
+        sorted = sorted && mc_samples[i - 1] <= mc_samples[i];
+    }
+    CHECK(sorted && mc.low_k >= mc_samples[0] && mc.high_k <= mc_samples[MC_TRIALS - 1]);
+
+    /* Reproducible bit for bit; another seed gives another run; streaming agrees exactly. */
+    status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 2024, 0.95, mc_again, MC_TRIALS, &again);
+    CHECK(status == BT_STATUS_OK && memcmp(&mc, &again, sizeof mc) == 0 &&
+          memcmp(mc_samples, mc_again, sizeof mc_samples) == 0);
+    status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 2025, 0.95, mc_again, MC_TRIALS, &again);
+    CHECK(status == BT_STATUS_OK && again.mean_k != mc.mean_k);
+    status = bt_surface_monte_carlo_streaming(&lwir, &scene, s, &u, 2024, MC_TRIALS, &mean, &sd);
+    CHECK(status == BT_STATUS_OK && memcmp(&mean, &mc.mean_k, sizeof mean) == 0 &&
+          memcmp(&sd, &mc.standard_deviation_k, sizeof sd) == 0);
+
+    /* Named errors; out values untouched. */
+    mc = mc_sentinel();
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, mc_samples, 1, &mc) ==
+              BT_STATUS_TOO_FEW_TRIALS && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, NULL, 0, &mc) ==
+              BT_STATUS_TOO_FEW_TRIALS && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 1.0, mc_samples, 64, &mc) ==
+              BT_STATUS_COVERAGE_PROBABILITY_OUT_OF_RANGE && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, NULL, 64, &mc) ==
+              BT_STATUS_NULL_POINTER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, (double *)misaligned(mc_samples), 64,
+                                 &mc) == BT_STATUS_INVALID_BUFFER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, mc_samples, SIZE_MAX, &mc) ==
+              BT_STATUS_INVALID_BUFFER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, NULL, 1, 0.95, mc_samples, 64, &mc) ==
+              BT_STATUS_NULL_POINTER && mc_untouched(&mc));
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &u, 1, 0.95, mc_samples, 64, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    bad_u = u;
+    bad_u.emissivity = -0.01;
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &bad_u, 1, 0.95, mc_samples, 64, &mc) ==
+              BT_STATUS_UNCERTAINTY_NEGATIVE && mc_untouched(&mc));
+    /* e = 0.95 with u(e) = 0.05 draws up to 0.95 + sqrt(3) 0.05 > 1: outside the model. */
+    bad_u.emissivity = 0.05;
+    CHECK(bt_surface_monte_carlo(&lwir, &scene, s, &bad_u, 1, 0.95, mc_samples, 256, &mc) ==
+              BT_STATUS_EMISSIVITY_OUT_OF_RANGE && mc_untouched(&mc));
+    mean = SENTINEL;
+    sd = SENTINEL;
+    CHECK(bt_surface_monte_carlo_streaming(&lwir, &scene, s, &u, 1, 1, &mean, &sd) ==
+              BT_STATUS_TOO_FEW_TRIALS && untouched(mean) && untouched(sd));
+    CHECK(bt_surface_monte_carlo_streaming(&lwir, &scene, s, &u, 1, 64, &mean, NULL) ==
+              BT_STATUS_NULL_POINTER && untouched(mean));
+
+    /* Hostile scalars: the reading, the probability, and every uncertainty (64 trials). */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        size_t j;
+        mc = mc_sentinel();
+        status = bt_surface_monte_carlo(&lwir, &scene, x, &u, 7, 0.95, mc_samples, 64, &mc);
+        CHECK(status == BT_STATUS_OK ? isfinite(mc.mean_k) && mc.trials == 64
+                                     : mc_untouched(&mc) && known_status(status));
+        mc = mc_sentinel();
+        status = bt_surface_monte_carlo(&lwir, &scene, s, &u, 7, x, mc_samples, 64, &mc);
+        CHECK(status == BT_STATUS_OK ? isfinite(mc.low_k) && isfinite(mc.high_k)
+                                     : mc_untouched(&mc) && known_status(status));
+        for (j = 0; j < 11; j++) {
+            double fields[11];
+            memset(fields, 0, sizeof fields);
+            fields[j] = x;
+            memcpy(&bad_u, fields, sizeof bad_u);
+            mean = SENTINEL;
+            sd = SENTINEL;
+            status = bt_surface_monte_carlo_streaming(&lwir, &scene, s, &bad_u, 7, 16, &mean, &sd);
+            CHECK(status == BT_STATUS_OK ? isfinite(mean) && isfinite(sd)
+                                         : untouched(mean) && untouched(sd) && known_status(status));
+        }
+    }
+}
+
+/* ---- calibration checks (bt_verify_*) ------------------------------------------------------ */
+
+/* Sentinel report structs: filled with 0xA5 bytes, compared bytewise after each error. */
+#define VERIFY_SENTINEL(x) memset(&(x), 0xA5, sizeof(x))
+static int bytes_are_a5(const void *p, size_t n) {
+    const unsigned char *b = (const unsigned char *)p;
+    size_t i;
+    for (i = 0; i < n; i++) {
+        if (b[i] != 0xA5) {
+            return 0;
+        }
+    }
+    return 1;
+}
+#define VERIFY_UNTOUCHED(x) bytes_are_a5(&(x), sizeof(x))
+
+/* A call must give `want`; on error the report stays untouched. */
+#define EXPECT_REPORT(want, report, call)                                                      \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        VERIFY_SENTINEL(report);                                                               \
+        status_ = (call);                                                                      \
+        if (status_ != (want)) {                                                               \
+            printf("  got %d (%s), want %d\n", (int)status_, bt_status_message(status_),      \
+                   (int)(want));                                                               \
+        }                                                                                      \
+        check(status_ == (want) && ((want) == BT_STATUS_OK || VERIFY_UNTOUCHED(report)),       \
+              #call, __LINE__);                                                                \
+    } while (0)
+
+/* Any input: success, or a named status with the report untouched. */
+#define EXPECT_REPORT_SANE(report, call)                                                       \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        VERIFY_SENTINEL(report);                                                               \
+        status_ = (call);                                                                      \
+        check(status_ == BT_STATUS_OK || (known_status(status_) && VERIFY_UNTOUCHED(report)),  \
+              #call, __LINE__);                                                                \
+    } while (0)
+
+/* Closed-form inverse of the Sakuma-Hattori curve (DESIGN.md), written out here. */
+static double sakuma_hattori_inverse(const bt_sakuma_hattori *p, double signal) {
+    double c2_umk = H_J_S * C_M_S / K_J_K * 1e6;
+    return (c2_umk / log1p(p->c / signal) - p->b_umk) / p->a_um;
+}
+
+static void test_verify(void) {
+    /* Invented calibration: A = 10.2 um, B = 60 um K, C = 2.0e6 counts, 900 dark counts. */
+    bt_sakuma_hattori sh = {10.2, 60.0, 2.0e6};
+    bt_sakuma_hattori bad_sh = {-1.0, 60.0, 2.0e6};
+    const double dark = 900.0;
+    double t_k[5] = {263.15, 300.0, 350.0, 420.0, 480.0};
+    /* Residuals placed on purpose: the signal of T_i + delta_i reads back T_i + delta_i. */
+    double delta_k[5] = {0.010, -0.020, 0.005, 0.030, -0.010};
+    double signal[5];
+    double sum_sq = 0.0, sum = 0.0;
+    double coverage_points[4] = {300.0, 350.0, 500.0, 320.0};
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band bad_band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_verify_residuals_report residuals;
+    bt_verify_curve_report curve;
+    bt_verify_round_trip_report trip;
+    bt_verify_coverage_report coverage;
+    bt_verify_table_report table;
+    bt_sakuma_hattori fitted;
+    double fit_error_k = 0.0;
+    double max_ref_k = 0.0;
+    bt_frame_converter conv;
+    bt_scene scene = plain_scene();
+    bt_rails rails = {0, 65535};
+    static bt_frame_row corrupted[FRAME_ROWS];
+    size_t i, j, rows = 0;
+
+    set_raw_detector(&bad_band, 7);
+    for (i = 0; i < 5; i++) {
+        signal[i] = dark + sakuma_hattori(&sh, t_k[i] + delta_k[i]);
+        sum_sq += delta_k[i] * delta_k[i];
+        sum += delta_k[i];
+    }
+
+    /* Residuals against the placed offsets: max 0.03 K at the 420 K point (index 3). */
+    EXPECT_REPORT(BT_STATUS_OK, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, signal, 5, &residuals));
+    CHECK(residuals.points == 5 && residuals.worst_index == 3 && residuals.worst_t_k == 420.0);
+    CHECK(fabs(residuals.worst_residual_k - 0.030) < 1e-9);
+    CHECK(fabs(residuals.max_abs_residual_k - 0.030) < 1e-9);
+    CHECK(fabs(residuals.rms_residual_k - sqrt(sum_sq / 5.0)) < 1e-9);
+    CHECK(fabs(residuals.mean_residual_k - sum / 5.0) < 1e-9);
+    EXPECT_REPORT(BT_STATUS_VERIFY_NO_POINTS, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, NULL, NULL, 0, &residuals));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, residuals,
+                  bt_verify_residuals_sakuma_hattori(NULL, dark, t_k, signal, 5, &residuals));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, NULL, signal, 5, &residuals));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, NULL, 5, &residuals));
+    CHECK(bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, signal, 5, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, residuals,
+                  bt_verify_residuals_sakuma_hattori(
+                      &sh, dark, (const double *)misaligned(t_k), signal, 4, &residuals));
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, dark, t_k, signal, SIZE_MAX,
+                                                     &residuals));
+    EXPECT_REPORT(BT_STATUS_CALIBRATION_PARAMETER_INVALID, residuals,
+                  bt_verify_residuals_sakuma_hattori(&bad_sh, dark, t_k, signal, 5, &residuals));
+    /* A signal at the dark level has no temperature. */
+    EXPECT_REPORT(BT_STATUS_SIGNAL_AT_OR_BELOW_OFFSET, residuals,
+                  bt_verify_residuals_sakuma_hattori(&sh, 1e9, t_k, signal, 5, &residuals));
+
+    /* Coverage, by hand: points 300..500 K over 290..480 K extrapolate 10 K below and none
+     * above; clipped nodes 300, 320, 350, 480 leave the largest gap 350..480 K. */
+    EXPECT_REPORT(BT_STATUS_OK, coverage,
+                  bt_verify_coverage(coverage_points, 4, 290.0, 480.0, &coverage));
+    CHECK(coverage.points == 4 && coverage.points_in_range == 3);
+    CHECK(coverage.t_min_k == 300.0 && coverage.t_max_k == 500.0);
+    CHECK(coverage.extrapolated_below_k == 10.0 && coverage.extrapolated_above_k == 0.0);
+    CHECK(coverage.largest_gap_k == 130.0 && coverage.gap_lo_k == 350.0 &&
+          coverage.gap_hi_k == 480.0);
+    EXPECT_REPORT(BT_STATUS_VERIFY_NO_POINTS, coverage,
+                  bt_verify_coverage(NULL, 0, 290.0, 480.0, &coverage));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, coverage,
+                  bt_verify_coverage(NULL, 4, 290.0, 480.0, &coverage));
+    EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, coverage,
+                  bt_verify_coverage(coverage_points, 4, 480.0, 290.0, &coverage));
+    EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, coverage,
+                  bt_verify_coverage(coverage_points, 4, 0.0, 290.0, &coverage));
+    coverage_points[2] = -500.0;
+    EXPECT_REPORT(BT_STATUS_TEMPERATURE_NOT_POSITIVE, coverage,
+                  bt_verify_coverage(coverage_points, 4, 290.0, 480.0, &coverage));
+    coverage_points[2] = NAN;
+    EXPECT_REPORT(BT_STATUS_NON_FINITE, coverage,
+                  bt_verify_coverage(coverage_points, 4, 290.0, 480.0, &coverage));
+    coverage_points[2] = 500.0;
+    CHECK(bt_verify_coverage(coverage_points, 4, 290.0, 480.0, NULL) == BT_STATUS_NULL_POINTER);
+
+    /* Round trips: the closed-form inverse is exact to rounding; the band's Newton to
+     * 1e-9 T (the crate's promise). */
+    EXPECT_REPORT(BT_STATUS_OK, trip,
+                  bt_verify_round_trip_sakuma_hattori(&sh, dark, 250.0, 500.0, 101, &trip));
+    CHECK(trip.samples == 101 && trip.monotonic == 1 && trip.first_non_monotonic_k == 0.0);
+    CHECK(trip.max_abs_error_k < 1e-9 * 500.0);
+    EXPECT_REPORT(BT_STATUS_OK, trip, bt_verify_round_trip_band(&band, 250.0, 500.0, 51, &trip));
+    CHECK(trip.monotonic == 1 && trip.max_abs_error_k < 1e-9 * 500.0);
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, trip,
+                  bt_verify_round_trip_band(&band, 250.0, 500.0, 1, &trip));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, trip,
+                  bt_verify_round_trip_band(&band, 250.0, 500.0, SIZE_MAX, &trip));
+    EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, trip,
+                  bt_verify_round_trip_band(&band, 500.0, 250.0, 11, &trip));
+    EXPECT_REPORT(BT_STATUS_INVALID_DETECTOR, trip,
+                  bt_verify_round_trip_band(&bad_band, 250.0, 500.0, 11, &trip));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, trip,
+                  bt_verify_round_trip_band(NULL, 250.0, 500.0, 11, &trip));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, trip,
+                  bt_verify_round_trip_sakuma_hattori(NULL, dark, 250.0, 500.0, 11, &trip));
+    CHECK(bt_verify_round_trip_band(&band, 250.0, 500.0, 11, NULL) == BT_STATUS_NULL_POINTER);
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, trip,
+                  bt_verify_round_trip_band(&band, 250.0, 500.0, 11,
+                                            (bt_verify_round_trip_report *)misaligned(&trip)));
+
+    /* The curve fitted to the band, against the band: the largest error over 201
+     * temperatures, recomputed here with Simpson band radiance and the closed-form
+     * inverse. Simpson's relative error (~1e-10) moves a temperature by ~1e-8 K. */
+    CHECK(bt_sakuma_hattori_fit_band(&band, 250.0, 500.0, &fitted, &fit_error_k) ==
+          BT_STATUS_OK);
+    EXPECT_REPORT(BT_STATUS_OK, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 1.0, 0.0, 250.0, 500.0, 201, &curve));
+    for (i = 0; i < 201; i++) {
+        double t = i == 200 ? 500.0 : 250.0 + 250.0 * ((double)i / 200.0);
+        double e = sakuma_hattori_inverse(&fitted, band_ref(8.0, 14.0, t, 0)) - t;
+        if (fabs(e) > max_ref_k) {
+            max_ref_k = fabs(e);
+        }
+    }
+    CHECK(curve.samples == 201 && fabs(curve.max_abs_error_k - max_ref_k) < 1e-6);
+    CHECK(fabs(curve.worst_error_k) == curve.max_abs_error_k);
+    CHECK(curve.worst_t_k >= 250.0 && curve.worst_t_k <= 500.0);
+    /* A counts map 1 % too high reads every temperature cold. */
+    EXPECT_REPORT(BT_STATUS_OK, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 1.01, 0.0, 250.0, 500.0, 11, &curve));
+    CHECK(curve.worst_error_k < -0.1 && curve.mean_error_k < -0.1);
+    EXPECT_REPORT(BT_STATUS_FRAME_COUNTS_MAP_INVALID, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 0.0, 0.0, 250.0, 500.0, 11, &curve));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, curve,
+                  bt_verify_curve_band(&fitted, 0.0, NULL, 1.0, 0.0, 250.0, 500.0, 11, &curve));
+    EXPECT_REPORT(BT_STATUS_INVALID_DETECTOR, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &bad_band, 1.0, 0.0, 250.0, 500.0, 11,
+                                       &curve));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, curve,
+                  bt_verify_curve_band(&fitted, 0.0, &band, 1.0, 0.0, 250.0, 500.0, 0, &curve));
+
+    /* A frame table built by a converter, then checked; then a copy with one row moved
+     * by +0.05 K (its constant coefficient), which the check must find in that row. */
+    CHECK(bt_frame_converter_new_band(&band, &scene, FRAME_GAIN, FRAME_OFFSET, &rails, 250.0,
+                                      1500.0, 1e-3, frame_table, FRAME_ROWS, &conv) ==
+          BT_STATUS_OK);
+    CHECK(bt_frame_table_rows_band(&band, 250.0, 1500.0, 1e-3, &rows) == BT_STATUS_OK);
+    EXPECT_REPORT(BT_STATUS_OK, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows, 37, &table));
+    CHECK(table.rows == rows && table.samples > rows * 30 && table.refused == 0 &&
+          table.non_monotonic == 0);
+    CHECK(table.max_abs_error_k <= 1e-3 && table.max_abs_error_k > 0.0);
+    CHECK(table.claimed_max_error_k <= 1e-3);
+    memcpy(corrupted, frame_table, sizeof corrupted);
+    corrupted[rows / 2].coefficients[0] += 0.05f;
+    EXPECT_REPORT(BT_STATUS_OK, table,
+                  bt_verify_frame_table_band(&band, &conv, corrupted, rows, 37, &table));
+    CHECK(table.max_abs_error_k > 0.045 && table.max_abs_error_k < 0.055);
+    CHECK(table.worst_error_k > 0.0);
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
+                  bt_verify_frame_table_band(&band, NULL, frame_table, rows, 37, &table));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
+                  bt_verify_frame_table_band(&band, &conv, NULL, rows, 37, &table));
+    EXPECT_REPORT(BT_STATUS_NULL_POINTER, table,
+                  bt_verify_frame_table_sakuma_hattori(NULL, &conv, frame_table, rows, 37,
+                                                       &table));
+    EXPECT_REPORT(BT_STATUS_FRAME_STORAGE_TOO_SMALL, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows - 1, 37, &table));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows, 0, &table));
+    EXPECT_REPORT(BT_STATUS_VERIFY_SAMPLE_COUNT_INVALID, table,
+                  bt_verify_frame_table_band(&band, &conv, frame_table, rows, 5000, &table));
+    EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, table,
+                  bt_verify_frame_table_band(&band, (const bt_frame_converter *)misaligned(&conv),
+                                             frame_table, rows, 37, &table));
+    CHECK(bt_verify_frame_table_band(&band, &conv, frame_table, rows, 37, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    {
+        /* A converter of garbage bytes: refused, never read as rows. */
+        bt_frame_converter garbage;
+        memset(&garbage, 0x5A, sizeof garbage);
+        EXPECT_REPORT_SANE(table, bt_verify_frame_table_band(&band, &garbage, frame_table,
+                                                             rows, 37, &table));
+    }
+
+    /* Calibration uncertainty: with only A uncertain, u(T) = T sigma_A / A (the closed
+     * form's dT/dA = -T/A), largest at the hot end. */
+    {
+        bt_verify_uncertainty_report unc;
+        double v[9] = {1e-4, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0};
+        double not_psd[9] = {1.0, -1200.0, 0.0, -1200.0, 360000.0, 0.0, 0.0, 0.0, 0.0};
+        EXPECT_REPORT(BT_STATUS_OK, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, &unc));
+        CHECK(unc.samples == 11 && unc.worst_t_k == 500.0);
+        CHECK(fabs(unc.max_u_k - 500.0 * 0.01 / 10.2) < 1e-12);
+        CHECK(fabs(unc.lo_u_k - 250.0 * 0.01 / 10.2) < 1e-12);
+        EXPECT_REPORT(BT_STATUS_NULL_POINTER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, NULL, 250.0, 500.0, 11, &unc));
+        EXPECT_REPORT(BT_STATUS_NULL_POINTER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(NULL, v, 250.0, 500.0, 11, &unc));
+        CHECK(bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, NULL) ==
+              BT_STATUS_NULL_POINTER);
+        EXPECT_REPORT(BT_STATUS_INVALID_BUFFER, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, (const double *)misaligned(v),
+                                                           250.0, 500.0, 11, &unc));
+        EXPECT_REPORT(BT_STATUS_CORRELATION_NOT_POSITIVE_SEMIDEFINITE, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, not_psd, 250.0, 500.0, 11, &unc));
+        v[1] = 1e-6; /* asymmetric */
+        EXPECT_REPORT(BT_STATUS_VERIFY_COVARIANCE_INVALID, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, 500.0, 11, &unc));
+        v[1] = 0.0;
+        EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, unc,
+                      bt_verify_uncertainty_sakuma_hattori(&sh, v, 500.0, 250.0, 11, &unc));
+        for (i = 0; i < N_ARGS; i++) {
+            for (j = 0; j < 9; j++) {
+                double w[9] = {1e-4, 0.0, 0.0, 0.0, 1e-2, 0.0, 0.0, 0.0, 1e6};
+                w[j] = ARGS[i];
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, w, 250.0, 500.0,
+                                                                             5, &unc));
+            }
+            if (ARGS[i] <= 5000.0) {
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, v, ARGS[i], 500.0,
+                                                                             5, &unc));
+                EXPECT_REPORT_SANE(unc, bt_verify_uncertainty_sakuma_hattori(&sh, v, 250.0, ARGS[i],
+                                                                             5, &unc));
+            }
+        }
+    }
+
+    /* Every hostile value in every scalar slot: a report or a named status. */
+    for (i = 0; i < N_ARGS; i++) {
+        for (j = 0; j < 3; j++) {
+            double a[3] = {dark, 250.0, 500.0};
+            if (j > 0 && ARGS[i] > 5000.0) {
+                continue; /* valid but slow ranges for a debug build */
+            }
+            a[j] = ARGS[i];
+            EXPECT_REPORT_SANE(residuals, bt_verify_residuals_sakuma_hattori(
+                                              &sh, a[0], t_k, signal, 5, &residuals));
+            EXPECT_REPORT_SANE(trip, bt_verify_round_trip_sakuma_hattori(&sh, a[0], a[1], a[2],
+                                                                         11, &trip));
+            EXPECT_REPORT_SANE(trip, bt_verify_round_trip_band(&band, a[1], a[2], 5, &trip));
+            EXPECT_REPORT_SANE(coverage,
+                               bt_verify_coverage(coverage_points, 4, a[1], a[2], &coverage));
+            EXPECT_REPORT_SANE(curve, bt_verify_curve_band(&fitted, a[0], &band, 1.0, 0.0, a[1],
+                                                           a[2], 5, &curve));
+            EXPECT_REPORT_SANE(curve, bt_verify_curve_band(&fitted, 0.0, &band, a[j], a[0],
+                                                           250.0, 500.0, 5, &curve));
+        }
+        {
+            double hostile_t[5];
+            memcpy(hostile_t, t_k, sizeof hostile_t);
+            hostile_t[2] = ARGS[i];
+            EXPECT_REPORT_SANE(residuals, bt_verify_residuals_sakuma_hattori(
+                                              &sh, dark, hostile_t, signal, 5, &residuals));
+            EXPECT_REPORT_SANE(coverage, bt_verify_coverage(hostile_t, 5, 250.0, 500.0, &coverage));
+        }
+    }
+}
+
+/* ---- optics and materials ----------------------------------------------------------------
+ * References computed here: Fresnel's equations for a dielectric in real arithmetic, the
+ * closed-form normal emissivity 4n/((n+1)^2+k^2), the diffraction and pixel MTF written out,
+ * the Wien noise gain of one channel (lambda T / c2), and the first-order temperature error
+ * L/(dL/dT) with dL/dT by central differences of bt_band_radiance. Printed check values
+ * (Born and Wolf, Budzier and Gerlach 2021, ASTM site-method examples) to their digits. */
+
+/* A struct out value is filled with this byte before each call; an error must leave it. */
+#define OPT_FILL 0xA5
+static int bytes_untouched(const void *p, size_t n) {
+    const unsigned char *b = (const unsigned char *)p;
+    size_t i;
+    for (i = 0; i < n; i++) {
+        if (b[i] != OPT_FILL) {
+            return 0;
+        }
+    }
+    return 1;
+}
+/* Success with `finite_ok`, or a named error with the struct untouched. */
+#define EXPECT_STRUCT_SANE(obj, call, finite_ok)                                               \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        int ok_;                                                                               \
+        memset(&(obj), OPT_FILL, sizeof(obj));                                                 \
+        status_ = (call);                                                                      \
+        ok_ = status_ == BT_STATUS_OK ? ((finite_ok) ? 1 : 0)                                  \
+                                      : bytes_untouched(&(obj), sizeof(obj)) &&               \
+                                            known_status(status_);                            \
+        if (!ok_) {                                                                            \
+            printf("  status %d (%s)\n", (int)status_, bt_status_message(status_));           \
+        }                                                                                      \
+        check(ok_, #call, __LINE__);                                                           \
+    } while (0)
+#define EXPECT_STRUCT_STATUS(obj, want, call)                                                  \
+    do {                                                                                       \
+        bt_status status_;                                                                     \
+        memset(&(obj), OPT_FILL, sizeof(obj));                                                 \
+        status_ = (call);                                                                      \
+        check(status_ == (want) && bytes_untouched(&(obj), sizeof(obj)), #call, __LINE__);     \
+    } while (0)
+
+static double fresnel_dielectric(double n, double angle_deg) {
+    double c = cos(angle_deg * M_PI_REF / 180.0), s2 = 1.0 - c * c;
+    double w = sqrt(n * n - s2);
+    double rs = (c - w) / (c + w), rp = (n * n * c - w) / (n * n * c + w);
+    return 1.0 - 0.5 * (rs * rs + rp * rp);
+}
+
+static int site_finite(const bt_site_budget *b) {
+    size_t i;
+    if (!isfinite(b->estimate) || !isfinite(b->combined_standard_uncertainty) || b->len > 4) {
+        return 0;
+    }
+    for (i = 0; i < BT_SITE_BUDGET_MAX_LINES; i++) {
+        if (!isfinite(b->ranked[i].sensitivity) || !isfinite(b->ranked[i].contribution)) {
+            return 0;
+        }
+    }
+    return 1;
+}
+
+static void test_optics(void) {
+    double out, a = SENTINEL, b = SENTINEL, l, lp, lm, h = 1e-3;
+    double c2 = H_J_S * C_M_S / K_J_K * 1e6;
+    size_t i, j;
+    bt_band lwir = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_band red = rectangular(0.6495, 0.6505, BT_DETECTOR_ENERGY);
+    bt_band red10 = rectangular(0.645, 0.655, BT_DETECTOR_ENERGY);
+    bt_band broken = rectangular(14.0, 8.0, BT_DETECTOR_ENERGY);
+    bt_band mw[4];
+    bt_scene scene = {0.85, 293.15, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    bt_target_verdict verdict;
+    bt_mtf m;
+    bt_sse_correction sse;
+    bt_directional_emissivity d;
+    bt_multiwavelength_result fit;
+    bt_site_budget budget;
+    double sse_d[3] = {10.0, 20.0, 60.0}, sse_s[3] = {0.002, 0.001, 0.0};
+    double bad_s[3] = {0.002, 1.0, 0.0};
+    double u4[4] = {0.01, 0.01, 0.02, 2.0};
+    double wl[4] = {0.7, 0.8, 0.9, 1.0}, sig[4];
+    double lc, lr, s;
+
+    /* Geometry and target rules. */
+    EXPECT_NEAR(bt_spot_diameter_m(1.5, 75.0, &out), 0.02, 1e-15);
+    EXPECT_NEAR(bt_ifov_mrad(17.0, 25.0, &out), 0.68, 1e-7);
+    EXPECT_NEAR(bt_footprint_m(10.0, 0.68, &out), 0.0068, 1e-7);
+    EXPECT(BT_STATUS_OPTICS_GEOMETRY_INVALID, bt_spot_diameter_m(1.5, 0.0, &out));
+    EXPECT(BT_STATUS_NULL_POINTER, bt_spot_diameter_m(1.5, 75.0, NULL));
+    EXPECT_STRUCT_SANE(verdict, bt_target_check(BT_TARGET_RULE_ISO10878, 0.025, 1.5, 75.0, &verdict),
+                       verdict.valid == 1 && fabs(verdict.ratio - 1.25) < 1e-12);
+    EXPECT_STRUCT_SANE(verdict,
+                       bt_target_check(BT_TARGET_RULE_PUSNIK_GERSAK, 0.05, 10.0, 0.68, &verdict),
+                       verdict.valid == 0 && fabs(verdict.minimum_m - 0.068) < 1e-7);
+    EXPECT_STRUCT_SANE(verdict,
+                       bt_target_check(BT_TARGET_RULE_THREE_BY_THREE, 0.05, 10.0, 0.68, &verdict),
+                       verdict.valid == 1);
+    EXPECT_STRUCT_STATUS(verdict, BT_STATUS_TARGET_RULE_INVALID,
+                         bt_target_check(3, 0.05, 10.0, 0.68, &verdict));
+    EXPECT_STRUCT_STATUS(verdict, BT_STATUS_TARGET_RULE_INVALID,
+                         bt_target_check(0xFFFFFFFFu, 0.05, 10.0, 0.68, &verdict));
+    EXPECT_STRUCT_STATUS(verdict, BT_STATUS_TARGET_SIZE_NOT_POSITIVE,
+                         bt_target_check(0, -0.05, 10.0, 75.0, &verdict));
+    CHECK(bt_target_check(0, 0.05, 10.0, 75.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_target_check(0, 0.05, 10.0, 75.0, (bt_target_verdict *)misaligned(&verdict)) ==
+          BT_STATUS_INVALID_BUFFER);
+
+    /* Airy pattern (Born and Wolf) and MTF (Budzier and Gerlach 2021). */
+    EXPECT_NEAR(bt_airy_encircled_energy(1.220, 1.0, 1.0, &out), 0.838, 6e-4);
+    EXPECT_NEAR(bt_airy_radius_um(0.9, 1.0, 1.0, &out), 1.901, 3e-4);
+    EXPECT_NEAR(bt_airy_radius_um(0.95, 10.0, 1.0, &out), 39.16, 3e-4);
+    EXPECT(BT_STATUS_FRACTION_OUT_OF_RANGE, bt_airy_radius_um(1.0, 1.0, 1.0, &out));
+    EXPECT_STRUCT_SANE(m, bt_mtf_evaluate(1000.0 / 34.0, 17.0, 10.0, 1.0, &m),
+                       fabs(m.pixel - 2.0 / M_PI_REF) < 1e-15 &&
+                           fabs(m.diffraction - 2.0 / M_PI_REF *
+                                                    (acos(0.1 / 0.34) -
+                                                     (0.1 / 0.34) *
+                                                         sqrt(1.0 - (0.1 / 0.34) * (0.1 / 0.34)))) <
+                               1e-14 &&
+                           fabs(m.system - 0.4017) < 5e-5);
+    EXPECT_STRUCT_STATUS(m, BT_STATUS_SPATIAL_FREQUENCY_NEGATIVE,
+                         bt_mtf_evaluate(-1.0, 17.0, 10.0, 1.0, &m));
+    EXPECT_SANE(bt_small_target_fraction(51.0, 17.0, 10.0, 1.0, &out));
+    CHECK(out > 0.9 && out < 0.93);
+    EXPECT(BT_STATUS_TARGET_SIZE_NOT_POSITIVE, bt_small_target_fraction(0.0, 17.0, 10.0, 1.0, &out));
+    EXPECT(BT_STATUS_OPTICS_GEOMETRY_INVALID, bt_small_target_fraction(1e9, 17.0, 10.0, 1.0, &out));
+
+    /* Size-of-source: first-order error against L / (dL/dT) by central differences. */
+    CHECK(bt_band_radiance(&lwir, 300.0, &l) == BT_STATUS_OK);
+    CHECK(bt_band_radiance(&lwir, 300.0 + h, &lp) == BT_STATUS_OK);
+    CHECK(bt_band_radiance(&lwir, 300.0 - h, &lm) == BT_STATUS_OK);
+    EXPECT_NEAR(bt_sse_temperature_error_k(&lwir, 300.0, 0.01, &out), 0.01 * l * 2.0 * h / (lp - lm),
+                1e-8);
+    EXPECT_NEAR(bt_sse_temperature_error_k(&red, 1273.15, 1e-3, &out), 0.0732, 7e-4);
+    EXPECT_NEAR(bt_sse_temperature_error_k(&lwir, 300.0, 0.01, &out), 0.656, 8e-4);
+    EXPECT_STRUCT_SANE(sse, bt_sse_correct(&red, sse_d, sse_s, 3, 1273.15, 60.0, 15.0, &sse),
+                       fabs(sse.relative_signal_first_order + 0.0015) < 1e-15 &&
+                           sse.correction_k > 0.1 && sse.correction_k < 0.12);
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_SSE_DIAMETER_OUTSIDE_TABLE,
+                         bt_sse_correct(&red, sse_d, sse_s, 3, 1273.15, 60.0, 5.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_SSE_TABLE_INVALID,
+                         bt_sse_correct(&red, sse_d, bad_s, 3, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_SSE_TABLE_INVALID,
+                         bt_sse_correct(&red, sse_d, sse_s, 1, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_NULL_POINTER,
+                         bt_sse_correct(&red, NULL, sse_s, 3, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_INVALID_BUFFER,
+                         bt_sse_correct(&red, sse_d, sse_s, SIZE_MAX, 1273.15, 60.0, 15.0, &sse));
+    EXPECT_STRUCT_STATUS(sse, BT_STATUS_INVALID_BAND,
+                         bt_sse_correct(&broken, sse_d, sse_s, 3, 1273.15, 60.0, 15.0, &sse));
+
+    /* Emissivity from optical constants. */
+    EXPECT_NEAR(bt_emissivity_normal(2.7, 3.1, &out), 4.0 * 2.7 / (3.7 * 3.7 + 3.1 * 3.1), 1e-15);
+    EXPECT_STRUCT_SANE(d, bt_emissivity_directional(1.5, 0.0, 60.0, &d),
+                       fabs(d.unpolarised - fresnel_dielectric(1.5, 60.0)) < 1e-14 &&
+                           fabs(d.unpolarised - 0.9108) < 5e-5);
+    EXPECT_NEAR(bt_emissivity_hemispherical(1.5, 0.0, &out), 0.90822, 1e-5);
+    CHECK(bt_emissivity_peak(54.75, 54.75, &a, &b) == BT_STATUS_OK && fabs(a - 89.26) < 5e-3 &&
+          fabs(b - 0.414) < 5e-4);
+    EXPECT_NEAR(bt_emissivity_trusted_angle_deg(1.5, 0.0, 0.01, &out), 44.4265186383196, 1e-9);
+    EXPECT(BT_STATUS_REFRACTIVE_INDEX_INVALID, bt_emissivity_normal(0.0, 1.0, &out));
+    EXPECT(BT_STATUS_REFRACTIVE_INDEX_INVALID, bt_emissivity_normal(1.0, -1.0, &out));
+    EXPECT_STRUCT_STATUS(d, BT_STATUS_ANGLE_OUT_OF_RANGE, bt_emissivity_directional(1.5, 0.0, 90.0, &d));
+    EXPECT(BT_STATUS_ANGLE_TOLERANCE_INVALID, bt_emissivity_trusted_angle_deg(1.5, 0.0, 0.0, &out));
+    EXPECT_NEAR(bt_hagen_rubens_normal(1e-7, 10.0, &out), 0.365 * 0.1, 1e-3);
+    EXPECT(BT_STATUS_RESISTIVITY_NOT_POSITIVE, bt_hagen_rubens_normal(0.0, 10.0, &out));
+    EXPECT(BT_STATUS_HAGEN_RUBENS_OUT_OF_RANGE, bt_hagen_rubens_normal(1e-6, 0.01, &out));
+    a = SENTINEL;
+    b = SENTINEL;
+    CHECK(bt_emissivity_peak(NAN, 1.0, &a, &b) == BT_STATUS_NON_FINITE && untouched(a) &&
+          untouched(b));
+    CHECK(bt_emissivity_peak(1.5, 0.0, NULL, &b) == BT_STATUS_NULL_POINTER && untouched(b));
+
+    /* Effective wavelengths and calibration sensitivities. */
+    EXPECT_NEAR(bt_one_point_wavelength_sensitivity(0.65, 1234.93, 2000.0, &out),
+                (1.0 - 2000.0 / 1234.93) * 2000.0 / 0.65, 1e-14);
+    CHECK(fabs(fabs(out) * 1e-3 - 1.906) < 5e-4);
+    EXPECT_SANE(bt_two_point_sigma_sensitivity(0.65, 1e-4, 1234.93, 1357.77, 2000.0, &out));
+    EXPECT(BT_STATUS_MOMENTS_INVALID,
+           bt_two_point_sigma_sensitivity(0.65, -1e-4, 1234.93, 1357.77, 2000.0, &out));
+    EXPECT(BT_STATUS_CALIBRATION_DUPLICATE_TEMPERATURE,
+           bt_mean_effective_wavelength_um(&lwir, 300.0, 300.0, &out));
+    /* mpmath: tools/refgen/calibration_sensitivity_refs.py, 0.645-0.655 um at 1000 K. */
+    EXPECT_NEAR(bt_limit_effective_wavelength_um(&red10, 1000.0, &out), 0.650206593924974387, 1e-11);
+    a = SENTINEL;
+    b = SENTINEL;
+    CHECK(bt_sakuma_hattori_from_moments(&red, &a, &b) == BT_STATUS_OK &&
+          fabs(a - 0.65 * (1.0 - 6.0 * (0.001 * 0.001 / 12.0) / (0.65 * 0.65))) < 1e-15);
+
+    /* Multi-wavelength pyrometry: one channel's Wien gain is lambda T / c2. */
+    a = SENTINEL;
+    b = SENTINEL;
+    CHECK(bt_multiwavelength_noise_gain(wl + 2, 1, 1500.0, 0, &a, &b) == BT_STATUS_OK &&
+          fabs(a - 0.9 * 1500.0 / c2) < 1e-15);
+    CHECK(bt_multiwavelength_noise_gain(wl, 4, 1500.0, 2, &a, &b) == BT_STATUS_OK &&
+          fabs(a - 3.08) < 5e-3);
+    a = SENTINEL;
+    CHECK(bt_multiwavelength_noise_gain(wl, 4, 1500.0, 4, &a, &b) ==
+              BT_STATUS_EMISSIVITY_MODEL_INVALID && untouched(a));
+    CHECK(bt_multiwavelength_noise_gain(wl, 2, 1500.0, 2, &a, &b) == BT_STATUS_TOO_FEW_BANDS);
+    CHECK(bt_multiwavelength_noise_gain(NULL, 2, 1500.0, 1, &a, &b) == BT_STATUS_NULL_POINTER);
+    for (i = 0; i < 4; i++) {
+        mw[i] = rectangular(wl[i] - 0.005, wl[i] + 0.005, BT_DETECTOR_ENERGY);
+    }
+    /* Grey e = 0.5 at 1400 K: the grey model recovers it. */
+    for (i = 0; i < 4; i++) {
+        CHECK(bt_band_radiance(&mw[i], 1400.0, &sig[i]) == BT_STATUS_OK);
+        sig[i] *= 0.5;
+    }
+    EXPECT_STRUCT_SANE(fit, bt_multiwavelength_fit(mw, sig, 4, 1, &fit),
+                       fabs(fit.temperature_k - 1400.0) < 1e-8 &&
+                           fabs(exp(fit.coefficients[0]) - 0.5) < 1e-10 && fit.terms == 1);
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_TOO_MANY_BANDS, bt_multiwavelength_fit(mw, sig, 17, 1, &fit));
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_TOO_FEW_BANDS, bt_multiwavelength_fit(mw, sig, 1, 1, &fit));
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_NULL_POINTER, bt_multiwavelength_fit(NULL, sig, 4, 1, &fit));
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_INVALID_BUFFER,
+                         bt_multiwavelength_fit((const bt_band *)misaligned(mw), sig, 4, 1, &fit));
+    mw[2] = broken;
+    EXPECT_STRUCT_STATUS(fit, BT_STATUS_INVALID_BAND, bt_multiwavelength_fit(mw, sig, 4, 1, &fit));
+    mw[2] = rectangular(0.895, 0.905, BT_DETECTOR_ENERGY);
+
+    /* Site-method budgets: the contact method's printed example (8-14 um). */
+    CHECK(bt_band_radiance(&lwir, 353.15, &lc) == BT_STATUS_OK);
+    CHECK(bt_band_radiance(&lwir, 293.15, &lr) == BT_STATUS_OK);
+    s = 0.85 * lc + 0.15 * lr;
+    EXPECT_STRUCT_SANE(budget,
+                       bt_contact_emissivity_budget(&lwir, &scene, s, 353.15, 0.005 * s, 0.5, 2.0,
+                                                    &budget),
+                       fabs(budget.estimate - 0.85) < 1e-12 &&
+                           fabs(budget.combined_standard_uncertainty - 0.0126) < 5e-5 &&
+                           budget.len == 3);
+    EXPECT_NEAR(bt_reflector_bias_k(&lwir, 283.15, 0.05, 293.15, &out), 0.525, 1e-3);
+    EXPECT(BT_STATUS_REFLECTOR_EMISSIVITY_OUT_OF_RANGE,
+           bt_reflector_bias_k(&lwir, 283.15, 1.0, 293.15, &out));
+    EXPECT_STRUCT_STATUS(budget, BT_STATUS_UNCERTAINTY_NEGATIVE,
+                         bt_contact_emissivity_budget(&lwir, &scene, s, 353.15, -1.0, 0.5, 2.0,
+                                                      &budget));
+    EXPECT_STRUCT_STATUS(budget, BT_STATUS_EMISSIVITY_NOT_DETERMINED,
+                         bt_contact_emissivity_budget(&lwir, &scene, s, 293.15, 0.0, 0.5, 2.0,
+                                                      &budget));
+    EXPECT_STRUCT_STATUS(budget, BT_STATUS_NULL_POINTER,
+                         bt_coating_emissivity_budget(&lwir, &scene, s, s, 0.95, NULL, &budget));
+    EXPECT_STRUCT_SANE(budget, bt_coating_emissivity_budget(&lwir, &scene, s, s, 0.85, u4, &budget),
+                       site_finite(&budget) && fabs(budget.estimate - 0.85) < 1e-9);
+    EXPECT_STRUCT_SANE(budget,
+                       bt_reflector_budget(&lwir, &scene, lr, 0.05, 293.15, 0.01, 0.02, 1.0, &budget),
+                       site_finite(&budget) && fabs(budget.estimate - 293.15) < 1e-9);
+    EXPECT_STRUCT_SANE(budget, bt_direct_reflected_budget(&lwir, lr, 0.0, 0.5, 1.5, &budget),
+                       site_finite(&budget) &&
+                           fabs(budget.combined_standard_uncertainty - sqrt(2.5)) < 1e-12);
+
+    /* Every argument hostile in turn. */
+    for (i = 0; i < N_ARGS; i++) {
+        double x = ARGS[i];
+        EXPECT_SANE(bt_spot_diameter_m(x, 75.0, &out));
+        EXPECT_SANE(bt_spot_diameter_m(1.5, x, &out));
+        EXPECT_SANE(bt_ifov_mrad(x, 25.0, &out));
+        EXPECT_SANE(bt_footprint_m(10.0, x, &out));
+        EXPECT_SANE(bt_airy_encircled_energy(x, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_airy_encircled_energy(1.0, x, x, &out));
+        EXPECT_SANE(bt_airy_radius_um(x, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_small_target_fraction(x, 17.0, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_small_target_fraction(50.0, x, 10.0, 1.0, &out));
+        EXPECT_SANE(bt_small_target_fraction(50.0, 17.0, x, 1.0, &out));
+        EXPECT_SANE(bt_sse_temperature_error_k(&lwir, x, 0.01, &out));
+        EXPECT_SANE(bt_sse_temperature_error_k(&lwir, 300.0, x, &out));
+        EXPECT_SANE(bt_emissivity_normal(x, 1.0, &out));
+        EXPECT_SANE(bt_emissivity_hemispherical(1.5, x, &out));
+        EXPECT_SANE(bt_emissivity_trusted_angle_deg(2.0, 0.0, x, &out));
+        EXPECT_SANE(bt_hagen_rubens_normal(x, 10.0, &out));
+        EXPECT_SANE(bt_hagen_rubens_normal(1e-7, x, &out));
+        EXPECT_SANE(bt_one_point_wavelength_sensitivity(x, 1234.93, 2000.0, &out));
+        EXPECT_SANE(bt_two_point_sigma_sensitivity(0.65, x, 1234.93, 1357.77, 2000.0, &out));
+        EXPECT_SANE(bt_limit_effective_wavelength_um(&lwir, x, &out));
+        EXPECT_SANE(bt_mean_effective_wavelength_um(&lwir, 300.0, x, &out));
+        EXPECT_SANE(bt_reflector_bias_k(&lwir, x, 0.05, 293.15, &out));
+        EXPECT_SANE(bt_reflector_bias_k(&lwir, 283.15, x, 293.15, &out));
+        for (j = 0; j < 3; j++) {
+            EXPECT_STRUCT_SANE(verdict, bt_target_check((uint32_t)j, x, 10.0, 0.68, &verdict),
+                               isfinite(verdict.ratio) && isfinite(verdict.minimum_m));
+            EXPECT_STRUCT_SANE(verdict, bt_target_check((uint32_t)j, 0.05, x, 0.68, &verdict),
+                               isfinite(verdict.ratio));
+        }
+        EXPECT_STRUCT_SANE(m, bt_mtf_evaluate(x, 17.0, 10.0, 1.0, &m), isfinite(m.system));
+        EXPECT_STRUCT_SANE(m, bt_mtf_evaluate(10.0, x, x, 1.0, &m), isfinite(m.system));
+        EXPECT_STRUCT_SANE(d, bt_emissivity_directional(1.5, 0.0, x, &d), isfinite(d.unpolarised));
+        EXPECT_STRUCT_SANE(d, bt_emissivity_directional(x, x, 30.0, &d), isfinite(d.unpolarised));
+        EXPECT_STRUCT_SANE(sse, bt_sse_correct(&red, sse_d, sse_s, 3, x, 60.0, 15.0, &sse),
+                           isfinite(sse.corrected_k));
+        EXPECT_STRUCT_SANE(sse, bt_sse_correct(&red, sse_d, sse_s, 3, 1273.15, x, 15.0, &sse),
+                           isfinite(sse.corrected_k));
+        for (j = 0; j < 4; j++) {
+            double saved = sig[j];
+            sig[j] = x;
+            EXPECT_STRUCT_SANE(fit, bt_multiwavelength_fit(mw, sig, 4, 2, &fit),
+                               isfinite(fit.temperature_k));
+            sig[j] = saved;
+        }
+        EXPECT_STRUCT_SANE(budget,
+                           bt_contact_emissivity_budget(&lwir, &scene, x, 353.15, 0.01, 0.5, 2.0,
+                                                        &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget,
+                           bt_contact_emissivity_budget(&lwir, &scene, s, x, 0.01, 0.5, 2.0, &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget,
+                           bt_reflector_budget(&lwir, &scene, x, 0.05, 293.15, 0.01, 0.02, 1.0,
+                                               &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget,
+                           bt_reflector_budget(&lwir, &scene, lr, 0.05, x, 0.01, 0.02, x, &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget, bt_direct_reflected_budget(&lwir, x, 0.0, 0.5, 1.5, &budget),
+                           site_finite(&budget));
+        EXPECT_STRUCT_SANE(budget, bt_coating_emissivity_budget(&lwir, &scene, s, x, 0.9, u4, &budget),
+                           site_finite(&budget));
+        a = SENTINEL;
+        b = SENTINEL;
+        {
+            bt_status st = bt_emissivity_peak(x, 1.0, &a, &b);
+            CHECK(st == BT_STATUS_OK ? isfinite(a) && isfinite(b)
+                                     : untouched(a) && untouched(b) && known_status(st));
+        }
+    }
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -1574,6 +2826,13 @@ int main(void) {
     test_ratio();
     test_atmosphere();
     test_uncertainty();
+    test_site();
+    test_spectral();
+    test_wien_ratio();
+    test_curves();
+    test_monte_carlo();
+    test_verify();
+    test_optics();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }

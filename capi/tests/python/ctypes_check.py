@@ -12,7 +12,19 @@ Loads the cdylib with ctypes and compares, for seeded random cases,
 - inversion: the library's temperature for the reference radiance of a known temperature;
 - the measurement equation (DESIGN.md) written out here over reference band radiances,
   against bt_sensor_radiance, and its inversion bt_object_temperature;
-- the Sakuma-Hattori signal and its closed-form inverse in mpmath at 40 digits.
+- the Sakuma-Hattori signal and its closed-form inverse in mpmath at 40 digits;
+- spectral scenes against scipy quad of the tabulated equation split at every node;
+- the site methods (emissivity from a reference or a coating, reflected temperature from
+  a reflector) on readings written out in mpmath;
+- the Wien ratio model and curves of both forms behind a dark offset, in mpmath, and a
+  Wien-form fit recovering a known curve from exact readings;
+- Monte Carlo (seeded) against the GUM law of propagation with sensitivities from
+  mpmath derivatives of the written-out equation;
+- the calibration checks: a fitted curve against the band model (bt_verify_curve_band) with
+  the band radiance and the curve's inverse in mpmath, and the calibration uncertainty
+  (bt_verify_uncertainty_sakuma_hattori) with the Jacobian by mpmath.diff;
+- optics and materials: Fresnel directional emissivity (mpmath complex), hemispherical
+  emissivity (scipy quad), Airy encircled energy (scipy.special) and MTF (numpy).
 
 Usage:
     cargo build --release --lib
@@ -50,6 +62,35 @@ TOL = {
     "object temperature": 1e-12,
     "sakuma-hattori signal vs mpmath": 1e-13,
     "sakuma-hattori temperature vs mpmath": 1e-12,
+    # Spectral scenes: Gauss-Legendre panels at every table node, 1e-13 claimed (quad 1e-13).
+    "spectral sensor radiance vs scipy quad": 1e-11,
+    "spectral object temperature": 1e-11,
+    # Site methods: closed forms over band radiances (full double precision claimed); the
+    # emissivity's error is the signal's amplified by S / (tw ta (L(Tref) - L(Tr))) <= ~20.
+    "emissivity from reference": 1e-11,
+    "coating emissivity": 1e-10,
+    "coating temperature": 1e-12,
+    "reflected temperature from reflector": 1e-11,
+    # Wien ratio model: closed forms, a few ulp.
+    # lambda^-5 amplifies the rounding of the band centres (measured: 6e-14).
+    "wien ratio model vs mpmath": 3e-13,
+    "wien ratio temperature vs mpmath": 1e-12,
+    # Calibration curves: closed forms (a few ulp); fits recover exact data to < 1 uK.
+    "curve signal vs mpmath": 1e-13,
+    "curve temperature vs mpmath": 1e-12,
+    "curve fit recovers A": 1e-7,
+    # Monte Carlo against the GUM law of propagation with sensitivities from mpmath
+    # derivatives of the written-out equation, for a near-linear case: 4 standard errors
+    # of the standard deviation (1/sqrt(2(M-1)) relative) plus 2 % for what is left
+    # nonlinear. The mean: |mean - T| / (4 u/sqrt(M) + 0.02 u) must be at most 1.
+    "monte carlo standard deviation vs law of propagation": 4.0 / math.sqrt(2 * 39999) + 0.02,
+    "monte carlo mean vs estimate (error / bound)": 1.0,
+    # The largest curve-vs-band error (mK to tens of mK) is a difference of temperatures
+    # each good to ~1e-13 K, so its relative error is ~1e-10 (measured: 6e-11).
+    "verify curve max error vs mpmath": 1e-8,
+    # u(T) from the covariance: the library's closed-form sensitivities against
+    # mpmath.diff at 40 digits (double rounding of the terms: ~1e-15; measured 4e-16).
+    "verify uncertainty vs mpmath": 1e-10,
 }
 
 H = mp.mpf(constants.h)  # 6.62607015e-34 J s, exact (SI 2019)
@@ -91,6 +132,95 @@ class SakumaHattori(ctypes.Structure):
     _fields_ = [("a_um", ctypes.c_double), ("b_umk", ctypes.c_double), ("c", ctypes.c_double)]
 
 
+class SpectralTables(ctypes.Structure):
+    _fields_ = [
+        ("emissivity_um", ctypes.POINTER(ctypes.c_double)),
+        ("emissivity", ctypes.POINTER(ctypes.c_double)),
+        ("emissivity_len", ctypes.c_size_t),
+        ("transmittance_um", ctypes.POINTER(ctypes.c_double)),
+        ("transmittance", ctypes.POINTER(ctypes.c_double)),
+        ("transmittance_len", ctypes.c_size_t),
+    ]
+
+
+class WienRatio(ctypes.Structure):
+    _fields_ = [("lambda1_um", ctypes.c_double), ("lambda2_um", ctypes.c_double), ("prefactor", ctypes.c_double)]
+
+
+class Curve(ctypes.Structure):
+    _fields_ = [
+        ("form", ctypes.c_uint),  # a C enum: 0 Planck, 1 Wien
+        ("a_um", ctypes.c_double),
+        ("b_umk", ctypes.c_double),
+        ("c", ctypes.c_double),
+        ("offset", ctypes.c_double),
+    ]
+
+
+class CurveFit(ctypes.Structure):
+    _fields_ = [
+        ("curve", Curve),
+        ("covariance", (ctypes.c_double * 3) * 3),
+        ("max_residual_k", ctypes.c_double),
+        ("rms_residual_k", ctypes.c_double),
+        ("iterations", ctypes.c_uint32),
+    ]
+
+
+class Uncertainties(ctypes.Structure):
+    _fields_ = [
+        (name, ctypes.c_double)
+        for name in (
+            "signal",
+            "calibration_k",
+            "calibration_signal",
+            "emissivity",
+            "reflected_k",
+            "atm_transmittance",
+            "atm_k",
+            "window_transmittance",
+            "window_reflectance",
+            "window_k",
+            "window_reflected_k",
+        )
+    ]
+
+
+class MonteCarlo(ctypes.Structure):
+    _fields_ = [("trials", ctypes.c_size_t)] + [
+        (name, ctypes.c_double)
+        for name in (
+            "mean_k",
+            "standard_deviation_k",
+            "probability",
+            "low_k",
+            "high_k",
+            "shortest_low_k",
+            "shortest_high_k",
+        )
+    ]
+
+
+class CurveReport(ctypes.Structure):
+    _fields_ = [
+        ("samples", ctypes.c_size_t),
+        ("max_abs_error_k", ctypes.c_double),
+        ("worst_t_k", ctypes.c_double),
+        ("worst_error_k", ctypes.c_double),
+        ("mean_error_k", ctypes.c_double),
+    ]
+
+
+class UncertaintyReport(ctypes.Structure):
+    _fields_ = [
+        ("samples", ctypes.c_size_t),
+        ("max_u_k", ctypes.c_double),
+        ("worst_t_k", ctypes.c_double),
+        ("lo_u_k", ctypes.c_double),
+        ("hi_u_k", ctypes.c_double),
+    ]
+
+
 def load(path):
     lib = ctypes.CDLL(path)
     d, p = ctypes.c_double, ctypes.POINTER(ctypes.c_double)
@@ -101,7 +231,29 @@ def load(path):
         "bt_object_temperature": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, p],
         "bt_sakuma_hattori_signal": [ctypes.POINTER(SakumaHattori), d, p],
         "bt_sakuma_hattori_temperature": [ctypes.POINTER(SakumaHattori), d, p],
+        "bt_spectral_sensor_radiance": [ctypes.POINTER(Band), ctypes.POINTER(Scene), ctypes.POINTER(SpectralTables), d, p],
+        "bt_spectral_object_temperature": [ctypes.POINTER(Band), ctypes.POINTER(Scene), ctypes.POINTER(SpectralTables), d, p],
+        "bt_emissivity_from_reference": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, d, p],
+        "bt_emissivity_from_reference_coating": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, d, d, p, p],
+        "bt_reflected_temperature_from_reflector": [ctypes.POINTER(Band), ctypes.POINTER(Scene), d, d, d, p],
+        "bt_wien_ratio_from_bands": [ctypes.POINTER(Band), ctypes.POINTER(Band), ctypes.POINTER(WienRatio)],
+        "bt_wien_ratio_temperature": [ctypes.POINTER(WienRatio), d, d, p],
+        "bt_curve_signal": [ctypes.POINTER(Curve), d, p],
+        "bt_curve_temperature": [ctypes.POINTER(Curve), d, p],
+        "bt_curve_fit_points": [ctypes.c_int, p, p, p, ctypes.c_size_t, d, ctypes.POINTER(CurveFit)],
+        "bt_surface_monte_carlo": [
+            ctypes.POINTER(Band), ctypes.POINTER(Scene), d, ctypes.POINTER(Uncertainties),
+            ctypes.c_uint64, d, p, ctypes.c_size_t, ctypes.POINTER(MonteCarlo),
+        ],
     }
+    sh_p = ctypes.POINTER(SakumaHattori)
+    signatures["bt_sakuma_hattori_fit_band"] = [ctypes.POINTER(Band), d, d, sh_p, p]
+    signatures["bt_verify_curve_band"] = [
+        sh_p, d, ctypes.POINTER(Band), d, d, d, d, ctypes.c_size_t, ctypes.POINTER(CurveReport)
+    ]
+    signatures["bt_verify_uncertainty_sakuma_hattori"] = [
+        sh_p, p, d, d, ctypes.c_size_t, ctypes.POINTER(UncertaintyReport)
+    ]
     for name, args in signatures.items():
         fn = getattr(lib, name)
         fn.argtypes = args
@@ -188,6 +340,15 @@ class Tally:
         self.failed = 0
         self.worst = {}
 
+    def ratio(self, what, value):
+        """A nonnegative figure that must not exceed TOL[what]."""
+        self.worst[what] = max(self.worst.get(what, 0.0), value)
+        if value <= TOL[what]:
+            self.passed += 1
+        else:
+            self.failed += 1
+            print(f"FAIL {what}: {value:.3g} > {TOL[what]:.3g}")
+
     def rel(self, what, got, want):
         want = float(want)
         err = abs(got - want) / abs(want)
@@ -197,6 +358,241 @@ class Tally:
         else:
             self.failed += 1
             print(f"FAIL {what}: got {got!r}, want {want!r}, rel err {err:.3g}")
+
+
+def status_of(lib, name, *args):
+    status = getattr(lib, name)(*args)
+    if status != 0:
+        raise RuntimeError(f"{name}: status {status} ({lib.bt_status_message(status).decode()})")
+
+
+def doubles(values):
+    return (ctypes.c_double * len(values))(*values)
+
+
+def check_rest(lib, rng, tally):
+    """Spectral scenes, site methods, the Wien ratio model, calibration curves, Monte Carlo."""
+    lwir = Band(8.0, 14.0, 0, None, None, 0)
+
+    def lb(temperature):
+        return band_mpmath(8.0, 14.0, temperature, False)
+
+    # Spectral scenes: 20 invented tables over 7.5-14.5 um; reference by scipy quad split at
+    # every node of both tables.
+    for _ in range(20):
+        e_wl = np.sort(rng.uniform(7.5, 14.5, 3)).tolist()
+        e_wl = [7.5] + e_wl + [14.5]
+        e_v = rng.uniform(0.3, 1.0, len(e_wl)).tolist()
+        ta_wl = [7.0, float(rng.uniform(8.5, 12.5)), 15.0]
+        ta_v = rng.uniform(0.6, 1.0, 3).tolist()
+        tr, tatm, twin, twr = (float(x) for x in rng.uniform(260.0, 320.0, 4))
+        tw = float(rng.uniform(0.7, 1.0))
+        rw = float(rng.uniform(0.0, 1.0 - tw))
+        t = float(rng.uniform(300.0, 1200.0))
+        scene = Scene(0.5, tr, 0.9, tatm, tw, rw, twin, twr)  # grey e, ta replaced by tables
+        tables = SpectralTables(doubles(e_wl), doubles(e_v), len(e_wl), doubles(ta_wl), doubles(ta_v), 3)
+
+        def integrand(wl):
+            e = float(np.interp(wl, e_wl, e_v))
+            ta = float(np.interp(wl, ta_wl, ta_v))
+            return ta * e * planck_si(wl, t, False) + ta * (1 - e) * planck_si(wl, tr, False) + (1 - ta) * planck_si(wl, tatm, False)
+
+        edges = sorted({8.0, 14.0, *[w for w in e_wl + ta_wl if 8.0 < w < 14.0]})
+        inner = sum(integrate.quad(integrand, a, b, epsabs=0.0, epsrel=1e-13, limit=400)[0] for a, b in zip(edges, edges[1:]))
+        s_ref = tw * inner + rw * float(lb(twr)) + (1 - tw - rw) * float(lb(twin))
+        got = call(lib, "bt_spectral_sensor_radiance", ctypes.byref(lwir), ctypes.byref(scene), ctypes.byref(tables), t)
+        tally.rel("spectral sensor radiance vs scipy quad", got, s_ref)
+        got = call(lib, "bt_spectral_object_temperature", ctypes.byref(lwir), ctypes.byref(scene), ctypes.byref(tables), s_ref)
+        tally.rel("spectral object temperature", got, t)
+
+    # Site methods: 30 invented scenes, readings from the written-out equation in mpmath.
+    for _ in range(30):
+        e = float(rng.uniform(0.2, 0.98))
+        tr, tatm, twin, twr = (float(x) for x in rng.uniform(270.0, 310.0, 4))
+        ta = float(rng.uniform(0.8, 1.0))
+        tw = float(rng.uniform(0.7, 1.0))
+        rw = float(rng.uniform(0.0, min(0.1, 1.0 - tw)))
+        t = float(rng.uniform(340.0, 900.0))
+        scene = Scene(0.9, tr, ta, tatm, tw, rw, twin, twr)
+
+        def reading(emissivity, t_object, t_reflected):
+            return tw * (ta * (emissivity * lb(t_object) + (1 - emissivity) * lb(t_reflected)) + (1 - ta) * lb(tatm)) + rw * lb(twr) + (1 - tw - rw) * lb(twin)
+
+        s_surface = float(reading(e, t, tr))
+        got = call(lib, "bt_emissivity_from_reference", ctypes.byref(lwir), ctypes.byref(scene), s_surface, t)
+        tally.rel("emissivity from reference", got, e)
+        e_out, t_out = ctypes.c_double(), ctypes.c_double()
+        status_of(lib, "bt_emissivity_from_reference_coating", ctypes.byref(lwir), ctypes.byref(scene),
+                  s_surface, float(reading(0.95, t, tr)), 0.95, ctypes.byref(e_out), ctypes.byref(t_out))
+        tally.rel("coating emissivity", e_out.value, e)
+        tally.rel("coating temperature", t_out.value, t)
+        ef, tf, t_refl = 0.04, float(rng.uniform(280.0, 320.0)), float(rng.uniform(250.0, 450.0))
+        got = call(lib, "bt_reflected_temperature_from_reflector", ctypes.byref(lwir), ctypes.byref(scene), float(reading(ef, tf, t_refl)), ef, tf)
+        tally.rel("reflected temperature from reflector", got, t_refl)
+
+    # The Wien ratio model: rectangular bands (effective wavelength = centre), in mpmath.
+    for _ in range(40):
+        l1, l2 = float(rng.uniform(0.5, 1.0)), float(rng.uniform(1.05, 2.0))
+        w1, w2 = float(rng.uniform(0.005, 0.05)), float(rng.uniform(0.005, 0.05))
+        b1 = Band(l1 - w1 / 2, l1 + w1 / 2, 0, None, None, 0)
+        b2 = Band(l2 - w2 / 2, l2 + w2 / 2, 1, None, None, 0)  # energy / photon
+        model = WienRatio()
+        status_of(lib, "bt_wien_ratio_from_bands", ctypes.byref(b1), ctypes.byref(b2), ctypes.byref(model))
+        lam1 = (mp.mpf(b1.lo_um) + mp.mpf(b1.hi_um)) / 2
+        lam2 = (mp.mpf(b2.lo_um) + mp.mpf(b2.hi_um)) / 2
+        d1, d2 = mp.mpf(b1.hi_um) - mp.mpf(b1.lo_um), mp.mpf(b2.hi_um) - mp.mpf(b2.lo_um)
+        w_ref = (C1L_UM * lam1**-5 * d1) / (C1P_UM * lam2**-4 * d2)
+        tally.rel("wien ratio model vs mpmath", model.lambda1_um, lam1)
+        tally.rel("wien ratio model vs mpmath", model.lambda2_um, lam2)
+        tally.rel("wien ratio model vs mpmath", model.prefactor, w_ref)
+        kappa, r = float(rng.uniform(0.8, 1.2)), float(rng.uniform(1e-3, 0.5)) * float(w_ref)
+        lam_r = mp.mpf(model.lambda1_um) * mp.mpf(model.lambda2_um) / (mp.mpf(model.lambda2_um) - mp.mpf(model.lambda1_um))
+        t_ref = C2_UMK / (lam_r * mp.log(mp.mpf(kappa) * mp.mpf(model.prefactor) / mp.mpf(r)))
+        got = call(lib, "bt_wien_ratio_temperature", ctypes.byref(model), r, kappa)
+        tally.rel("wien ratio temperature vs mpmath", got, t_ref)
+
+    # Calibration curves of both forms behind a dark offset, in mpmath; and a fit of the
+    # Wien form to exact readings (mpmath) of a known curve.
+    for case in range(100):
+        form = case % 2
+        a = float(rng.uniform(0.6, 1.6) if form else rng.uniform(0.6, 14.0))
+        b, c, off = float(rng.uniform(-20.0, 50.0)), float(10 ** rng.uniform(3, 9)), float(rng.uniform(-500.0, 500.0))
+        t = float(rng.uniform(600.0, 2500.0) if form else rng.uniform(250.0, 2500.0))
+        curve = Curve(form, a, b, c, off)
+        y = C2_UMK / (mp.mpf(a) * t + mp.mpf(b))
+        s_c = mp.mpf(c) * mp.exp(-y) if form else mp.mpf(c) / mp.expm1(y)
+        if s_c < mp.mpf("1e-6") * abs(mp.mpf(off)) + mp.mpf("1e-300"):
+            continue  # the offset would swamp the signal: the inverse is ill-conditioned
+        got = call(lib, "bt_curve_signal", ctypes.byref(curve), t)
+        tally.rel("curve signal vs mpmath", got, mp.mpf(off) + s_c)
+        net = mp.mpf(float(mp.mpf(off) + s_c)) - mp.mpf(off)
+        t_ref = (C2_UMK / (mp.log(mp.mpf(c) / net) if form else mp.log1p(mp.mpf(c) / net)) - mp.mpf(b)) / mp.mpf(a)
+        got = call(lib, "bt_curve_temperature", ctypes.byref(curve), float(mp.mpf(off) + s_c))
+        tally.rel("curve temperature vs mpmath", got, t_ref)
+    for _ in range(10):
+        a, b, c, off = float(rng.uniform(0.6, 1.6)), float(rng.uniform(0.0, 5.0)), float(10 ** rng.uniform(6, 10)), 250.0
+        t_k = [800.0 + 150.0 * i for i in range(6)]
+        counts = [float(off + mp.mpf(c) * mp.exp(-C2_UMK / (mp.mpf(a) * t + mp.mpf(b)))) for t in t_k]
+        fit = CurveFit()
+        status_of(lib, "bt_curve_fit_points", 1, doubles(t_k), doubles(counts), None, 6, off, ctypes.byref(fit))
+        tally.rel("curve fit recovers A", fit.curve.a_um, a)
+
+    # Monte Carlo against the law of propagation (JCGM 100) for two near-linear scenes:
+    # T(S, e, Tr, ta) solved from the written-out equation in mpmath, sensitivities by
+    # mpmath.diff, combined in quadrature.
+    trials = 40000
+    samples = (ctypes.c_double * trials)()
+    for case, (e, tr, ta, t) in enumerate([(0.93, 291.0, 0.97, 338.15), (0.85, 300.0, 0.95, 420.0)]):
+        scene = Scene(e, tr, ta, 288.0, 1.0, 0.0, 293.15, 293.15)
+        s = ta * (e * lb(t) + (1 - e) * lb(tr)) + (1 - ta) * lb(288.0)
+
+        def object_k(sig, emis, refl, tau):
+            target = ((sig - (1 - tau) * lb(288.0)) / tau - (1 - emis) * lb(refl)) / emis
+            return mp.findroot(lambda x: lb(x) - target, mp.mpf(t))
+
+        u = {"signal": 0.05, "emissivity": 0.005, "reflected_k": 1.0, "atm_transmittance": 0.003}
+        args = [s, mp.mpf(e), mp.mpf(tr), mp.mpf(ta)]
+        sens = []
+        for i in range(4):
+            def along(x, i=i):
+                a = list(args)
+                a[i] = x
+                return object_k(*a)
+            sens.append(mp.diff(along, args[i]))
+        uc = mp.sqrt(sum((c_i * u_i) ** 2 for c_i, u_i in zip(sens, u.values())))
+        unc = Uncertainties(**u)
+        out = MonteCarlo()
+        status_of(lib, "bt_surface_monte_carlo", ctypes.byref(lwir), ctypes.byref(scene), float(s),
+                  ctypes.byref(unc), 2024 + case, 0.95, samples, trials, ctypes.byref(out))
+        tally.rel("monte carlo standard deviation vs law of propagation", out.standard_deviation_k, uc)
+        bound = float(4 * uc / math.sqrt(trials) + mp.mpf("0.02") * uc)
+        tally.ratio("monte carlo mean vs estimate (error / bound)", abs(out.mean_k - t) / bound)
+
+
+# ---- optics and materials ------------------------------------------------------------------
+
+
+class DirectionalEmissivity(ctypes.Structure):
+    _fields_ = [("s", ctypes.c_double), ("p", ctypes.c_double), ("unpolarised", ctypes.c_double)]
+
+
+def optics_checks(lib, rng, tally):
+    """Fresnel emissivity (mpmath complex arithmetic), hemispherical emissivity (scipy quad),
+    the Airy encircled energy (scipy.special j0, j1) and the MTF (written out in numpy)."""
+    from scipy import special
+
+    TOL.update({
+        # Fresnel reflectances: a few ulp of cancellation in 1 - |r|^2 (absolute; the
+        # directional value can be near 0 at grazing angles).
+        "directional emissivity vs mpmath (abs)": 1e-13,
+        # scipy quad to 1e-13 against the library's 1e-12 claim.
+        "hemispherical emissivity vs scipy quad (abs)": 1e-12,
+        "airy encircled energy vs scipy (abs)": 1e-14,
+        "system mtf vs numpy (abs)": 1e-14,
+    })
+    d = ctypes.c_double
+    lib.bt_emissivity_directional.argtypes = [d, d, d, ctypes.POINTER(DirectionalEmissivity)]
+    lib.bt_emissivity_directional.restype = ctypes.c_int
+    lib.bt_emissivity_hemispherical.argtypes = [d, d, ctypes.POINTER(d)]
+    lib.bt_emissivity_hemispherical.restype = ctypes.c_int
+    lib.bt_airy_encircled_energy.argtypes = [d, d, d, ctypes.POINTER(d)]
+    lib.bt_airy_encircled_energy.restype = ctypes.c_int
+
+    def fresnel(n, k, deg):
+        m = mp.mpc(n, -k)
+        c = mp.cos(mp.radians(deg))
+        w = mp.sqrt(m * m - mp.sin(mp.radians(deg)) ** 2)
+        rs = abs((c - w) / (c + w)) ** 2
+        rp = abs((m * m * c - w) / (m * m * c + w)) ** 2
+        return 1 - (rs + rp) / 2
+
+    def absolute(what, got, want):
+        err = abs(float(got) - float(want))
+        tally.worst[what] = max(tally.worst.get(what, 0.0), err)
+        if err <= TOL[what]:
+            tally.passed += 1
+        else:
+            tally.failed += 1
+            print(f"FAIL {what}: got {got!r}, want {float(want)!r}")
+
+    for _ in range(60):
+        n = float(10 ** rng.uniform(-0.5, 2))
+        k = float(0.0 if rng.uniform() < 0.3 else 10 ** rng.uniform(-2, 2))
+        deg = float(rng.uniform(0.0, 89.9))
+        out = DirectionalEmissivity(-1.0, -1.0, -1.0)
+        status = lib.bt_emissivity_directional(n, k, deg, ctypes.byref(out))
+        if status != 0:
+            raise RuntimeError(f"bt_emissivity_directional: status {status}")
+        absolute("directional emissivity vs mpmath (abs)", out.unpolarised, fresnel(n, k, deg))
+    for _ in range(12):
+        n = float(10 ** rng.uniform(0, 1.5))
+        k = float(10 ** rng.uniform(-2, 1.5))
+        f = lambda mu: float(fresnel(n, k, math.degrees(math.acos(mu)))) * 2 * mu
+        a = 1 / math.hypot(n, k)
+        pts = sorted({a / 4, a, min(4 * a, 0.9)})
+        want = integrate.quad(f, 0, 1, points=pts, epsabs=1e-14, epsrel=1e-13, limit=200)[0]
+        absolute("hemispherical emissivity vs scipy quad (abs)",
+                 call(lib, "bt_emissivity_hemispherical", n, k), want)
+    for _ in range(40):
+        r, lam, fno = float(rng.uniform(0, 200)), float(rng.uniform(0.5, 14)), float(rng.uniform(0.7, 8))
+        v = math.pi * r / (lam * fno)
+        want = 1 - special.j0(v) ** 2 - special.j1(v) ** 2
+        absolute("airy encircled energy vs scipy (abs)", call(lib, "bt_airy_encircled_energy", r, lam, fno), want)
+
+    class Mtf(ctypes.Structure):
+        _fields_ = [("diffraction", d), ("pixel", d), ("system", d)]
+
+    lib.bt_mtf_evaluate.argtypes = [d, d, d, d, ctypes.POINTER(Mtf)]
+    lib.bt_mtf_evaluate.restype = ctypes.c_int
+    for _ in range(40):
+        nu, p, lam, fno = (float(x) for x in (rng.uniform(0, 120), rng.uniform(5, 30), rng.uniform(3, 14), rng.uniform(0.8, 2)))
+        x = nu * lam * fno / 1000.0
+        dif = 0.0 if x >= 1 else 2 / math.pi * (math.acos(x) - x * math.sqrt(1 - x * x))
+        pix = abs(np.sinc(p * 1e-3 * nu))
+        out = Mtf(-1.0, -1.0, -1.0)
+        if lib.bt_mtf_evaluate(nu, p, lam, fno, ctypes.byref(out)) != 0:
+            raise RuntimeError("bt_mtf_evaluate failed")
+        absolute("system mtf vs numpy (abs)", out.system, dif * pix)
 
 
 def main():
@@ -277,6 +673,62 @@ def main():
         t_ref = (C2_UMK / mp.log1p(mp.mpf(c) / mp.mpf(s)) - mp.mpf(b)) / mp.mpf(a)
         got = call(lib, "bt_sakuma_hattori_temperature", ctypes.byref(curve), s)
         tally.rel("sakuma-hattori temperature vs mpmath", got, t_ref)
+
+    check_rest(lib, rng, tally)
+
+    # Calibration checks: a curve fitted to a band, against the band model over its range,
+    # on 21 temperatures; and the uncertainty of a curve from a covariance.
+    for lo, hi, t_lo, t_hi in [(8.0, 14.0, 250.0, 500.0), (3.0, 5.0, 300.0, 900.0), (0.8, 1.1, 900.0, 2000.0)]:
+        band = Band(lo, hi, 0, None, None, 0)
+        curve = SakumaHattori()
+        fit_error = ctypes.c_double()
+        status = lib.bt_sakuma_hattori_fit_band(
+            ctypes.byref(band), t_lo, t_hi, ctypes.byref(curve), ctypes.byref(fit_error)
+        )
+        if status != 0:
+            raise RuntimeError(f"bt_sakuma_hattori_fit_band: status {status}")
+        report = CurveReport()
+        status = lib.bt_verify_curve_band(
+            ctypes.byref(curve), 0.0, ctypes.byref(band), 1.0, 0.0, t_lo, t_hi, 21, ctypes.byref(report)
+        )
+        if status != 0:
+            raise RuntimeError(f"bt_verify_curve_band: status {status}")
+        a, b, c = (mp.mpf(x) for x in (curve.a_um, curve.b_umk, curve.c))
+        worst = mp.mpf(0)
+        for i in range(21):
+            t = t_hi if i == 20 else t_lo + (t_hi - t_lo) * (i / 20.0)
+            lb = band_mpmath(lo, hi, t, False)
+            err = (C2_UMK / mp.log1p(c / lb) - b) / a - t
+            worst = max(worst, abs(err))
+        tally.rel("verify curve max error vs mpmath", report.max_abs_error_k, worst)
+
+        # Standard deviations 1e-3 A, 0.5 um K, 1e-3 C and correlations -0.9 (A, B),
+        # -0.5 (A, C), 0.6 (B, C): positive definite (determinant of the correlations 0.12).
+        sd = [1e-3 * curve.a_um, 0.5, 1e-3 * curve.c]
+        rho = [[1.0, -0.9, -0.5], [-0.9, 1.0, 0.6], [-0.5, 0.6, 1.0]]
+        cov = [sd[r] * rho[r][k] * sd[k] for r in range(3) for k in range(3)]
+        cov_c = (ctypes.c_double * 9)(*cov)
+        unc = UncertaintyReport()
+        status = lib.bt_verify_uncertainty_sakuma_hattori(
+            ctypes.byref(curve), cov_c, t_lo, t_hi, 3, ctypes.byref(unc)
+        )
+        if status != 0:
+            raise RuntimeError(f"bt_verify_uncertainty_sakuma_hattori: status {status}")
+        for t, got in ((t_lo, unc.lo_u_k), (t_hi, unc.hi_u_k)):
+            s_t = c / mp.expm1(C2_UMK / (a * t + b))
+
+            def temp(pa, pb, pc):
+                return (C2_UMK / mp.log1p(pc / s_t) - pb) / pa
+
+            j = [
+                mp.diff(lambda x: temp(x, b, c), a),
+                mp.diff(lambda x: temp(a, x, c), b),
+                mp.diff(lambda x: temp(a, b, x), c),
+            ]
+            var = sum(j[r] * mp.mpf(cov[3 * r + k]) * j[k] for r in range(3) for k in range(3))
+            tally.rel("verify uncertainty vs mpmath", got, mp.sqrt(var))
+
+    optics_checks(lib, rng, tally)
 
     for what, worst in tally.worst.items():
         print(f"  {what}: max rel err {worst:.2e} (tolerance {TOL[what]:.0e})")

@@ -1,0 +1,326 @@
+//! Writes the checked-in seed corpus (`fuzz/corpus/<target>/`) from the test suite's cases
+//! (`tests/data/*.csv`, the scenes, calibrations, ratios, air paths and the frame case of
+//! the tests), encoded in the form each target decodes. Run from `fuzz/`:
+//! `cargo run --example write_seeds`. Deterministic: the same data give the same files.
+
+use bandtemp_fuzz::{enc_band, enc_scene, Enc};
+use std::collections::BTreeMap;
+use std::fs;
+use std::path::Path;
+
+type Row = BTreeMap<String, String>;
+
+/// The rows of a CSV in `tests/data` (comment lines skipped; simple, unquoted fields
+/// first, which is all the seeds use).
+fn csv(name: &str) -> Vec<Row> {
+    let text = fs::read_to_string(Path::new("../tests/data").join(name)).unwrap_or_default();
+    let mut lines = text
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.trim().is_empty());
+    let Some(header) = lines.next() else {
+        return Vec::new();
+    };
+    let keys: Vec<String> = header.split(',').map(str::to_string).collect();
+    lines
+        .map(|l| {
+            keys.iter()
+                .cloned()
+                .zip(l.split(',').map(str::to_string))
+                .collect()
+        })
+        .collect()
+}
+
+fn num(row: &Row, key: &str) -> f64 {
+    row.get(key)
+        .and_then(|v| v.trim().parse().ok())
+        .unwrap_or(f64::NAN)
+}
+
+fn detector(row: &Row, key: &str) -> u32 {
+    u32::from(row.get(key).is_some_and(|v| v == "photon"))
+}
+
+/// A response table `response_<name>.csv`.
+fn table(name: &str) -> (Vec<f64>, Vec<f64>) {
+    let rows = csv(&format!("response_{name}.csv"));
+    let mut wl: Vec<f64> = rows.iter().map(|r| num(r, "wavelength_um")).collect();
+    let mut r: Vec<f64> = rows.iter().map(|r| num(r, "response")).collect();
+    // The decoder reads at most 24 points: keep every k-th.
+    let step = wl.len().div_ceil(24).max(1);
+    wl = wl.into_iter().step_by(step).collect();
+    r = r.into_iter().step_by(step).collect();
+    (wl, r)
+}
+
+/// The scene fields of a `scene_cases.csv` row.
+fn scene_of(row: &Row) -> [f64; 8] {
+    [
+        num(row, "emissivity"),
+        num(row, "reflected_k"),
+        num(row, "atm_transmittance"),
+        num(row, "atm_k"),
+        num(row, "window_transmittance"),
+        num(row, "window_reflectance"),
+        num(row, "window_k"),
+        num(row, "window_reflected_k"),
+    ]
+}
+
+fn write(target: &str, name: &str, e: &Enc) {
+    let dir = Path::new("corpus").join(target);
+    fs::create_dir_all(&dir).expect("corpus directory");
+    fs::write(dir.join(format!("seed-{name}")), &e.bytes).expect("seed file");
+}
+
+fn main() {
+    // planck_band: spectral cases (every 20th) and band cases, rectangular and tabulated.
+    let bands = csv("band_radiance.csv");
+    for (i, r) in csv("spectral_radiance.csv").iter().enumerate().step_by(20) {
+        let b = bands
+            .get(i % bands.len().max(1))
+            .cloned()
+            .unwrap_or_default();
+        let mut e = Enc::new();
+        e.u8(0)
+            .f64(num(r, "wavelength_um"))
+            .f64(num(r, "temperature_k"));
+        enc_band(
+            &mut e,
+            num(&b, "lo_um"),
+            num(&b, "hi_um"),
+            detector(&b, "detector"),
+            None,
+        );
+        e.f64(num(&b, "radiance"));
+        write("planck_band", &format!("spectral-{i}"), &e);
+    }
+    for (i, r) in csv("tabulated_band_radiance.csv")
+        .iter()
+        .enumerate()
+        .step_by(8)
+    {
+        let name = r
+            .get("table")
+            .cloned()
+            .unwrap_or_default()
+            .replace("invented_", "invented_");
+        let (wl, resp) = table(&name);
+        let mut e = Enc::new();
+        e.u8(0).f64(10.0).f64(num(r, "temperature_k"));
+        enc_band(
+            &mut e,
+            num(r, "lo_um"),
+            num(r, "hi_um"),
+            detector(r, "detector"),
+            Some((&wl, &resp)),
+        );
+        e.f64(num(r, "radiance"));
+        write("planck_band", &format!("tabulated-{i}"), &e);
+    }
+
+    // scene and budget: the scene cases.
+    for (i, r) in csv("scene_cases.csv").iter().enumerate() {
+        let mut e = Enc::new();
+        enc_band(
+            &mut e,
+            num(r, "lo_um"),
+            num(r, "hi_um"),
+            detector(r, "detector"),
+            None,
+        );
+        enc_scene(&mut e, scene_of(r));
+        e.f64(num(r, "object_k")).f64(num(r, "sensor_signal"));
+        write("scene", &format!("case-{i}"), &e);
+
+        let mut e = Enc::new();
+        e.bool(true);
+        enc_band(
+            &mut e,
+            num(r, "lo_um"),
+            num(r, "hi_um"),
+            detector(r, "detector"),
+            None,
+        );
+        enc_scene(&mut e, scene_of(r));
+        e.f64(num(r, "object_k")).bool(true).bool(false);
+        for _ in 0..11 {
+            e.u8(1).u8(5);
+        }
+        write("budget", &format!("case-{i}"), &e);
+    }
+
+    // calibration: the reference points (with and without uncertainties), the band fits
+    // and their curves.
+    let points = csv("calibration_points_ref.csv");
+    let _ = points;
+    let text = fs::read_to_string("../tests/data/calibration_points_ref.csv").unwrap_or_default();
+    let mut rows: BTreeMap<String, Vec<f64>> = BTreeMap::new();
+    for line in text.lines().filter(|l| !l.starts_with('#')) {
+        let mut fields = line.split(',');
+        if let Some(key) = fields.next() {
+            rows.insert(
+                key.to_string(),
+                fields.filter_map(|v| v.trim().parse().ok()).collect(),
+            );
+        }
+    }
+    let t = rows.get("temperature_k").cloned().unwrap_or_default();
+    let s = rows.get("signal").cloned().unwrap_or_default();
+    let u = rows.get("uncertainty").cloned().unwrap_or_default();
+    for with_u in [false, true] {
+        let mut e = Enc::new();
+        e.u8(2).bool(false).len(t.len(), 40);
+        t.iter().for_each(|&v| {
+            e.f64(v);
+        });
+        s.iter().for_each(|&v| {
+            e.f64(v);
+        });
+        e.bool(with_u);
+        u.iter().for_each(|&v| {
+            e.f64(v);
+        });
+        write("calibration", &format!("points-u{}", u8::from(with_u)), &e);
+    }
+    for (i, r) in csv("calibration_band_ref.csv").iter().enumerate() {
+        let mut e = Enc::new();
+        e.u8(3);
+        enc_band(
+            &mut e,
+            num(r, "lo_um"),
+            num(r, "hi_um"),
+            detector(r, "detector"),
+            None,
+        );
+        e.f64(num(r, "t_lo_k")).f64(num(r, "t_hi_k"));
+        write("calibration", &format!("band-{i}"), &e);
+
+        let mut e = Enc::new();
+        e.u8(0)
+            .bool(true)
+            .f64(num(r, "a_um"))
+            .f64(num(r, "b_umk"))
+            .f64(num(r, "c"));
+        e.f64(0.5 * (num(r, "t_lo_k") + num(r, "t_hi_k")))
+            .f64(num(r, "c") * 1e-3);
+        enc_scene(&mut e, [0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0]);
+        write("calibration", &format!("curve-{i}"), &e);
+    }
+
+    // frame: the converter of the C tests (8-14 um, 250-1500 K at 1 mK, counts 0.002 n - 2)
+    // and narrower ranges, with counts and signal frames.
+    for (i, (lo, hi, tol)) in [
+        (250.0, 1500.0, 1e-3),
+        (280.0, 400.0, 1e-3),
+        (500.0, 1200.0, 1e-2),
+    ]
+    .into_iter()
+    .enumerate()
+    {
+        for as_counts in [true, false] {
+            let mut e = Enc::new();
+            e.u8(4 | 8);
+            enc_scene(&mut e, [0.9, 295.0, 0.95, 290.0, 0.9, 0.05, 300.0, 293.0]);
+            e.f64(lo).f64(hi).f64(tol).f64(0.002).f64(-2.0);
+            e.u16(0).u16(0).len(256, 2048).u8(0).bool(false).bool(false);
+            e.len(16, 1024).bool(as_counts);
+            for k in 0..16u16 {
+                e.u16(8000 + 2000 * k);
+            }
+            for k in 0..16u16 {
+                e.f32(20.0 + 40.0 * f32::from(k));
+            }
+            e.u8(0).u8(1);
+            write(
+                "frame",
+                &format!(
+                    "converter-{i}-{}",
+                    if as_counts { "counts" } else { "signal" }
+                ),
+                &e,
+            );
+        }
+    }
+
+    // ratio: the reference cases.
+    for (i, r) in csv("ratio_reference.csv").iter().enumerate() {
+        let mut e = Enc::new();
+        enc_band(
+            &mut e,
+            num(r, "lo1_um"),
+            num(r, "hi1_um"),
+            detector(r, "detector1"),
+            None,
+        );
+        enc_band(
+            &mut e,
+            num(r, "lo2_um"),
+            num(r, "hi2_um"),
+            detector(r, "detector2"),
+            None,
+        );
+        let t = num(r, "temperature_k");
+        e.f64(0.5 * t).f64(2.0 * t).f64(num(r, "ratio")).f64(1.0);
+        e.bool(false)
+            .f64(num(r, "emissivity_ratio"))
+            .f64(t)
+            .f64(1.0);
+        write("ratio", &format!("case-{i}"), &e);
+    }
+
+    // air: the band transmittance cases.
+    for (i, r) in csv("atmosphere_band.csv").iter().enumerate().step_by(6) {
+        let mut e = Enc::new();
+        e.bool(false)
+            .f64(num(r, "air_k"))
+            .f64(num(r, "relative_humidity"));
+        e.bool(false)
+            .f64(num(r, "pressure_hpa"))
+            .bool(false)
+            .f64(num(r, "distance_m"));
+        e.bool(false).f64(10.0).f64(num(r, "object_k")).bool(false);
+        enc_band(&mut e, num(r, "lo_um"), num(r, "hi_um"), 0, None);
+        write("air", &format!("case-{i}"), &e);
+    }
+
+    // monte_carlo: a surface case, a generic run, and the pieces.
+    for (i, r) in csv("scene_cases.csv").iter().enumerate().take(3) {
+        let mut e = Enc::new();
+        e.u8(0).bool(true).bool(true);
+        let f = scene_of(r);
+        let byte =
+            |x: f64, lo: f64, span: f64| ((x - lo) / span * 255.0).round().clamp(0.0, 255.0) as u8;
+        e.u8(byte(f[0], 0.3, 0.7))
+            .f64(f[1])
+            .u8(byte(f[2], 0.3, 0.7))
+            .f64(f[3]);
+        e.u8(byte(f[4], 0.3, 0.7))
+            .u8(byte(f[5], 0.0, 0.05))
+            .f64(f[6])
+            .f64(f[7]);
+        e.f64(num(r, "object_k"));
+        for _ in 0..11 {
+            e.u8(1).u8(40);
+        }
+        e.u64(20_260_101 + i as u64).len(64, 200).bool(true);
+        write("monte_carlo", &format!("surface-{i}"), &e);
+    }
+    let mut e = Enc::new();
+    e.u8(1)
+        .len(100, 300)
+        .bool(true)
+        .len(3, 64)
+        .f64(300.0)
+        .f64(301.0)
+        .f64(299.5);
+    e.u64(1).u64(2).u64(3).u64(4);
+    write("monte_carlo", "generic", &e);
+    let mut e = Enc::new();
+    e.u8(2).len(5, 300);
+    for v in [1.0, 2.0, 3.0, 4.0, 5.0] {
+        e.f64(v);
+    }
+    e.f64(0.6).f64(3.0).f64(1.0).f64(0.5).f64(0.12).u8(2);
+    write("monte_carlo", "pieces", &e);
+}

@@ -1,0 +1,172 @@
+//! Whole frames: table-based conversion of counts or signal images to object temperature,
+//! with a guaranteed table error, caller-owned storage and no heap.
+//!
+//! ```
+//! use bandtemp::band::Band;
+//! use bandtemp::frame::{CountsMap, FrameConverter, FrameTable, Rails, TemperatureRange};
+//! use bandtemp::planck::Detector;
+//! use bandtemp::scene::Scene;
+//!
+//! // Invented instrument: an 8-14 um microbolometer core whose radiometric calibration
+//! // reads L = 0.002 W m^-2 sr^-1 per count above 1000 dark counts.
+//! let band = Band::rectangular(8.0, 14.0, Detector::Energy)?;
+//! let scene = Scene::new(0.95, 293.15)?;
+//! let counts = CountsMap::linear(0.002, -2.0)?;
+//! let range = TemperatureRange::new(250.0, 1500.0)?;
+//! let mut storage = [[0.0f32; 4]; 128]; // 2 KiB on the stack: no heap
+//! assert!(FrameTable::required_rows(&band, range, 1e-3)? <= storage.len());
+//! let converter =
+//!     FrameConverter::new(&band, &scene, counts, Rails::default(), range, 1e-3, &mut storage)?;
+//! let frame = [0u16, 30_000, 65_535, 40_000];
+//! let mut kelvin = [0.0f32; 4];
+//! let summary = converter.convert_counts(&frame, None, &mut kelvin)?;
+//! assert_eq!((summary.converted, summary.dead, summary.saturated), (2, 1, 1));
+//! assert!(kelvin[0].is_nan() && kelvin[1] > 290.0 && kelvin[3] > kelvin[1]);
+//! # Ok::<(), bandtemp::Error>(())
+//! ```
+//!
+//! # Pipeline
+//!
+//! Per pixel, with the scene's grey measurement equation S = G L(T) + B
+//! ([`crate::scene`]) and an affine counts map S = g n + o ([`CountsMap`]):
+//!
+//! ```text
+//! uniform scene:     L = (n - z) * (g / G),                  z  = (B - o) / g
+//! emissivity map:    L = (n - z0) * (g / (tw ta)) / e + Lr,   z0 = (K - o) / g
+//! signal input:      L = (S - B) / G,   or   (S - K) / (tw ta) / e + Lr
+//! then               T = table(L)
+//! ```
+//!
+//! n counts, L the object's own signal in the curve's units, G = tw ta e, B the
+//! background, K = B(e = 0) = what the sensor sees from a perfect reflector, Lr the
+//! curve's signal at the reflected temperature, e the pixel's emissivity. The per-pixel
+//! form follows from B(e) = K - tw ta e Lr. The offset z is split into an integer part
+//! and a remainder so that n - z loses nothing to cancellation (u16 counts are exact in
+//! f32).
+//!
+//! # Where each stage lives
+//!
+//! In the order a pixel goes through them:
+//!
+//! | stage                                   | file           | items                                  |
+//! |-----------------------------------------|----------------|----------------------------------------|
+//! | declared inputs                         | `params.rs`    | [`TemperatureRange`], [`CountsMap`], [`Rails`] |
+//! | counts or S -> object signal L          | `pixel_map.rs` | [`PixelMap`]                           |
+//! | L -> row and position -> T (per pixel)  | `lookup.rs`    | row index from the f32 bits, Horner    |
+//! | chunks of [`LANES`] pixels              | `kernel.rs`    | the vectorisable batch loop            |
+//! | status of a failed pixel, frame tally   | `summary.rs`   | [`PixelStatus`], [`FrameSummary`]      |
+//! | the converter, scalar reference path    | `converter.rs` | [`FrameConverter`], [`ConverterState`] |
+//!
+//! Built once, before any pixel: the rows and their check, `table.rs` ([`FrameTable`],
+//! [`TableGeometry`], [`TableRow`]).
+//!
+//! # The table variable, and why
+//!
+//! Rows are cubic Hermite pieces of T(L) on segments that are uniform in the *bit pattern*
+//! of the f32 signal: the exponent and the top `level` mantissa bits of L select the row,
+//! the remaining mantissa bits give the position inside it (see [`TableRow`]). The segments are
+//! therefore 2^level per octave of L (a piecewise-linear log2 L), and the index costs two
+//! integer operations and no transcendental function, for any unit and dynamic range
+//! (band radiance in W m^-2 sr^-1, photon radiance near 1e20, counts).
+//!
+//! Why this choice. Nodes needed for an 8-14 um energy band over 250-1500 K at 1 mK
+//! (exact band radiance; the first four rows from a design study with scipy, node counts
+//! searched in steps of 1.5x, so they are upper bounds within that factor; the last row
+//! from `tests/frame_table.rs`):
+//!
+//! | table variable          | linear  | cubic Hermite     | per-pixel index cost          |
+//! |-------------------------|---------|-------------------|-------------------------------|
+//! | L (uniform)             | 12 138  | 711               | one multiply-add              |
+//! | L^(1/2)                 |  1 066  |  63               | one sqrt                      |
+//! | L^(1/4)                 |  1 066  |  19               | two sqrt                      |
+//! | ln L                    |  2 398  |  42               | a log (no vector log in core) |
+//! | f32 bits (this module)  | ~3 800* |  61 rows, 976 B   | shift, subtract, mask         |
+//!
+//! (*) estimated from the ln L column: level 9, 512 rows per octave; at 8 bytes per
+//! linear row that is 30 KiB against 976 bytes for the cubic.
+//!
+//! In a log-like variable Wien's law makes 1/T linear, so T(L) is smooth at every
+//! wavelength and temperature; a power transform is better for one long-wave band but
+//! loses its advantage over a short-wave band's many decades and costs square roots
+//! per pixel (a packed sqrt is as slow as the whole lookup). Hermite interpolation with
+//! the exact derivative dT/dL = 1/L'(T) has error h^4 T''''/384 instead of h^2 T''/8,
+//! so 1 mK costs about 1 KiB instead of 30 KiB, and the table stays in L1 cache (or in
+//! a microcontroller's tightly coupled memory) beside the streaming frame. Every row is
+//! independent (no spline system to solve) and is four f32 power-basis coefficients, one
+//! 16-byte row per pixel lookup and three multiply-adds. The price against a linear
+//! table is two more loads and two more multiply-adds per pixel.
+//!
+//! The f32 output limits the tolerance: 8-14 um over 250-1500 K cannot go below about
+//! 0.25 mK (half an ulp of 1500 K is 61 uK, plus the 1.5-ulp signal allowance).
+//!
+//! # Accuracy
+//!
+//! Construction evaluates the f32 table, exactly as the pixel path does, at 16 points of
+//! every row and at the range ends, compares with exact inversion of the same signal
+//! ([`SignalCurve::temperature`](crate::band::SignalCurve::temperature): Newton on the exact band integral, or the closed-form
+//! Sakuma-Hattori inverse), and adds an allowance of 1.5 f32 ulps of L for the
+//! counts-to-signal arithmetic of a uniform scene: `max_pixel_error_k` =
+//! max |T_table(L) - T(L)| + 1.5 * 2^-23 * L / L'(T). A table whose figure exceeds the
+//! requested tolerance is refused. The emissivity-map and signal-input paths round a
+//! little more where the background dominates (their L is a difference of larger
+//! terms); see [`FrameConverter::convert_counts`].
+//!
+//! # Speed
+//!
+//! The batch loops work on chunks of [`LANES`] pixels held in fixed-size arrays, in
+//! passes the compiler vectorises on stable Rust (signal and validity, row index and
+//! position, row loads, Horner and the NaN select), with branch-free selects only; the
+//! same code is the portable scalar path on targets without SIMD, and no `unsafe` is
+//! used (each row load is bounded by a `min`, which compiles to a conditional move).
+//! For a uniform scene, validity is a test of the counts against a window [n_lo, n_hi]
+//! worked out once per scene with the pixel path's own f32 arithmetic (L(n) is monotone
+//! in n), so the hot loop needs no signal clamps. Pixels that fail are classified in a
+//! second, scalar pass over the rare chunks that hold one.
+//!
+//! Measured (`benches/frame.rs`, 640x512 u16 frame, one core of a shared 2-core AMD EPYC
+//! VM, default x86-64 target, i.e. SSE2): see the crate README for the figures.
+
+// The hot path is a handful of tiny functions that must inline into the chunk loop for it
+// to vectorise; `#[inline(always)]` says so where LLVM's heuristics might not.
+#![allow(clippy::inline_always)]
+
+mod converter;
+mod kernel;
+mod lookup;
+mod params;
+mod pixel_map;
+mod summary;
+mod table;
+
+pub use converter::{ConverterState, FrameConverter};
+pub use params::{CountsMap, Rails, TemperatureRange};
+pub use pixel_map::PixelMap;
+pub use summary::{FrameSummary, PixelStatus};
+pub use table::{FrameTable, TableGeometry, TableRow};
+
+use crate::error::{Error, Result};
+
+/// Finest segment level tried: 2^12 = 4096 rows per octave of signal.
+pub const MAX_LEVEL: u32 = 12;
+
+/// Pixels per chunk of the batch loops.
+pub const LANES: usize = 16;
+
+/// Explicit f32 mantissa width.
+const MANTISSA_BITS: u32 = 23;
+
+/// Rounds to the nearest f32.
+#[allow(clippy::cast_possible_truncation)]
+fn to_f32(value: f64) -> f32 {
+    value as f32
+}
+
+/// Rounds to f32, refusing what does not fit.
+fn to_f32_checked(value: f64) -> Result<f32> {
+    let rounded = to_f32(value);
+    if rounded.is_finite() {
+        Ok(rounded)
+    } else {
+        Err(Error::FrameCoefficientOverflow)
+    }
+}

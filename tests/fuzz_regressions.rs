@@ -1,0 +1,244 @@
+//! Regression tests for findings of the coverage-guided fuzz targets (`fuzz/`), each
+//! minimised from the input libFuzzer reported. Reference values are from mpmath (named at
+//! each check); the other checks are the invariants the fuzz oracles enforce.
+
+use bandtemp::band::Band;
+use bandtemp::planck::Detector;
+use bandtemp::Error;
+
+/// A photon band reaching down to 0.1 um, at temperatures where c2/(hi T) is 690-745: the
+/// band integral of x^2/(e^x - 1) sits near the subnormal range while the scale
+/// c1p T^3/c2^3 (~1e21) lifts the radiance back to ~1e-297. The radiance used to come out
+/// Ok with a relative error of 5e-4 at 195 K and a factor 2 at 193.09 K; now it is either
+/// accurate or `RadianceUnderflow`.
+#[test]
+fn deep_wien_tail_band_radiance_is_accurate_or_underflows() {
+    let band = Band::rectangular(2.220446049250313e-16, 0.1, Detector::Photon).unwrap();
+    // mpmath 1.3 at 50 digits: 2c 1e18 (T/c2)^3 (G2(c2/(0.1 T)) - G2(c2/(2.22e-16 T))),
+    // G2(x) = sum_n e^(-n x) (x^2/n + 2x/n^2 + 2/n^3), CODATA 2018 exact h, c, k.
+    let cases = [
+        (193.09, 1.9940210482000275e-297),
+        (193.5, 9.690_193_004_652_684e-297),
+        (195.0, 2.976_498_674_649_38e-294),
+        (200.0, 3.1308722488603526e-286),
+        (210.0, 2.479_499_528_196_233e-271),
+        (230.0, 2.0315040051120665e-245),
+        (300.0, 6.523841489842793e-182),
+    ];
+    let mut accurate = 0;
+    for (t, want) in cases {
+        match band.radiance(t) {
+            Ok(got) => {
+                assert!(
+                    ((got - want) / want).abs() < 1e-12,
+                    "T {t}: {got:e} vs mpmath {want:e}"
+                );
+                accurate += 1;
+            }
+            Err(error) => assert_eq!(error, Error::RadianceUnderflow, "T {t}"),
+        }
+    }
+    // Away from the edge of the resolved range the values are delivered.
+    assert!(accurate >= 3, "only {accurate} of the cases delivered");
+    assert!(band.radiance(300.0).is_ok());
+}
+
+/// The inversion of a radiance between an underflow and the smallest radiance the band
+/// resolves: the safeguarded solver bisected onto the jump and returned Ok(193.09 K), whose
+/// radiance is 5.8e6 times the target. Now: an error, or a temperature whose radiance is the
+/// target (the fuzz oracle: L(T(L)) = L within the inversion's conditioning).
+#[test]
+fn radiance_in_the_unresolved_gap_does_not_invert_to_a_wrong_temperature() {
+    let band = Band::rectangular(2.220446049250313e-16, 0.1, Detector::Photon).unwrap();
+    for target in [6.929048146014352e-304, 1e-300, 3e-290, 1e-280] {
+        match band.temperature(target) {
+            Ok(t) => {
+                let back = band.radiance(t).unwrap();
+                let slope = band.radiance_derivative(t).unwrap();
+                assert!(
+                    ((back - target) / slope).abs() <= 1e-9 * t,
+                    "L {target:e} -> T {t} -> L {back:e}"
+                );
+            }
+            Err(error) => assert_eq!(error, Error::RadianceOutOfRange, "L {target:e}"),
+        }
+    }
+}
+
+/// The blackbody fraction deep in the Wien tail (lambda T near 20 um K, x = c2/(lambda T)
+/// above 708, where e^-x is subnormal): it came out with few significant bits, as a
+/// subnormal 6 orders of magnitude off (3.1e-322 for 2.2e-316), and decreasing with
+/// lambda T. Now: full precision while F is a normal double, exactly 0 below.
+#[test]
+fn blackbody_fraction_deep_in_the_wien_tail() {
+    use bandtemp::planck::blackbody_fraction;
+    // mpmath 1.3 at 50 digits: 15/pi^4 sum_n e^(-n x) (x^3/n + 3x^2/n^2 + 6x/n^3 + 6/n^4),
+    // x = c2/(lambda T), c2 from CODATA 2018 exact h, c, k.
+    let normal = [
+        (19.9, 5.892_570_976_099_492e-307),
+        (20.0, 2.156_578_093_338_752_6e-305),
+        (20.3, 8.541_489_593_659_902e-301),
+        (21.0, 1.405_196_273_982_382e-290),
+        (25.0, 3.378_893_385_517_105_6e-243),
+    ];
+    for (lt, want) in normal {
+        let got = blackbody_fraction(lt).unwrap();
+        // The problem's own conditioning: d ln F / d ln(lambda T) is about x (720 here),
+        // so the half-ulp rounding of x = c2/(lambda T) alone allows x eps = 1.6e-13.
+        assert!(
+            ((got - want) / want).abs() < 1e-12,
+            "F({lt}) = {got:e}, mpmath {want:e}"
+        );
+    }
+    // mpmath: 2.2e-316 and 4.7e-316, not normal doubles: exactly 0, as documented.
+    assert_eq!(blackbody_fraction(19.317_823_465_028_834).unwrap(), 0.0);
+    assert_eq!(blackbody_fraction(19.337_141_288_493_86).unwrap(), 0.0);
+    // Non-decreasing in lambda T across the whole transition.
+    let mut previous = 0.0;
+    for i in 0..=4000 {
+        let lt = 19.0 + f64::from(i) * 1e-3;
+        let f = blackbody_fraction(lt).unwrap();
+        assert!(f >= previous, "F({lt}) = {f:e} < {previous:e}");
+        previous = f;
+    }
+}
+
+/// A scene whose weights are all the smallest subnormal (valid: each in its open
+/// interval): the sensor signal G L(T) + B underflowed to 0 and came out Ok(0), which no
+/// inversion can take back. Now it is `RadianceUnderflow`, as for the curve itself.
+#[test]
+fn sensor_signal_that_underflows_is_an_error() {
+    use bandtemp::scene::Scene;
+    let tiny = 5e-324;
+    let scene = Scene::new(tiny, tiny)
+        .and_then(|s| s.with_atmosphere(tiny, tiny))
+        .and_then(|s| s.with_window(tiny, tiny, tiny, tiny))
+        .unwrap();
+    let band = Band::rectangular(
+        2.225_073_858_507_201_4e-308,
+        11.913_456_070_741_98,
+        Detector::Energy,
+    )
+    .unwrap();
+    assert_eq!(
+        scene.sensor_signal(&band, 1_468.307_281_356_438_1),
+        Err(Error::RadianceUnderflow)
+    );
+    // A physical scene still delivers a normal signal that inverts (sanity of the check).
+    let usual = Scene::new(0.9, 295.0).unwrap();
+    let s = usual.sensor_signal(&band, 1_468.307_281_356_438_1).unwrap();
+    assert!((usual.object_temperature(&band, s).unwrap() - 1_468.307_281_356_438_1).abs() < 1e-6);
+}
+
+/// A Sakuma-Hattori curve where C/S overflows (S tiny against C): the inverse
+/// (c2 / ln(1 + C/S) - B) / A took ln(inf) and returned T = -B/A, the edge of the curve's
+/// domain, where the curve has no signal; and the forward C / (e^y - 1) gave 0
+/// (underflow) for y > 709.8 even where C e^-y is a normal double.
+#[test]
+fn sakuma_hattori_where_c_over_s_overflows() {
+    use bandtemp::band::SignalCurve;
+    use bandtemp::calibration::SakumaHattori;
+    let curve = SakumaHattori::new(2.774_509_803_921_568_5, -300.0, 1e10).unwrap();
+    // mpmath 1.3 at 50 digits, c2 from CODATA 2018 exact h, c, k:
+    // T(1e-300) = (c2 / ln(1 + 1e10/1e-300) + 300) / A.
+    let t = curve.temperature(1e-300).unwrap();
+    assert!((t - 115.392_111_202_117_28).abs() < 1e-12 * t, "T = {t}");
+    // S(115.33 K) = C / (e^y - 1), y = 719.96.
+    let s = curve.signal(115.33).unwrap();
+    let want = 2.122_287_001_635_182e-303;
+    // Conditioning: A T + B = 320 - 300 cancels 4 bits, and d ln S / d ln y = y = 720, so
+    // the inputs' rounding alone allows about 16 eps y = 1.3e-12.
+    assert!(
+        ((s - want) / want).abs() < 1e-11,
+        "S = {s:e}, mpmath {want:e}"
+    );
+    // And the round trip through both.
+    let back = curve.temperature(s).unwrap();
+    assert!((back - 115.33).abs() < 1e-12 * 115.33, "T = {back}");
+}
+
+/// A tabulated response of subnormal size (2.1e-314 at one point, zero elsewhere): the
+/// products response x integrand were subnormal, and band radiance -> inversion came back
+/// 1.2e-6 T off (78364 K -> 78364.1 K). Now such a response is `RadianceUnderflow`, and
+/// the same shape at a normal scale still inverts to 1e-9 T.
+#[test]
+fn subnormal_response_is_an_underflow_not_an_imprecise_radiance() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        7.008_548_854_633_943,
+        28.685_545_333_375_12,
+        29.995_412_907_105_973,
+    ];
+    let tiny = [2.105_321_952_4e-314, 0.0, 0.0];
+    let table = SpectralTable::new(&wl, &tiny).unwrap();
+    let band = Band::with_response(6.296_144_128_589_89, 1e6, Detector::Photon, table).unwrap();
+    let t = 78_364.189_662_175_2;
+    match band.radiance(t) {
+        Err(error) => assert_eq!(error, Error::RadianceUnderflow),
+        Ok(l) => {
+            let back = band.temperature(l).unwrap();
+            assert!((back - t).abs() <= 1e-9 * t, "{t} -> {l:e} -> {back}");
+        }
+    }
+    let unit = [1.0, 0.0, 0.0];
+    let table = SpectralTable::new(&wl, &unit).unwrap();
+    let band = Band::with_response(6.296_144_128_589_89, 1e6, Detector::Photon, table).unwrap();
+    let l = band.radiance(t).unwrap();
+    let back = band.temperature(l).unwrap();
+    assert!((back - t).abs() <= 1e-9 * t, "{t} -> {l:e} -> {back}");
+}
+
+/// Values spread over more than 1e154 overflow the running sum of squared deviations: the
+/// variance came out Ok(inf). Now it is `NonFinite`, and so is a Monte Carlo run whose
+/// model values do that.
+#[test]
+fn running_variance_that_overflows_is_an_error() {
+    use bandtemp::uncertainty::{monte_carlo, RunningStats, Xoshiro256StarStar};
+    let mut stats = RunningStats::new();
+    for x in [1e300, -1e300, 1e300] {
+        stats.push(x).unwrap();
+    }
+    assert_eq!(stats.variance(), Err(Error::NonFinite));
+    assert_eq!(stats.standard_deviation(), Err(Error::NonFinite));
+    let mut rng = Xoshiro256StarStar::seed_from_u64(7);
+    let mut samples = [0.0; 64];
+    let mut sign = 1.0;
+    let r = monte_carlo(&mut rng, &mut samples, 0.95, |_| {
+        sign = -sign;
+        Ok(sign * 1e300)
+    });
+    assert_eq!(r, Err(Error::NonFinite));
+    // An ordinary spread is unaffected: the sample variance of 1, 2, 3 is 1.
+    let mut stats = RunningStats::new();
+    for x in [1.0, 2.0, 3.0] {
+        stats.push(x).unwrap();
+    }
+    assert_eq!(stats.variance(), Ok(1.0));
+}
+
+/// Open finding (not yet fixed): a tabulated band whose overlap with its table holds a
+/// sliver (here the band edge 8.7e-11 um below the table node at 1.45 um) that carries
+/// most of the integral. The quadrature samples the response at nodes whose wavelengths
+/// round to 1 ulp, a relative position error of ulp/width = 1e-6 across the sliver, so the
+/// radiance is about 1e-6 off and the round trip T -> L -> T misses by 1.8 mK at 4000 K.
+/// A fix evaluates the response by position within the segment instead of by the rounded
+/// wavelength. The fuzz oracles skip such bands meanwhile (`FuzzBand::has_sliver`).
+#[test]
+#[ignore = "open finding: tabulated quadrature across a sliver segment (see the doc comment)"]
+fn sliver_between_band_edge_and_table_node_round_trips() {
+    use bandtemp::band::SpectralTable;
+    let wl = [3.064_968_409_935_597e-294, 0.5, 1.45, 1.6, 1.709_023_437_5];
+    let r = [
+        1.847_041_560_584_269_4e-289,
+        0.883_207_446_402_685_6,
+        5.623_882_336_451_941e-306,
+        0.0,
+        0.0,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(1.449_999_999_912_688_5, 1.8, Detector::Energy, table).unwrap();
+    let t = 4000.0;
+    let l = band.radiance(t).unwrap();
+    let back = band.temperature(l).unwrap();
+    assert!((back - t).abs() <= 1e-9 * t, "T {t} -> L {l:e} -> T {back}");
+}
