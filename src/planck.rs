@@ -22,6 +22,9 @@
 //! sum_n e^(-n x) / n * sum_j m!/(m-j)! x^(m-j) / n^j (all terms positive), for x < 2 by
 //! the Bernoulli-number expansion of t/(e^t - 1), convergent for |x| < 2 pi. Each regime
 //! uses the series that converges fast there; neither is truncated above 1e-17 relative.
+//! Band integrals (`moment_integral`) use instead fixed polynomial fits of the same
+//! functions (`moment_fit.rs`, from `tools/refgen/moment_fits.py`), so that a band radiance
+//! costs the same wherever the band lies: see `moment_end` for the pieces and their error.
 
 use crate::constants::{
     C1L_UM, C1P_UM, C2_UMK, STEFAN_BOLTZMANN_W_M2_K4, WIEN_B_PHOTON_UMK, WIEN_B_UMK, ZETA_3,
