@@ -43,3 +43,7 @@ cargo build --lib -p bandtemp-capi
 
 # Regenerate a sample of the stored reference vectors with mpmath and compare.
 "$python" tools/refgen/planck_refs.py --check
+
+# Refit the moment-integral polynomials (src/planck/moment_fit.rs) with mpmath, compare
+# the coefficients, and check the stored ones on a seeded sample (about 15 s).
+"$python" tools/refgen/moment_fits.py --check

@@ -14,16 +14,20 @@
 //!
 //! Method. With x = c2/(lambda T) the integral becomes c1 T^(m+1)/c2^(m+1) times an
 //! integral of r(lambda(x)) x^m/(e^x - 1) dx (m = 3 energy, 2 photon).
-//! - Rectangular band: a band no wider than 1 in x is one Gauss-Legendre panel of 4, 6 or
-//!   8 nodes by its width; a wider one uses the closed-form series for the moment
-//!   integrals ([`crate::planck`]), choosing the difference that cannot cancel (or 8-point
-//!   panels of width <= 1 where neither does). Relative error below 1e-13 against mpmath
-//!   (`tests/reference_band.rs`: worst 6.3e-14 over 726 cases in 0.3-30 um, 150-4000 K).
+//! - Rectangular band, at a cost that does not depend on where the band lies: a band no
+//!   wider than 0.25 in x (and not reaching near x = 0) is one Gauss-Legendre panel of 4
+//!   or 6 nodes sharing one exponential; a wider one takes differences of the moment
+//!   integrals at its ends, evaluated from fixed polynomial fits (generated with mpmath
+//!   by `tools/refgen/moment_fits.py`) with one exponential per end, choosing the
+//!   difference of the smaller operands ([`crate::planck`]). Relative error below 1e-13
+//!   against mpmath (`tests/reference_band.rs`: worst 2.6e-14 over 726 cases in 0.3-30 um,
+//!   150-4000 K).
 //! - Tabulated response or extra spectral weights: Gauss-Legendre in x on panels split at
 //!   every table node, no wider than 1 in x and no wider than their own lower edge (which
 //!   keeps the pole of r(lambda(x)) at x = 0 far away), 4 to 12 nodes by the panel's
 //!   width; relative error below 1e-13 against mpmath on the interpolated response
-//!   (worst 1e-14 over 120 cases).
+//!   (worst 1e-14 over 120 cases). A band's own response is walked segment by segment
+//!   (no table search per node).
 
 use crate::constants::{C1L_UM, C1P_UM, C2_UMK};
 use crate::error::{check_temperature_k, finite, Error, Result};
@@ -384,13 +388,7 @@ impl<'a> Band<'a> {
             }
             Some(response) => {
                 let bound = response.max_value();
-                let (i, d, d2) = self.panels(
-                    t,
-                    &[response],
-                    None,
-                    |lambda_um| response.value_at(lambda_um),
-                    Some(bound),
-                );
+                let (i, d, d2) = self.response_panels(t, response);
                 (i, d, d2, MIN_RESOLVED_TABULATED_INTEGRAL * bound.max(1e-7))
             }
         };
@@ -497,6 +495,60 @@ impl<'a> Band<'a> {
                 x = next;
             }
             upper_um = lower_um;
+        }
+        (sum, sum_derivative, sum_second)
+    }
+
+    /// [`Band::panels`] for the band's own response alone, walking the table's segments
+    /// in order instead of searching the table for every panel and node: on a segment
+    /// [w0, w1] the response is v0 + (lambda - w0) (v1 - v0)/(w1 - w0), the same linear
+    /// interpolation as [`SpectralTable::value_at`] (to a rounding), and the panels, rules
+    /// and Wien-tail cut are those of [`Band::panels`].
+    fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
+        let m = self.detector.moment();
+        let bound = response.max_value();
+        let c2_over_t = C2_UMK / t;
+        let mut sum = 0.0;
+        let mut sum_derivative = 0.0;
+        let mut sum_second = 0.0;
+        let segments = response
+            .wavelengths_um
+            .windows(2)
+            .zip(response.values.windows(2))
+            .rev();
+        for (wavelengths, values) in segments {
+            let (&[w0, w1], &[v0, v1]) = (wavelengths, values) else {
+                continue;
+            };
+            let upper_um = w1.min(self.hi_um);
+            let lower_um = w0.max(self.lo_um);
+            if w1 <= self.lo_um {
+                break;
+            }
+            if upper_um <= lower_um {
+                continue;
+            }
+            let slope = (v1 - v0) / (w1 - w0);
+            let mut x = C2_UMK / (upper_um * t);
+            let x_end = C2_UMK / (lower_um * t);
+            if !(x > 0.0) {
+                // upper_um * t overflowed: so does the radiance.
+                return (f64::INFINITY, f64::INFINITY, f64::INFINITY);
+            }
+            while x < x_end {
+                if x > X_INTEGRAND_ZERO || (x > 4.0 && bound * tail_bound(m, x) <= 1e-18 * sum) {
+                    // Every remaining integrand value is zero in double precision, or
+                    // the rest of the band is below 1e-18 of the sum.
+                    return (sum, sum_derivative, sum_second);
+                }
+                let next = (x + 1.0).min(2.0 * x).min(x_end);
+                let (s, d, d2) =
+                    weighted_gauss_panel(m, x, next - x, |xi| v0 + (c2_over_t / xi - w0) * slope);
+                sum += s;
+                sum_derivative += d;
+                sum_second += d2;
+                x = next;
+            }
         }
         (sum, sum_derivative, sum_second)
     }
