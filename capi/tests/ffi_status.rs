@@ -92,6 +92,17 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::FrameCoefficientOverflow, 709),
     (bt_status::FrameEmissivityMapUnavailable, 710),
     (bt_status::FrameCurveMismatch, 711),
+    (bt_status::NucStackEmpty, 800),
+    (bt_status::NucFrameEmpty, 801),
+    (bt_status::NucGeometryInvalid, 802),
+    (bt_status::NucNoGoodPixels, 803),
+    (bt_status::NucLevelsNotDistinct, 804),
+    (bt_status::NucMapInvalid, 805),
+    (bt_status::BadPixelRulesInvalid, 806),
+    (bt_status::DriftTooFewPoints, 807),
+    (bt_status::DriftPointInvalid, 808),
+    (bt_status::DriftIllConditioned, 809),
+    (bt_status::MeritInputInvalid, 810),
 ];
 
 fn message(raw: c_int) -> &'static str {
