@@ -412,11 +412,15 @@ impl<'m> Correction<'m> {
         if offset.len() != len || bad.len() != len {
             return Err(Error::FrameLengthMismatch);
         }
-        let mut ok = true;
+        // Branch-free so that the check vectorises: a finite positive gain is below
+        // infinity and above zero (NaN fails both), a finite offset has |o| < infinity.
+        let mut ok = 1u32;
+        #[allow(clippy::needless_bitwise_bool)]
         for ((&g, &o), &f) in gain.iter().zip(offset).zip(bad) {
-            ok &= f != 0 || (g.is_finite() && g > 0.0 && o.is_finite());
+            let good_map = (g > 0.0) & (g < f32::INFINITY) & (o.abs() < f32::INFINITY);
+            ok &= u32::from(good_map | (f != 0));
         }
-        if !ok {
+        if ok == 0 {
             return Err(Error::NucMapInvalid);
         }
         Ok(Correction {
