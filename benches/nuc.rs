@@ -51,7 +51,7 @@ fn nuc(c: &mut Criterion) {
     let mut o = Vec::with_capacity(n);
     let mut bad = vec![0u8; n];
     let mut counts = Vec::with_capacity(n);
-    for p in 0..n {
+    for (p, flag) in bad.iter_mut().enumerate() {
         let (x, y) = (
             (p % WIDTH) as f64 / WIDTH as f64,
             (p / WIDTH) as f64 / HEIGHT as f64,
@@ -66,7 +66,7 @@ fn nuc(c: &mut Criterion) {
         g.push(gp as f32);
         o.push(op as f32);
         if next(&mut state) < 1e-3 {
-            bad[p] = 1;
+            *flag = 1;
         }
     }
     let correction = Correction::new(&g, &o, &bad, WIDTH)
