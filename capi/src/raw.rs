@@ -714,10 +714,12 @@ pub unsafe extern "C" fn bt_frame_convert_counts_corrected(
                 read_state(converter)?,
                 rows_from_c(table, table_rows)?,
             )?;
+            // Checked by `with_step` below, after the maps (the Rust API's order).
             let step = if step.is_null() {
                 DriftStep::IDENTITY
             } else {
-                read_step(step)?
+                let s = read_input(step)?;
+                DriftStep { a: s.a, b: s.b }
             };
             let g = slice_from_c(gain, len)?;
             let o = slice_from_c(offset, len)?;

@@ -131,8 +131,8 @@ pub fn prnu(dark: &SpatialStats, bright: &SpatialStats) -> Result<f64> {
 /// [`crate::frame::DriftModel::at`] and the curve's derivative).
 ///
 /// # Errors
-/// [`Error::MeritInputInvalid`] for a negative variance or a responsivity that is not
-/// finite and positive; [`Error::NonFinite`].
+/// [`Error::MeritInputInvalid`] for a negative variance, a responsivity that is not
+/// finite and positive, or a quotient that overflows; [`Error::NonFinite`].
 pub fn netd_k(temporal_variance: f64, responsivity_counts_per_k: f64) -> Result<f64> {
     if temporal_variance.is_nan() || responsivity_counts_per_k.is_nan() {
         return Err(Error::NonFinite);
@@ -142,7 +142,13 @@ pub fn netd_k(temporal_variance: f64, responsivity_counts_per_k: f64) -> Result<
     if !(variance_ok && slope_ok) {
         return Err(Error::MeritInputInvalid);
     }
-    Ok(libm::sqrt(temporal_variance) / responsivity_counts_per_k)
+    let netd = libm::sqrt(temporal_variance) / responsivity_counts_per_k;
+    if netd.is_finite() {
+        Ok(netd)
+    } else {
+        // A subnormal responsivity: the quotient overflows.
+        Err(Error::MeritInputInvalid)
+    }
 }
 
 /// Residual fixed-pattern noise, K: sqrt of the corrected spatial variance (clamped at 0
