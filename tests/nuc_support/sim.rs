@@ -123,8 +123,13 @@ impl Camera {
 
     /// Noise-free counts of pixel p (before quantisation).
     pub fn ideal(&self, p: usize, radiance: f64, fpa_k: f64, internal_k: f64) -> f64 {
-        let dt = fpa_k - REFERENCE_FPA_K;
         let internal = self.band.signal(internal_k).unwrap();
+        self.ideal_with(p, radiance, fpa_k, internal)
+    }
+
+    /// As [`Camera::ideal`] with the internal radiance L(T_int) given.
+    fn ideal_with(&self, p: usize, radiance: f64, fpa_k: f64, internal: f64) -> f64 {
+        let dt = fpa_k - REFERENCE_FPA_K;
         self.gain[p] * (1.0 + ALPHA * dt) * (radiance - internal)
             + self.offset[p]
             + (OFFSET_DRIFT + self.slope[p]) * dt
@@ -133,12 +138,13 @@ impl Camera {
 
     /// One raw frame: `radiance[p]` the scene radiance at pixel p.
     pub fn frame(&mut self, radiance: &[f64], fpa_k: f64, internal_k: f64) -> Vec<u16> {
+        let internal = self.band.signal(internal_k).unwrap();
         (0..WIDTH * HEIGHT)
             .map(|p| match self.defect[p] {
                 Defect::Dead => 0,
                 Defect::Stuck => 12_345,
                 _ => {
-                    let n = self.ideal(p, radiance[p], fpa_k, internal_k)
+                    let n = self.ideal_with(p, radiance[p], fpa_k, internal)
                         + self.noise[p] * self.rng.normal();
                     n.round().clamp(0.0, 65535.0) as u16
                 }
