@@ -77,7 +77,7 @@
  * Values are explicit and never reused: a retired status keeps its number unused. They
  * are grouped by the layer that raises them first (1-99 general and C ABI, 100 planck,
  * 200 band, 300 scene, 400 calibration, 500 uncertainty and ratio, 600 atmosphere,
- * 700 frame), so that layers can add codes independently.
+ * 700 frame, 800 frame non-uniformity), so that layers can add codes independently.
  */
 typedef enum {
     /**
@@ -535,6 +535,50 @@ typedef enum {
      * A calibration fit was given more than 256 points (the limit bounds its time).
      */
     BT_STATUS_CALIBRATION_TOO_MANY_POINTS = 1300,
+    /**
+     * A frame stack with fewer frames than the estimate needs (one for a mean, two for a temporal variance).
+     */
+    BT_STATUS_NUC_STACK_EMPTY = 800,
+    /**
+     * An empty frame (no pixels) where calibration frames are required.
+     */
+    BT_STATUS_NUC_FRAME_EMPTY = 801,
+    /**
+     * A frame width of zero, or a pixel count that is not a whole number of rows.
+     */
+    BT_STATUS_NUC_GEOMETRY_INVALID = 802,
+    /**
+     * Every pixel is flagged bad: no array mean, no map, no replacement can be formed.
+     */
+    BT_STATUS_NUC_NO_GOOD_PIXELS = 803,
+    /**
+     * A pixel not flagged bad, or the array mean, whose high-level signal is not above its low-level signal: two-point correction needs a response.
+     */
+    BT_STATUS_NUC_LEVELS_NOT_DISTINCT = 804,
+    /**
+     * A correction map value that is not finite, or a gain that is not positive, at a pixel not flagged bad.
+     */
+    BT_STATUS_NUC_MAP_INVALID = 805,
+    /**
+     * Bad-pixel rules with a threshold that is not finite and positive.
+     */
+    BT_STATUS_BAD_PIXEL_RULES_INVALID = 806,
+    /**
+     * Too few drift calibration points for the polynomial degree (degree + 1 needed), or a degree above 2.
+     */
+    BT_STATUS_DRIFT_TOO_FEW_POINTS = 807,
+    /**
+     * A drift calibration point with a non-finite value, non-positive temperatures, or blackbody levels that do not give a positive response.
+     */
+    BT_STATUS_DRIFT_POINT_INVALID = 808,
+    /**
+     * Drift calibration points whose array temperatures are too close together to fit the polynomial.
+     */
+    BT_STATUS_DRIFT_ILL_CONDITIONED = 809,
+    /**
+     * A figure-of-merit input that is out of its domain (a non-positive responsivity, a negative variance, fewer than two good pixels).
+     */
+    BT_STATUS_MERIT_INPUT_INVALID = 810,
 } bt_status;
 
 /**
@@ -1492,6 +1536,205 @@ typedef struct {
      */
     bt_site_line ranked[BT_SITE_BUDGET_MAX_LINES];
 } bt_site_budget;
+
+/**
+ * A read-only view of a frame stack kept by the caller: `len` per-pixel means and sums
+ * of squared deviations (as `bt_frame_stack_add_counts` leaves them) after `frames`
+ * frames.
+ */
+typedef struct {
+    /**
+     * Per-pixel means; `len` doubles.
+     */
+    const double *mean;
+    /**
+     * Per-pixel sums of squared deviations from the mean; `len` doubles.
+     */
+    const double *m2;
+    /**
+     * Pixels.
+     */
+    size_t len;
+    /**
+     * Frames accumulated (>= 1).
+     */
+    uint32_t frames;
+} bt_stack_view;
+
+/**
+ * Two-point maps' array means and good-pixel count.
+ */
+typedef struct {
+    /**
+     * <S_L>, counts.
+     */
+    double mean_low;
+    /**
+     * <S_H>, counts.
+     */
+    double mean_high;
+    /**
+     * Pixels not flagged bad.
+     */
+    uint64_t good_pixels;
+} bt_two_point_report;
+
+/**
+ * Thresholds of the bad-pixel rules (common practice; no standard sets them).
+ */
+typedef struct {
+    /**
+     * Robust sigmas beyond which response or offset is bad (e.g. 5).
+     */
+    double k_sigma;
+    /**
+     * Multiple of the median temporal sigma beyond which a pixel is noisy (e.g. 3).
+     */
+    double noise_factor;
+    /**
+     * Fraction of the median response at or below which a pixel is stuck (e.g. 0.2).
+     */
+    double stuck_fraction;
+} bt_bad_pixel_rules;
+
+/**
+ * Pixels each rule flagged, and pixels bad in the map afterwards. Flags: 1 stuck,
+ * 2 gain, 4 offset, 8 noisy, 128 set by the caller.
+ */
+typedef struct {
+    /**
+     * Stuck pixels found (flag 1).
+     */
+    uint64_t stuck;
+    /**
+     * Gain outliers found (flag 2).
+     */
+    uint64_t gain;
+    /**
+     * Offset outliers found (flag 4).
+     */
+    uint64_t offset;
+    /**
+     * Noisy pixels found (flag 8).
+     */
+    uint64_t noisy;
+    /**
+     * Pixels with a nonzero byte after detection.
+     */
+    uint64_t bad;
+} bt_bad_pixel_report;
+
+/**
+ * The per-frame affine step x' = a x + b on corrected counts (the drift correction in
+ * force); a = 1, b = 0 without one.
+ */
+typedef struct {
+    /**
+     * a (> 0).
+     */
+    float a;
+    /**
+     * b, counts.
+     */
+    float b;
+} bt_drift_step;
+
+/**
+ * One drift calibration point (see the Rust `frame::DriftPoint`).
+ */
+typedef struct {
+    /**
+     * Array temperature, K.
+     */
+    double fpa_k;
+    /**
+     * Internal (housing and lens) temperature, K.
+     */
+    double internal_k;
+    /**
+     * Low blackbody temperature, K.
+     */
+    double low_k;
+    /**
+     * High blackbody temperature, K.
+     */
+    double high_k;
+    /**
+     * Array-mean corrected counts at the low blackbody.
+     */
+    double low_counts;
+    /**
+     * Array-mean corrected counts at the high blackbody.
+     */
+    double high_counts;
+} bt_drift_point;
+
+/**
+ * Responsivity R(T) = sum r_i (T - T_ref)^i and offset O(T) = sum o_i (T - T_ref)^i
+ * of the array temperature, degree 0..2.
+ */
+typedef struct {
+    /**
+     * T_ref, K.
+     */
+    double reference_k;
+    /**
+     * Degree, 0..2.
+     */
+    uint32_t degree;
+    /**
+     * r_0, r_1, r_2 (counts per unit of band radiance, per K^i).
+     */
+    double responsivity[3];
+    /**
+     * o_0, o_1, o_2 (counts per K^i).
+     */
+    double offset[3];
+} bt_drift_model;
+
+/**
+ * Tally of a corrected conversion.
+ */
+typedef struct {
+    /**
+     * Every pixel's outcome (an unreplaceable bad pixel counts as dead).
+     */
+    bt_frame_summary frame;
+    /**
+     * Bad pixels replaced by the mean of their good neighbours.
+     */
+    uint64_t bad_replaced;
+    /**
+     * Bad pixels with no good neighbour (NaN, counted as dead).
+     */
+    uint64_t bad_unreplaced;
+} bt_corrected_summary;
+
+/**
+ * Spatial statistics of a stack's mean frame (EMVA 1288 Release 4.0).
+ */
+typedef struct {
+    /**
+     * Mean of the good pixels' means.
+     */
+    double mean;
+    /**
+     * Mean temporal variance per frame, counts^2.
+     */
+    double temporal_variance;
+    /**
+     * Spatial variance of the averaged frame, counts^2.
+     */
+    double spatial_variance_measured;
+    /**
+     * Spatial variance corrected for the temporal noise left in the average, counts^2.
+     */
+    double spatial_variance;
+    /**
+     * Good pixels used.
+     */
+    uint64_t pixels;
+} bt_spatial_stats;
 
 #ifdef __cplusplus
 extern "C" {
@@ -3206,6 +3449,286 @@ bt_status bt_direct_reflected_budget(const bt_band *band,
                                      double u_calibration_k,
                                      double u_spread_k,
                                      bt_site_budget *out);
+
+/**
+ * Adds a frame of u16 counts to a stack kept in caller storage: `mean` and `m2` (`len`
+ * doubles each) and the frame count `*frames`. With `*frames == 0` the stack starts
+ * afresh (the buffers are zeroed first). Welford's update: exact to double rounding at
+ * any depth. On success `*frames` is incremented.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER` (misaligned, impossible
+ * length, overlapping buffers), `BT_STATUS_NUC_FRAME_EMPTY` (len 0),
+ * `BT_STATUS_FRAME_LENGTH_MISMATCH`, `BT_STATUS_NON_FINITE` (a stored value is not
+ * finite), `BT_STATUS_MERIT_INPUT_INVALID` (a stored m2 is negative),
+ * `BT_STATUS_TOO_MANY_INPUTS` (frame count overflow). On error nothing is written.
+ *
+ * # Safety
+ * `mean`, `m2` null or valid for reads and writes of `len` doubles; `frames` null or
+ * valid for reads and writes of a uint32_t; `frame` null or valid for reading
+ * `frame_len` values.
+ */
+bt_status bt_frame_stack_add_counts(double *mean,
+                                    double *m2,
+                                    size_t len,
+                                    uint32_t *frames,
+                                    const uint16_t *frame,
+                                    size_t frame_len);
+
+/**
+ * As `bt_frame_stack_add_counts` for a frame of floats (counts or signal); a NaN or
+ * infinite value is `BT_STATUS_NON_FINITE` and leaves the stack unchanged.
+ *
+ * # Safety
+ * As `bt_frame_stack_add_counts`.
+ */
+bt_status bt_frame_stack_add_signal(double *mean,
+                                    double *m2,
+                                    size_t len,
+                                    uint32_t *frames,
+                                    const float *frame,
+                                    size_t frame_len);
+
+/**
+ * Two-point NUC maps from averaged low- and high-level flat-field stacks: gain
+ * G = (<S_H> - <S_L>) / (S_H - S_L) and offset O = <S_L> - G S_L per pixel (Perry &
+ * Dereniak 1993), means over the pixels whose `bad` byte is 0 (`bad` NULL: all pixels);
+ * bad pixels get G = 1, O = 0. Corrected counts are x = G n + O.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_NUC_STACK_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`,
+ * `BT_STATUS_NUC_NO_GOOD_PIXELS`, `BT_STATUS_NUC_LEVELS_NOT_DISTINCT` (a good pixel
+ * does not respond: flag it bad first), `BT_STATUS_NON_FINITE`. On error nothing is
+ * written.
+ *
+ * # Safety
+ * `low`, `high` null or valid views; `bad` null or valid for reading `bad_len` bytes;
+ * `gain`, `offset` null or valid for writing `maps_len` floats; `out` null or valid for
+ * writing a `bt_two_point_report`.
+ */
+bt_status bt_nuc_two_point(const bt_stack_view *low,
+                           const bt_stack_view *high,
+                           const uint8_t *bad,
+                           size_t bad_len,
+                           float *gain,
+                           float *offset,
+                           size_t maps_len,
+                           bt_two_point_report *out);
+
+/**
+ * Flags bad pixels from the low- and high-level stacks (each of at least two frames):
+ * stuck (response <= stuck_fraction x median, flag 1), gain or offset beyond k_sigma
+ * robust sigmas of the median (flags 2 and 4), temporal noise above noise_factor x the
+ * median (flag 8). Flags are OR-ed into `bad` (`len` bytes), keeping those already set.
+ * `scratch` (`len` floats) is working storage. The rules are common practice, not a
+ * standard.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_NUC_STACK_EMPTY` (fewer than two frames), `BT_STATUS_FRAME_LENGTH_MISMATCH`,
+ * `BT_STATUS_BAD_PIXEL_RULES_INVALID`, `BT_STATUS_NON_FINITE`. On error `bad` and `out`
+ * are untouched (`scratch` may be overwritten).
+ *
+ * # Safety
+ * `low`, `high` null or valid views; `rules` null or valid for reading; `scratch` null
+ * or valid for writing `len` floats; `bad` null or valid for reading and writing `len`
+ * bytes; `out` null or valid for writing a `bt_bad_pixel_report`.
+ */
+bt_status bt_bad_pixels_detect(const bt_stack_view *low,
+                               const bt_stack_view *high,
+                               const bt_bad_pixel_rules *rules,
+                               float *scratch,
+                               uint8_t *bad,
+                               size_t len,
+                               bt_bad_pixel_report *out);
+
+/**
+ * Shutter (flag) offset refresh: with the shutter closed, every good pixel's corrected
+ * counts x' = a (G n_sh + O) + b should equal `target_counts`
+ * (`bt_nuc_shutter_target_band`), so O = (target - b) / a - G n_sh, the shutter stack's
+ * mean n_sh. Gains are kept; bad pixels' offsets are left alone.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_NUC_STACK_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_NUC_MAP_INVALID` (a step with a <= 0 or non-finite). On error `offset` is
+ * untouched.
+ *
+ * # Safety
+ * `shutter` null or a valid view; `gain` null or valid for reading `maps_len` floats;
+ * `bad` null or valid for reading `bad_len` bytes; `step` null or valid for reading;
+ * `offset` null or valid for reading and writing `maps_len` floats.
+ */
+bt_status bt_nuc_shutter_refresh(const bt_stack_view *shutter,
+                                 const float *gain,
+                                 const uint8_t *bad,
+                                 size_t bad_len,
+                                 double target_counts,
+                                 const bt_drift_step *step,
+                                 float *offset,
+                                 size_t maps_len);
+
+/**
+ * Corrected counts x' that a blackbody at `shutter_k` produces for a band converter
+ * with counts map S = counts_gain x' + counts_offset: (L(shutter_k) - counts_offset) /
+ * counts_gain, L the exact band radiance.
+ *
+ * Errors: those of `bt_band_radiance`, `BT_STATUS_FRAME_COUNTS_MAP_INVALID`.
+ *
+ * # Safety
+ * `band` null or valid for reading a `bt_band`; `out` null or valid for writing.
+ */
+bt_status bt_nuc_shutter_target_band(const bt_band *band,
+                                     double counts_gain,
+                                     double counts_offset,
+                                     double shutter_k,
+                                     double *out);
+
+/**
+ * Fits the array-temperature drift model (responsivity and offset polynomials of
+ * `degree` 0..2 in T_fpa, with the internal temperature's self-emission through the
+ * exact band radiance) from `n` points (degree + 1 to 64).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`, those of `bt_band`,
+ * `BT_STATUS_DRIFT_TOO_FEW_POINTS`, `BT_STATUS_DRIFT_POINT_INVALID`,
+ * `BT_STATUS_DRIFT_ILL_CONDITIONED`. On error `out` is untouched.
+ *
+ * # Safety
+ * `band` null or valid; `points` null or valid for reading `n` points; `out` null or
+ * valid for writing a `bt_drift_model`.
+ */
+bt_status bt_drift_fit_band(const bt_band *band,
+                            const bt_drift_point *points,
+                            size_t n,
+                            uint32_t degree,
+                            bt_drift_model *out);
+
+/**
+ * The drift step x' = a x + b at array temperature `fpa_k` and internal temperature
+ * `internal_k` for a band converter with counts map S = counts_gain x' + counts_offset:
+ * a = 1 / (g R), b = -(D / R + o) / g with D = O(T_fpa) - R(T_fpa) L(T_int).
+ *
+ * Errors: those of `bt_band`, `BT_STATUS_FRAME_COUNTS_MAP_INVALID`,
+ * `BT_STATUS_NON_FINITE`, `BT_STATUS_TEMPERATURE_NOT_POSITIVE`,
+ * `BT_STATUS_DRIFT_POINT_INVALID` (responsivity not positive there),
+ * `BT_STATUS_DRIFT_TOO_FEW_POINTS` (degree > 2), `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW`.
+ *
+ * # Safety
+ * `model`, `band` null or valid for reading; `out` null or valid for writing.
+ */
+bt_status bt_drift_step_band(const bt_drift_model *model,
+                             const bt_band *band,
+                             double counts_gain,
+                             double counts_offset,
+                             double fpa_k,
+                             double internal_k,
+                             bt_drift_step *out);
+
+/**
+ * Converts a raw frame of counts to object temperature in K in one pass: two-point maps
+ * (`gain`, `offset`), the drift step (`step`; NULL: none), bad-pixel replacement by the
+ * mean of the good 8-neighbours (`bad`, nonzero = bad), then the converter's scene and
+ * table, as `bt_frame_convert_counts` for a uniform scene. Rails apply to the raw
+ * counts. The maps are checked on every call (gain finite and positive, offset finite at
+ * good pixels).
+ *
+ * Errors: those of `bt_frame_convert_counts`, `BT_STATUS_NUC_GEOMETRY_INVALID` (width 0
+ * or not dividing the length), `BT_STATUS_NUC_MAP_INVALID`. On error neither `kelvin`
+ * nor `summary` is written.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts`; `gain`, `offset` null or valid for reading `len` floats,
+ * `bad` for reading `len` bytes, `counts` `len` values, `kelvin` for writing `len`
+ * floats; `step` null or valid for reading.
+ */
+bt_status bt_frame_convert_counts_corrected(const bt_frame_converter *converter,
+                                            const bt_frame_row *table,
+                                            size_t table_rows,
+                                            const float *gain,
+                                            const float *offset,
+                                            const uint8_t *bad,
+                                            size_t width,
+                                            const bt_drift_step *step,
+                                            const uint16_t *counts,
+                                            float *kelvin,
+                                            size_t len,
+                                            bt_corrected_summary *summary);
+
+/**
+ * Spatial statistics of a stack's mean frame (EMVA 1288 Release 4.0): mean, temporal
+ * variance, measured spatial variance and the spatial variance corrected for the
+ * temporal noise left in the average (s^2 = s_meas^2 - sigma^2 / L), over the pixels
+ * whose `bad` byte is 0 (`bad` NULL: all). With `gain` and `offset` both non-NULL the
+ * statistics are of the corrected frame G y + O (the residual non-uniformity after
+ * NUC); both NULL: of the raw frame. DSNU = sqrt(spatial_variance) of a dark stack;
+ * PRNU = sqrt(s_50^2 - s_dark^2) / (mu_50 - mu_dark).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER` (one map given without the other),
+ * `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NUC_STACK_EMPTY` (fewer than two frames),
+ * `BT_STATUS_FRAME_LENGTH_MISMATCH`, `BT_STATUS_MERIT_INPUT_INVALID` (fewer than two
+ * good pixels), `BT_STATUS_NON_FINITE`.
+ *
+ * # Safety
+ * `stack` null or a valid view; `bad` null or valid for reading `len` bytes; `gain`,
+ * `offset` null or valid for reading `len` floats; `out` null or valid for writing.
+ */
+bt_status bt_frame_spatial_stats(const bt_stack_view *stack,
+                                 const uint8_t *bad,
+                                 const float *gain,
+                                 const float *offset,
+                                 size_t len,
+                                 bt_spatial_stats *out);
+
+/**
+ * Temporal NETD, K: sqrt(temporal_variance) / responsivity_counts_per_k.
+ *
+ * Errors: `BT_STATUS_NON_FINITE`, `BT_STATUS_MERIT_INPUT_INVALID` (negative variance,
+ * responsivity not finite and positive).
+ *
+ * # Safety
+ * `out` null or valid for writing a double.
+ */
+bt_status bt_netd_k(double temporal_variance, double responsivity_counts_per_k, double *out);
+
+/**
+ * Net signal of a detector exchanging radiation with a grey object and its own housing:
+ * e L(T_o) + (1 - e) L(T_r) - L(T_int), W m^-2 sr^-1 (exact band radiance; zero when
+ * all three temperatures are equal).
+ *
+ * Errors: those of `bt_band_radiance`, `BT_STATUS_EMISSIVITY_OUT_OF_RANGE`.
+ *
+ * # Safety
+ * `band` null or valid; `out` null or valid for writing.
+ */
+bt_status bt_net_signal_band(const bt_band *band,
+                             double emissivity,
+                             double object_k,
+                             double reflected_k,
+                             double internal_k,
+                             double *out);
+
+/**
+ * Inverse of `bt_net_signal_band`: the object temperature, K.
+ *
+ * Errors: those of `bt_net_signal_band` and `bt_band_temperature`.
+ *
+ * # Safety
+ * As `bt_net_signal_band`.
+ */
+bt_status bt_object_from_net_signal_band(const bt_band *band,
+                                         double net,
+                                         double emissivity,
+                                         double reflected_k,
+                                         double internal_k,
+                                         double *object_k);
+
+/**
+ * Effective exponent d ln L / d ln T = T L'(T) / L(T) of the band radiance at
+ * `temperature_k` (about 4.58 for 8-14 um at 300 K; 4 for the total radiance).
+ *
+ * Errors: those of `bt_band_radiance`.
+ *
+ * # Safety
+ * `band` null or valid; `out` null or valid for writing.
+ */
+bt_status bt_effective_exponent_band(const bt_band *band, double temperature_k, double *out);
 
 #ifdef __cplusplus
 }  // extern "C"

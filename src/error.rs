@@ -276,6 +276,30 @@ pub enum Error {
     /// A calibration fit was given more points than it accepts
     /// ([`crate::calibration::MAX_FIT_POINTS`]); the limit bounds the fit's time.
     CalibrationTooManyPoints,
+
+    // ---- frame: non-uniformity, bad pixels, drift, figures of merit ------------------------
+    /// A frame stack with fewer frames than the estimate needs (one for a mean, two for a temporal variance).
+    NucStackEmpty,
+    /// An empty frame (no pixels) where calibration frames are required.
+    NucFrameEmpty,
+    /// A frame width of zero, or a pixel count that is not a whole number of rows.
+    NucGeometryInvalid,
+    /// Every pixel is flagged bad: no array mean, no map, no replacement can be formed.
+    NucNoGoodPixels,
+    /// A pixel not flagged bad, or the array mean, whose high-level signal is not above its low-level signal: two-point correction needs a response.
+    NucLevelsNotDistinct,
+    /// A correction map value that is not finite, or a gain that is not positive, at a pixel not flagged bad.
+    NucMapInvalid,
+    /// Bad-pixel rules with a threshold that is not finite and positive.
+    BadPixelRulesInvalid,
+    /// Too few drift calibration points for the polynomial degree (degree + 1 needed), or a degree above 2.
+    DriftTooFewPoints,
+    /// A drift calibration point with a non-finite value, non-positive temperatures, or blackbody levels that do not give a positive response.
+    DriftPointInvalid,
+    /// Drift calibration points whose array temperatures are too close together to fit the polynomial.
+    DriftIllConditioned,
+    /// A figure-of-merit input that is out of its domain (a non-positive responsivity, a negative variance, fewer than two good pixels).
+    MeritInputInvalid,
 }
 
 impl Error {
@@ -453,6 +477,18 @@ impl Error {
             Error::CalibrationTooManyPoints => {
                 "a calibration fit accepts at most 256 points (MAX_FIT_POINTS)"
             }
+            // frame: non-uniformity, bad pixels, drift, figures of merit
+            Error::NucStackEmpty => "a frame stack has too few frames for this estimate",
+            Error::NucFrameEmpty => "calibration frames must hold at least one pixel",
+            Error::NucGeometryInvalid => "frame width must be positive and divide the pixel count",
+            Error::NucNoGoodPixels => "every pixel is flagged bad",
+            Error::NucLevelsNotDistinct => "high-level calibration signal must exceed the low level for every good pixel",
+            Error::NucMapInvalid => "correction map gain must be finite and positive, offset finite, at good pixels",
+            Error::BadPixelRulesInvalid => "bad-pixel thresholds must be finite and positive",
+            Error::DriftTooFewPoints => "drift fit needs degree + 1 points and a degree of at most 2",
+            Error::DriftPointInvalid => "drift point needs finite values, positive temperatures and a positive response",
+            Error::DriftIllConditioned => "drift points' array temperatures are too close together for the fit",
+            Error::MeritInputInvalid => "figure-of-merit input out of domain",
         }
     }
 }

@@ -189,7 +189,7 @@ unsafe fn read_rails(rails: *const bt_rails) -> Result<Rails> {
 ///
 /// # Safety
 /// `converter` is null or valid for reads of a `bt_frame_converter`.
-unsafe fn read_state(converter: *const bt_frame_converter) -> Result<ConverterState> {
+pub(super) unsafe fn read_state(converter: *const bt_frame_converter) -> Result<ConverterState> {
     // SAFETY: the caller's guarantee; the state fits the converter's bytes and alignment
     // (compile-time asserts above) and is made of f64, f32, u32 and u16 fields only, every
     // bit pattern of which is valid (padding bytes are not read as values).
@@ -200,7 +200,10 @@ unsafe fn read_state(converter: *const bt_frame_converter) -> Result<ConverterSt
 ///
 /// # Safety
 /// As `slice_from_c`.
-unsafe fn rows_from_c<'a>(table: *const bt_frame_row, rows: usize) -> Result<&'a [TableRow]> {
+pub(super) unsafe fn rows_from_c<'a>(
+    table: *const bt_frame_row,
+    rows: usize,
+) -> Result<&'a [TableRow]> {
     // SAFETY: the caller's guarantee; `bt_frame_row` and `TableRow` have one layout
     // (compile-time asserts above).
     unsafe { slice_from_c(table.cast::<TableRow>(), rows) }
@@ -530,7 +533,7 @@ pub unsafe extern "C" fn bt_frame_converter_geometry(
 }
 
 /// Does the half-open byte range of `a` (len `a_len` of `A`) meet that of `b`?
-fn overlaps<A, B>(a: *const A, a_len: usize, b: *const B, b_len: usize) -> bool {
+pub(super) fn overlaps<A, B>(a: *const A, a_len: usize, b: *const B, b_len: usize) -> bool {
     let (a0, b0) = (a as usize, b as usize);
     let a1 = a0.saturating_add(a_len.saturating_mul(size_of::<A>()));
     let b1 = b0.saturating_add(b_len.saturating_mul(size_of::<B>()));

@@ -111,6 +111,8 @@ mod emissivity;
 mod multiwavelength;
 mod optics;
 mod site_budget;
+// Raw detector frames: non-uniformity, bad pixels, drift, figures of merit.
+mod raw;
 
 pub use atmosphere::{
     bt_air_dew_point_k, bt_air_saturation_vapour_pressure_hpa, bt_path_band_transmittance,
@@ -144,6 +146,14 @@ pub use ratio::bt_ratio_temperature;
 pub use ratio::{
     bt_wien_ratio, bt_wien_ratio_correct_grey, bt_wien_ratio_from_bands,
     bt_wien_ratio_signal_ratio, bt_wien_ratio_temperature,
+};
+pub use raw::{
+    bt_bad_pixel_report, bt_bad_pixel_rules, bt_bad_pixels_detect, bt_corrected_summary,
+    bt_drift_fit_band, bt_drift_model, bt_drift_point, bt_drift_step, bt_drift_step_band,
+    bt_effective_exponent_band, bt_frame_convert_counts_corrected, bt_frame_spatial_stats,
+    bt_frame_stack_add_counts, bt_frame_stack_add_signal, bt_net_signal_band, bt_netd_k,
+    bt_nuc_shutter_refresh, bt_nuc_shutter_target_band, bt_nuc_two_point,
+    bt_object_from_net_signal_band, bt_spatial_stats, bt_stack_view, bt_two_point_report,
 };
 pub use scene::{
     bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,

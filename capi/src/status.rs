@@ -16,7 +16,7 @@ pub const BT_VERSION_PATCH: u32 = 0;
 /// Values are explicit and never reused: a retired status keeps its number unused. They
 /// are grouped by the layer that raises them first (1-99 general and C ABI, 100 planck,
 /// 200 band, 300 scene, 400 calibration, 500 uncertainty and ratio, 600 atmosphere,
-/// 700 frame), so that layers can add codes independently.
+/// 700 frame, 800 frame non-uniformity), so that layers can add codes independently.
 #[repr(C)]
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 pub enum bt_status {
@@ -271,6 +271,30 @@ pub enum bt_status {
     FrameTableTooLarge = 713,
     /// A calibration fit was given more than 256 points (the limit bounds its time).
     CalibrationTooManyPoints = 1300,
+
+    // 800: frame non-uniformity, bad pixels, drift, figures of merit
+    /// A frame stack with fewer frames than the estimate needs (one for a mean, two for a temporal variance).
+    NucStackEmpty = 800,
+    /// An empty frame (no pixels) where calibration frames are required.
+    NucFrameEmpty = 801,
+    /// A frame width of zero, or a pixel count that is not a whole number of rows.
+    NucGeometryInvalid = 802,
+    /// Every pixel is flagged bad: no array mean, no map, no replacement can be formed.
+    NucNoGoodPixels = 803,
+    /// A pixel not flagged bad, or the array mean, whose high-level signal is not above its low-level signal: two-point correction needs a response.
+    NucLevelsNotDistinct = 804,
+    /// A correction map value that is not finite, or a gain that is not positive, at a pixel not flagged bad.
+    NucMapInvalid = 805,
+    /// Bad-pixel rules with a threshold that is not finite and positive.
+    BadPixelRulesInvalid = 806,
+    /// Too few drift calibration points for the polynomial degree (degree + 1 needed), or a degree above 2.
+    DriftTooFewPoints = 807,
+    /// A drift calibration point with a non-finite value, non-positive temperatures, or blackbody levels that do not give a positive response.
+    DriftPointInvalid = 808,
+    /// Drift calibration points whose array temperatures are too close together to fit the polynomial.
+    DriftIllConditioned = 809,
+    /// A figure-of-merit input that is out of its domain (a non-positive responsivity, a negative variance, fewer than two good pixels).
+    MeritInputInvalid = 810,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -428,6 +452,17 @@ status_table!(
     FrameRowsMismatch,
     FrameTableTooLarge,
     CalibrationTooManyPoints,
+    NucStackEmpty,
+    NucFrameEmpty,
+    NucGeometryInvalid,
+    NucNoGoodPixels,
+    NucLevelsNotDistinct,
+    NucMapInvalid,
+    BadPixelRulesInvalid,
+    DriftTooFewPoints,
+    DriftPointInvalid,
+    DriftIllConditioned,
+    MeritInputInvalid,
 );
 
 impl bt_status {

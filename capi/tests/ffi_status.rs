@@ -120,6 +120,17 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::FrameRowsMismatch, 712),
     (bt_status::FrameTableTooLarge, 713),
     (bt_status::CalibrationTooManyPoints, 1300),
+    (bt_status::NucStackEmpty, 800),
+    (bt_status::NucFrameEmpty, 801),
+    (bt_status::NucGeometryInvalid, 802),
+    (bt_status::NucNoGoodPixels, 803),
+    (bt_status::NucLevelsNotDistinct, 804),
+    (bt_status::NucMapInvalid, 805),
+    (bt_status::BadPixelRulesInvalid, 806),
+    (bt_status::DriftTooFewPoints, 807),
+    (bt_status::DriftPointInvalid, 808),
+    (bt_status::DriftIllConditioned, 809),
+    (bt_status::MeritInputInvalid, 810),
 ];
 
 fn message(raw: c_int) -> &'static str {

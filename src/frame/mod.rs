@@ -46,10 +46,15 @@
 //!
 //! # Where each stage lives
 //!
-//! In the order a pixel goes through them:
+//! In the order a pixel goes through them (raw counts enter at the top; a frame that is
+//! already uniform enters at the scene stage):
 //!
 //! | stage                                   | file           | items                                  |
 //! |-----------------------------------------|----------------|----------------------------------------|
+//! | two-point NUC maps, shutter refresh     | `nonuniformity.rs` | [`FrameStack`], [`two_point`], [`shutter_refresh`], [`Correction`] |
+//! | bad-pixel map and replacement           | `bad_pixels.rs` | [`detect_bad_pixels`], [`BadPixelRules`] |
+//! | array-temperature drift, self-emission  | `drift.rs`     | [`DriftModel`], [`DriftStep`], [`net_signal`] |
+//! | fused raw counts -> kelvin              | `nonuniformity.rs` | [`FrameConverter::convert_counts_corrected`] |
 //! | declared inputs                         | `params.rs`    | [`TemperatureRange`], [`CountsMap`], [`Rails`] |
 //! | counts or S -> object signal L          | `pixel_map.rs` | [`PixelMap`]                           |
 //! | L -> row and position -> T (per pixel)  | `lookup.rs`    | row index from the f32 bits, Horner    |
@@ -62,7 +67,8 @@
 //! fingerprint, `fingerprint.rs`. Later per-pixel stages (non-uniformity correction, bad
 //! pixels, drift) belong between `pixel_map.rs` and `lookup.rs`: they act on the counts or
 //! the object signal before the row index is taken; a target-specific vector kernel
-//! replaces `chunk` in `kernel.rs`.
+//! replaces `chunk` in `kernel.rs`. Checked on calibration frames, not per pixel: the
+//! figures of merit, `merit.rs` ([`spatial_stats`], [`netd_k`], [`fpn_k`], EMVA 1288).
 //!
 //! # The table variable, and why
 //!
@@ -160,18 +166,35 @@
 // to vectorise; `#[inline(always)]` says so where LLVM's heuristics might not.
 #![allow(clippy::inline_always)]
 
+mod bad_pixels;
 mod build;
 mod converter;
+mod drift;
 pub(crate) mod fingerprint;
 mod kernel;
 mod lookup;
+mod merit;
+mod nonuniformity;
 mod params;
 mod pixel_map;
 mod summary;
 mod table;
 
+pub use bad_pixels::{
+    detect_bad_pixels, BadPixelReport, BadPixelRules, BAD_GAIN, BAD_NOISY, BAD_OFFSET, BAD_STUCK,
+    BAD_USER,
+};
 pub use build::PROBES;
 pub use converter::{ConverterState, FrameConverter};
+pub use drift::{
+    effective_exponent, net_signal, object_from_net_signal, DriftModel, DriftPoint,
+    MAX_DRIFT_POINTS,
+};
+pub use merit::{dsnu_counts, fpn_k, netd_k, prnu, spatial_stats, SpatialStats};
+pub use nonuniformity::{
+    shutter_refresh, shutter_target_counts, two_point, CorrectedSummary, Correction, DriftStep,
+    FrameStack, StackStats, TwoPointReport,
+};
 pub use params::{CountsMap, Rails, TemperatureRange};
 pub use pixel_map::PixelMap;
 pub use summary::{FrameSummary, PixelStatus};

@@ -3011,6 +3011,273 @@ static void test_optics(void) {
     }
 }
 
+/* ---- raw frames: stacks, two-point NUC, bad pixels, shutter, drift, merit ------------- */
+
+#define RAW_W 4
+#define RAW_H 3
+#define RAW_N (RAW_W * RAW_H)
+
+/* Pixel model of the test (invented): raw n = (x - O_p) / G_p with a per-pixel gain and
+ * offset, x the array's corrected counts; pixel 5 is stuck at 7000. */
+static double raw_gain(size_t p) { return 1.0 + 0.02 * (double)((int)(p % 5) - 2); }
+static double raw_offset(size_t p) { return 300.0 * (double)((int)(p % 7) - 3); }
+static uint16_t raw_counts(size_t p, double x, int noise) {
+    if (p == 5) return 7000;
+    return (uint16_t)floor((x - raw_offset(p)) / raw_gain(p) + 0.5 + noise);
+}
+
+static void test_raw_frames(void) {
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    double lm[RAW_N], l2[RAW_N], hm[RAW_N], h2[RAW_N];
+    uint32_t lf = 0, hf = 0, frames_sentinel;
+    uint16_t frame[RAW_N];
+    float fframe[RAW_N], gain[RAW_N], offset[RAW_N], scratch[RAW_N], kelvin[RAW_N];
+    float gain_copy[RAW_N];
+    uint8_t bad[RAW_N];
+    bt_stack_view low, high, broken;
+    bt_two_point_report report;
+    bt_bad_pixel_rules rules = {5.0, 3.0, 0.2};
+    bt_bad_pixel_rules bad_rules = {NAN, 3.0, 0.2};
+    bt_bad_pixel_report bad_report;
+    bt_drift_step step = {1.0f, 0.0f}, bad_step = {0.0f, 0.0f}, got_step;
+    bt_corrected_summary cs;
+    bt_scene scene = {1.0, 293.15, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    bt_rails rails = {0, 65535};
+    bt_frame_converter conv;
+    bt_spatial_stats stats;
+    bt_drift_point points[3];
+    bt_drift_model model;
+    double out = SENTINEL, target = SENTINEL;
+    size_t p, k;
+    int f;
+    const int noise[4] = {-1, 1, 0, 0};
+
+    /* Stacks of four frames at x = 9000 and x = 13000 (+-1 count of noise). */
+    for (f = 0; f < 4; f++) {
+        for (p = 0; p < RAW_N; p++) frame[p] = raw_counts(p, 9000.0, noise[f]);
+        CHECK(bt_frame_stack_add_counts(lm, l2, RAW_N, &lf, frame, RAW_N) == BT_STATUS_OK);
+        for (p = 0; p < RAW_N; p++) frame[p] = raw_counts(p, 13000.0, noise[(f + 1) % 4]);
+        CHECK(bt_frame_stack_add_counts(hm, h2, RAW_N, &hf, frame, RAW_N) == BT_STATUS_OK);
+    }
+    CHECK(lf == 4 && hf == 4);
+    /* Mean and m2 against the sums written out here: mean offset by 0, m2 = 2 counts^2. */
+    CHECK(fabs(lm[0] - (double)raw_counts(0, 9000.0, 0)) < 1e-9);
+    CHECK(fabs(l2[0] - 2.0) < 1e-9);
+
+    /* Hostile stack updates: nothing written. */
+    frames_sentinel = lf;
+    CHECK(bt_frame_stack_add_counts(NULL, l2, RAW_N, &lf, frame, RAW_N) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_stack_add_counts(lm, l2, RAW_N, NULL, frame, RAW_N) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_stack_add_counts(lm, l2, RAW_N, &lf, NULL, RAW_N) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_stack_add_counts(lm, l2, RAW_N, &lf, frame, RAW_N - 1) ==
+          BT_STATUS_FRAME_LENGTH_MISMATCH);
+    CHECK(bt_frame_stack_add_counts(lm, l2, 0, &lf, frame, 0) == BT_STATUS_NUC_FRAME_EMPTY);
+    CHECK(bt_frame_stack_add_counts(lm, l2, SIZE_MAX, &lf, frame, RAW_N) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_stack_add_counts(lm, lm, RAW_N, &lf, frame, RAW_N) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_stack_add_counts((double *)misaligned(lm), l2, RAW_N - 1, &lf, frame,
+                                    RAW_N - 1) == BT_STATUS_INVALID_BUFFER);
+    for (p = 0; p < RAW_N; p++) fframe[p] = 1.0f;
+    fframe[3] = NAN;
+    CHECK(bt_frame_stack_add_signal(lm, l2, RAW_N, &lf, fframe, RAW_N) == BT_STATUS_NON_FINITE);
+    fframe[3] = INFINITY;
+    CHECK(bt_frame_stack_add_signal(lm, l2, RAW_N, &lf, fframe, RAW_N) == BT_STATUS_NON_FINITE);
+    CHECK(lf == frames_sentinel);
+    CHECK(fabs(l2[0] - 2.0) < 1e-9);
+
+    low.mean = lm; low.m2 = l2; low.len = RAW_N; low.frames = lf;
+    high.mean = hm; high.m2 = h2; high.len = RAW_N; high.frames = hf;
+
+    /* The stuck pixel makes plain two-point refuse; detection flags it. */
+    CHECK(bt_nuc_two_point(&low, &high, NULL, 0, gain, offset, RAW_N, &report) ==
+          BT_STATUS_NUC_LEVELS_NOT_DISTINCT);
+    memset(bad, 0, sizeof bad);
+    CHECK(bt_bad_pixels_detect(&low, &high, &bad_rules, scratch, bad, RAW_N, &bad_report) ==
+          BT_STATUS_BAD_PIXEL_RULES_INVALID);
+    CHECK(bt_bad_pixels_detect(&low, &high, &rules, scratch, bad, RAW_N, &bad_report) ==
+          BT_STATUS_OK);
+    CHECK((bad[5] & 1) != 0 && bad_report.stuck == 1);
+    for (p = 0; p < RAW_N; p++) CHECK(p == 5 || bad[p] == 0);
+    CHECK(bt_bad_pixels_detect(&low, &high, &rules, (float *)(void *)bad, bad, RAW_N,
+                               &bad_report) == BT_STATUS_INVALID_BUFFER);
+
+    CHECK(bt_nuc_two_point(&low, &high, bad, RAW_N, gain, offset, RAW_N, &report) == BT_STATUS_OK);
+    /* Independent check: G = (<H> - <L>) / (H - L), O = <L> - G L, means without pixel 5. */
+    {
+        double sl = 0.0, sh = 0.0;
+        for (p = 0; p < RAW_N; p++) if (p != 5) { sl += lm[p]; sh += hm[p]; }
+        sl /= RAW_N - 1; sh /= RAW_N - 1;
+        CHECK(fabs(report.mean_low - sl) < 1e-9 && fabs(report.mean_high - sh) < 1e-9);
+        CHECK(report.good_pixels == RAW_N - 1);
+        for (p = 0; p < RAW_N; p++) {
+            if (p == 5) continue;
+            double g = (sh - sl) / (hm[p] - lm[p]);
+            CHECK(fabs(gain[p] - g) < 1e-6 && fabs(offset[p] - (sl - g * lm[p])) < 1e-2);
+        }
+    }
+    memcpy(gain_copy, gain, sizeof gain);
+    CHECK(bt_nuc_two_point(&low, &high, bad, RAW_N, gain, gain, RAW_N, &report) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_nuc_two_point(&low, &high, bad, RAW_N, gain, offset, RAW_N - 1, &report) ==
+          BT_STATUS_FRAME_LENGTH_MISMATCH);
+    CHECK(memcmp(gain, gain_copy, sizeof gain) == 0);
+    broken = low; broken.frames = 0;
+    CHECK(bt_nuc_two_point(&broken, &high, bad, RAW_N, gain, offset, RAW_N, &report) ==
+          BT_STATUS_NUC_STACK_EMPTY);
+    broken = low; broken.mean = NULL;
+    CHECK(bt_nuc_two_point(&broken, &high, bad, RAW_N, gain, offset, RAW_N, &report) ==
+          BT_STATUS_NULL_POINTER);
+
+    /* Fused conversion: a converter whose counts map sends x = 9000 to the band radiance of
+     * 293.15 K and x = 13000 to 333.15 K; every pixel of a flat field at x = 11000 must read
+     * the temperature of radiance midway (stuck pixel replaced by its neighbours). */
+    {
+        double l1, l2v, g, o, t_ref = SENTINEL, mid;
+        CHECK(bt_band_radiance(&band, 293.15, &l1) == BT_STATUS_OK);
+        CHECK(bt_band_radiance(&band, 333.15, &l2v) == BT_STATUS_OK);
+        g = (l2v - l1) / (report.mean_high - report.mean_low);
+        o = l1 - g * report.mean_low;
+        CHECK(bt_frame_converter_new_band(&band, &scene, g, o, &rails, 250.0, 500.0, 1e-3,
+                                          frame_table, FRAME_ROWS, &conv) == BT_STATUS_OK);
+        for (p = 0; p < RAW_N; p++) frame[p] = raw_counts(p, 11000.0, 0);
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, bad,
+                                                RAW_W, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_OK);
+        mid = 0.5 * (l1 + l2v); /* x = 11000 is midway between the two levels */
+        CHECK(bt_band_temperature(&band, mid, &t_ref) == BT_STATUS_OK);
+        CHECK(cs.bad_replaced == 1 && cs.frame.converted == RAW_N);
+        for (p = 0; p < RAW_N; p++) CHECK(fabs(kelvin[p] - t_ref) < 0.02);
+        /* Hostile: nothing written. */
+        for (p = 0; p < RAW_N; p++) kelvin[p] = -1.0f;
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, bad,
+                                                0, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NUC_GEOMETRY_INVALID);
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, bad,
+                                                5, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NUC_GEOMETRY_INVALID);
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, bad,
+                                                RAW_W, &bad_step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NUC_MAP_INVALID);
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, NULL,
+                                                RAW_W, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NULL_POINTER);
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, bad,
+                                                RAW_W, &step, frame, gain, RAW_N, &cs) ==
+              BT_STATUS_INVALID_BUFFER);
+        gain_copy[2] = NAN;
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain_copy, offset,
+                                                bad, RAW_W, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NUC_MAP_INVALID);
+        CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset, bad,
+                                                RAW_W, &step, frame, kelvin, SIZE_MAX, &cs) ==
+              BT_STATUS_INVALID_BUFFER);
+        for (p = 0; p < RAW_N; p++) CHECK(kelvin[p] == -1.0f);
+        /* All bad: every pixel NaN and counted. */
+        {
+            uint8_t all[RAW_N];
+            memset(all, 1, sizeof all);
+            CHECK(bt_frame_convert_counts_corrected(&conv, frame_table, FRAME_ROWS, gain, offset,
+                                                    all, RAW_W, NULL, frame, kelvin, RAW_N,
+                                                    &cs) == BT_STATUS_OK);
+            CHECK(cs.bad_unreplaced == RAW_N && cs.frame.dead == RAW_N);
+            for (p = 0; p < RAW_N; p++) CHECK(isnan(kelvin[p]));
+        }
+
+        /* Shutter: target for a 300 K shutter, refresh offsets from a shutter stack. */
+        CHECK(bt_nuc_shutter_target_band(&band, g, o, 300.0, &target) == BT_STATUS_OK);
+        {
+            double bl = SENTINEL;
+            CHECK(bt_band_radiance(&band, 300.0, &bl) == BT_STATUS_OK);
+            CHECK(fabs(g * target + o - bl) < 1e-9 * bl);
+        }
+        CHECK(bt_nuc_shutter_target_band(&band, 0.0, o, 300.0, &out) ==
+              BT_STATUS_FRAME_COUNTS_MAP_INVALID && untouched(out));
+        CHECK(bt_nuc_shutter_refresh(&low, gain, bad, RAW_N, target, &step, offset, RAW_N) ==
+              BT_STATUS_OK);
+        for (p = 0; p < RAW_N; p++) {
+            if (p == 5) continue;
+            CHECK(fabs(gain[p] * lm[p] + offset[p] - target) < 2e-2);
+        }
+        memcpy(gain_copy, offset, sizeof offset);
+        CHECK(bt_nuc_shutter_refresh(&low, gain, bad, RAW_N, NAN, &step, offset, RAW_N) ==
+              BT_STATUS_NON_FINITE);
+        CHECK(bt_nuc_shutter_refresh(&low, gain, bad, RAW_N, target, &bad_step, offset, RAW_N) ==
+              BT_STATUS_NUC_MAP_INVALID);
+        CHECK(bt_nuc_shutter_refresh(&low, gain, bad, RAW_N, target, &step, gain, RAW_N) ==
+              BT_STATUS_INVALID_BUFFER);
+        CHECK(bt_nuc_shutter_refresh(&low, gain, bad, RAW_N, target, NULL, offset, RAW_N) ==
+              BT_STATUS_NULL_POINTER);
+        CHECK(memcmp(gain_copy, offset, sizeof offset) == 0);
+    }
+
+    /* Spatial statistics: raw stack vs corrected (the maps remove the pattern). */
+    CHECK(bt_frame_spatial_stats(&low, bad, NULL, NULL, RAW_N, &stats) == BT_STATUS_OK);
+    CHECK(stats.pixels == RAW_N - 1 && stats.spatial_variance > 1000.0);
+    CHECK(fabs(stats.temporal_variance - 2.0 / 3.0) < 1e-9);
+    CHECK(bt_frame_spatial_stats(&low, bad, gain, NULL, RAW_N, &stats) == BT_STATUS_NULL_POINTER);
+    broken = low; broken.frames = 1;
+    CHECK(bt_frame_spatial_stats(&broken, bad, NULL, NULL, RAW_N, &stats) ==
+          BT_STATUS_NUC_STACK_EMPTY);
+
+    /* Drift: points from known linear R(T), O(T); the fit returns them. */
+    for (k = 0; k < 3; k++) {
+        double t = 298.0 + 5.0 * (double)k, lo = SENTINEL, hi = SENTINEL, li = SENTINEL;
+        double r = 120.0 * (1.0 - 0.004 * (t - 303.0)), of = 9000.0 + 90.0 * (t - 303.0);
+        CHECK(bt_band_radiance(&band, 293.15, &lo) == BT_STATUS_OK);
+        CHECK(bt_band_radiance(&band, 333.15, &hi) == BT_STATUS_OK);
+        CHECK(bt_band_radiance(&band, t - 1.5, &li) == BT_STATUS_OK);
+        points[k].fpa_k = t; points[k].internal_k = t - 1.5;
+        points[k].low_k = 293.15; points[k].high_k = 333.15;
+        points[k].low_counts = r * (lo - li) + of;
+        points[k].high_counts = r * (hi - li) + of;
+    }
+    CHECK(bt_drift_fit_band(&band, points, 3, 1, &model) == BT_STATUS_OK);
+    CHECK(fabs(model.reference_k - 303.0) < 1e-12);
+    CHECK(fabs(model.responsivity[0] - 120.0) < 1e-9 && fabs(model.responsivity[1] + 0.48) < 1e-9);
+    CHECK(fabs(model.offset[0] - 9000.0) < 1e-6 && fabs(model.offset[1] - 90.0) < 1e-7);
+    CHECK(bt_drift_fit_band(&band, points, 1, 1, &model) == BT_STATUS_DRIFT_TOO_FEW_POINTS);
+    CHECK(bt_drift_fit_band(&band, points, 3, 3, &model) == BT_STATUS_DRIFT_TOO_FEW_POINTS);
+    CHECK(bt_drift_fit_band(&band, NULL, 3, 1, &model) == BT_STATUS_NULL_POINTER);
+    points[1].fpa_k = NAN;
+    CHECK(bt_drift_fit_band(&band, points, 3, 1, &model) == BT_STATUS_DRIFT_POINT_INVALID);
+    CHECK(bt_drift_step_band(&model, &band, 0.01, 0.0, 303.0, 301.5, &got_step) == BT_STATUS_OK);
+    CHECK(got_step.a > 0.0f && isfinite(got_step.b));
+    CHECK(bt_drift_step_band(&model, &band, 0.01, 0.0, NAN, 301.5, &got_step) ==
+          BT_STATUS_NON_FINITE);
+    model.degree = 9;
+    CHECK(bt_drift_step_band(&model, &band, 0.01, 0.0, 303.0, 301.5, &got_step) ==
+          BT_STATUS_DRIFT_TOO_FEW_POINTS);
+
+    /* Self-emission and merit. */
+    out = SENTINEL;
+    CHECK(bt_net_signal_band(&band, 0.3, 305.0, 305.0, 305.0, &out) == BT_STATUS_OK);
+    CHECK(fabs(out) < 1e-12);
+    out = SENTINEL;
+    CHECK(bt_net_signal_band(&band, 1.5, 305.0, 305.0, 305.0, &out) ==
+          BT_STATUS_EMISSIVITY_OUT_OF_RANGE && untouched(out));
+    CHECK(bt_net_signal_band(&band, 0.9, 350.0, 290.0, 300.0, &out) == BT_STATUS_OK);
+    target = SENTINEL;
+    CHECK(bt_object_from_net_signal_band(&band, out, 0.9, 290.0, 300.0, &target) == BT_STATUS_OK);
+    CHECK(fabs(target - 350.0) < 1e-6);
+    out = SENTINEL;
+    /* mpmath, tools/refgen/nuc_refs.py: 4.57546967838344 */
+    CHECK(bt_effective_exponent_band(&band, 300.0, &out) == BT_STATUS_OK);
+    CHECK(fabs(out - 4.57546967838344) < 1e-9);
+    out = SENTINEL;
+    CHECK(bt_netd_k(4.0, 50.0, &out) == BT_STATUS_OK && fabs(out - 0.04) < 1e-15);
+    out = SENTINEL;
+    for (k = 0; k < N_ARGS; k++) {
+        EXPECT_SANE(bt_netd_k(ARGS[k], 50.0, &out));
+        EXPECT_SANE(bt_netd_k(1.0, ARGS[k], &out));
+        EXPECT_SANE(bt_effective_exponent_band(&band, ARGS[k], &out));
+        EXPECT_SANE(bt_net_signal_band(&band, ARGS[k], 300.0, 300.0, 300.0, &out));
+        EXPECT_SANE(bt_object_from_net_signal_band(&band, ARGS[k], 0.9, 290.0, 300.0, &out));
+        EXPECT_SANE(bt_nuc_shutter_target_band(&band, 0.01, 0.0, ARGS[k], &out));
+    }
+    CHECK(bt_netd_k(1.0, 1.0, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_netd_k(1.0, 1.0, (double *)misaligned(&out)) == BT_STATUS_INVALID_BUFFER);
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -3036,6 +3303,7 @@ int main(void) {
     test_monte_carlo();
     test_verify();
     test_optics();
+    test_raw_frames();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }

@@ -1,0 +1,233 @@
+//! The raw-frame exports (`capi/src/raw.rs`) driven with arbitrary bit patterns: f64
+//! arguments, f32 map values, drift models and points, bad-pixel maps and frame
+//! geometry. No panic; every result a value or a named status; out values written only
+//! on success; agreement with the Rust API they wrap.
+
+use bandtemp::band::Band;
+use bandtemp::frame::{
+    effective_exponent, net_signal, netd_k, Correction, CountsMap, DriftStep, FrameConverter,
+    Rails, TableRow, TemperatureRange,
+};
+use bandtemp::planck::Detector;
+use bandtemp::scene::Scene;
+use bandtemp::Error;
+use bandtemp_capi::*;
+use proptest::prelude::*;
+
+const SENTINEL: f64 = -12345.678;
+
+const SPECIAL: &[f64] = &[
+    f64::NAN,
+    f64::INFINITY,
+    f64::NEG_INFINITY,
+    0.0,
+    -0.0,
+    -1.0,
+    f64::MAX,
+    f64::MIN_POSITIVE,
+    5e-324,
+    1e300,
+    0.5,
+    1.0,
+    300.0,
+    1e6,
+];
+
+fn any_f64() -> impl Strategy<Value = f64> {
+    prop_oneof![
+        3 => any::<u64>().prop_map(f64::from_bits),
+        2 => prop::sample::select(SPECIAL),
+        3 => (-3.0f64..4.0).prop_map(|e| 10f64.powf(e)),
+    ]
+}
+
+fn any_f32() -> impl Strategy<Value = f32> {
+    prop_oneof![
+        2 => any::<u32>().prop_map(f32::from_bits),
+        1 => prop::sample::select(&[f32::NAN, f32::INFINITY, -1.0f32, 0.0, 1.0, 1e-40, 3e38][..]),
+        3 => 0.5f32..1.5,
+    ]
+}
+
+fn lwir() -> bt_band {
+    bt_band {
+        lo_um: 8.0,
+        hi_um: 14.0,
+        detector: bt_detector::Energy,
+        response_um: core::ptr::null(),
+        response: core::ptr::null(),
+        response_len: 0,
+    }
+}
+
+fn rust_band() -> Band<'static> {
+    Band::rectangular(8.0, 14.0, Detector::Energy).unwrap()
+}
+
+/// Success with a finite value, or an error with the out value untouched.
+fn sane(s: bt_status, out: f64) -> bool {
+    if s == bt_status::Ok {
+        out.is_finite()
+    } else {
+        out.to_bits() == SENTINEL.to_bits()
+    }
+}
+
+fn status_of<T>(r: &Result<T, Error>) -> bt_status {
+    match r {
+        Ok(_) => bt_status::Ok,
+        Err(e) => bt_status::from(*e),
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(256))]
+
+    #[test]
+    fn scalar_exports_agree_with_rust(a in any_f64(), b in any_f64(), c in any_f64()) {
+        let band = lwir();
+        let mut out = SENTINEL;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_netd_k(a, b, &mut out) };
+        let r = netd_k(a, b);
+        prop_assert_eq!(s, status_of(&r));
+        match r {
+            Ok(v) => prop_assert_eq!(out.to_bits(), v.to_bits()),
+            Err(_) => prop_assert_eq!(out.to_bits(), SENTINEL.to_bits()),
+        }
+        let mut out = SENTINEL;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_effective_exponent_band(&band, a, &mut out) };
+        let r = effective_exponent(&rust_band(), a);
+        prop_assert_eq!(s, status_of(&r));
+        prop_assert!(sane(s, out), "status {:?}, out {}", s, out);
+        let mut out = SENTINEL;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_net_signal_band(&band, a, b, c, 300.0, &mut out) };
+        let r = net_signal(&rust_band(), a, b, c, 300.0);
+        prop_assert_eq!(s, status_of(&r));
+        prop_assert!(sane(s, out), "status {:?}, out {}", s, out);
+        let mut out = SENTINEL;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_object_from_net_signal_band(&band, a, b, c, 300.0, &mut out) };
+        prop_assert!(sane(s, out), "status {:?}, out {}", s, out);
+        let mut out = SENTINEL;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_nuc_shutter_target_band(&band, a, b, c, &mut out) };
+        prop_assert!(sane(s, out), "status {:?}, out {}", s, out);
+    }
+
+    #[test]
+    fn drift_exports_never_fail_open(
+        fields in prop::collection::vec(any_f64(), 18),
+        model in prop::collection::vec(any_f64(), 7),
+        degree in 0u32..5,
+        n in 0usize..4,
+        t in any_f64(),
+    ) {
+        let band = lwir();
+        let points: Vec<bt_drift_point> = fields.chunks(6).map(|f| bt_drift_point {
+            fpa_k: f[0], internal_k: f[1], low_k: f[2], high_k: f[3], low_counts: f[4], high_counts: f[5],
+        }).collect();
+        let sentinel = bt_drift_model { reference_k: SENTINEL, degree: 77, responsivity: [SENTINEL; 3], offset: [SENTINEL; 3] };
+        let mut out = sentinel;
+        // SAFETY: valid pointers; n <= 3 points.
+        let s = unsafe { bt_drift_fit_band(&band, points.as_ptr(), n, degree, &mut out) };
+        if s == bt_status::Ok {
+            prop_assert!(out.reference_k.is_finite() && out.degree <= 2);
+        } else {
+            prop_assert_eq!(out, sentinel);
+        }
+        let m = bt_drift_model {
+            reference_k: model[0], degree: degree % 3,
+            responsivity: [model[1], model[2], model[3]], offset: [model[4], model[5], model[6]],
+        };
+        let step_sentinel = bt_drift_step { a: -7.0, b: -7.0 };
+        let mut step = step_sentinel;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_drift_step_band(&m, &band, 0.01, -1.0, t, 300.0, &mut step) };
+        if s == bt_status::Ok {
+            prop_assert!(step.a > 0.0 && step.a.is_finite() && step.b.is_finite());
+        } else {
+            prop_assert_eq!(step, step_sentinel);
+        }
+    }
+
+    /// Arbitrary map bits, bad maps, widths and steps: the fused export either refuses
+    /// with a status (output untouched) or agrees bit for bit with the Rust API.
+    #[test]
+    fn fused_conversion_agrees_with_rust(
+        gain in prop::collection::vec(any_f32(), 24),
+        offset in prop::collection::vec(any_f32(), 24),
+        bad in prop::collection::vec(prop_oneof![4 => Just(0u8), 1 => any::<u8>()], 24),
+        counts in prop::collection::vec(any::<u16>(), 24),
+        width in 0usize..30,
+        a in any_f32(),
+        b in any_f32(),
+    ) {
+        let band = rust_band();
+        let scene = Scene::new(0.9, 293.15).unwrap();
+        let counts_map = CountsMap::linear(0.002, -2.0).unwrap();
+        let mut storage = vec![[0.0f32; 4]; 128];
+        let conv = FrameConverter::new(&band, &scene, counts_map, Rails::default(),
+            TemperatureRange::new(250.0, 1500.0).unwrap(), 1e-3, &mut storage).unwrap();
+        let rows: Vec<TableRow> = conv.table().rows().to_vec();
+        let state = conv.state();
+        let mut c_conv = bt_frame_converter { opaque: [0; 32] };
+        // SAFETY: the state fits the converter's bytes (the capi crate asserts it).
+        unsafe { core::ptr::write(core::ptr::addr_of_mut!(c_conv).cast(), state) };
+        let step = bt_drift_step { a, b };
+        let mut kelvin = vec![-1.0f32; 24];
+        let sentinel_summary = bt_corrected_summary { bad_replaced: 99, ..Default::default() };
+        let mut summary = sentinel_summary;
+        // SAFETY: every buffer holds 24 values; rows and converter as built above.
+        let s = unsafe {
+            bt_frame_convert_counts_corrected(&c_conv, rows.as_ptr().cast(), rows.len(),
+                gain.as_ptr(), offset.as_ptr(), bad.as_ptr(), width, &step,
+                counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary)
+        };
+        let mut expected = vec![-1.0f32; 24];
+        let r = Correction::new(&gain, &offset, &bad, width)
+            .and_then(|c| c.with_step(DriftStep { a, b }))
+            .and_then(|c| conv.convert_counts_corrected(&c, &counts, &mut expected));
+        prop_assert_eq!(s, status_of(&r));
+        match r {
+            Ok(rs) => {
+                prop_assert_eq!(summary.bad_replaced, rs.bad_replaced);
+                prop_assert_eq!(summary.frame.converted, rs.frame.converted);
+                let f = summary.frame;
+                prop_assert_eq!(f.pixels, f.converted + f.dead + f.saturated + f.emissivity_invalid
+                    + f.non_finite + f.below_background + f.below_range + f.above_range);
+                for (x, y) in kelvin.iter().zip(&expected) {
+                    prop_assert_eq!(x.to_bits(), y.to_bits());
+                }
+            }
+            Err(_) => {
+                prop_assert_eq!(summary, sentinel_summary);
+                prop_assert!(kelvin.iter().all(|&k| k == -1.0));
+            }
+        }
+    }
+
+    /// Stacks: arbitrary float frames either add (frames incremented, all finite) or are
+    /// refused with the stack unchanged.
+    #[test]
+    fn stack_updates_are_all_or_nothing(frame in prop::collection::vec(any_f32(), 6), start in 0u32..3) {
+        let (mut mean, mut m2) = ([1.0f64; 6], [0.5f64; 6]);
+        let mut frames = start;
+        let (before_mean, before_m2) = (mean, m2);
+        // SAFETY: valid buffers of 6 values.
+        let s = unsafe { bt_frame_stack_add_signal(mean.as_mut_ptr(), m2.as_mut_ptr(), 6, &mut frames, frame.as_ptr(), 6) };
+        if s == bt_status::Ok {
+            prop_assert_eq!(frames, start + 1);
+            prop_assert!(mean.iter().chain(&m2).all(|v| v.is_finite()));
+        } else {
+            prop_assert_eq!(s, bt_status::NonFinite);
+            prop_assert_eq!(frames, start);
+            if start > 0 {
+                prop_assert_eq!(mean, before_mean);
+                prop_assert_eq!(m2, before_m2);
+            }
+        }
+    }
+}
