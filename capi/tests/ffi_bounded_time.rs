@@ -12,15 +12,13 @@
 //! The limit is a bound on runaway work (seconds on bad input), not a speed measurement:
 //! typical calls take microseconds (criterion benches measure speed).
 //!
-//! Two groups are `#[ignore]`d, each with its reason, until the work they wait for lands:
-//! - the frame-table constructors (`bt_frame_table_rows_*`, `bt_frame_converter_new_*`)
-//!   still search unservable ranges before refusing them (up to seconds);
-//! - band integrals over long tabulated responses cost time linear in the table length at
-//!   up to about 16 us per point on the host (a 1,000-point table: 16 ms per integral at
-//!   1e6 K; `bt_sakuma_hattori_fit_band`, 2,065 integrals, about 2 s), bounded by the
-//!   length but far over the limit.
+//! One group is `#[ignore]`d, with its reason: band integrals over long tabulated
+//! responses cost time linear in the table length, up to about 8 us per point on the host
+//! (a 10,000-point table: about 80 ms per inversion; `bt_sakuma_hattori_fit_band`, 2,065
+//! integrals, about 0.8 s at 1,000 points), bounded by the length but over the limit. An
+//! instrument's response table has tens to hundreds of points.
 //!
-//! Run both with `cargo test --release -p bandtemp-capi --test ffi_bounded_time --
+//! Run it with `cargo test --release -p bandtemp-capi --test ffi_bounded_time --
 //! --ignored`; `BANDTEMP_TIME_PROFILE=1` with `--nocapture` prints the slowest call of
 //! every function.
 #![allow(clippy::too_many_lines)]
@@ -787,13 +785,11 @@ fn frame_conversion_calls_are_bounded() {
     watch.finish("frame conversion");
 }
 
-/// The frame-table constructors on hostile ranges and tolerances. Ignored until they
-/// refuse unservable ranges up front: today some ranges are searched for up to seconds
-/// before the refusal (a 0.9-1.1 um band from 300 K to 1.39e25 K at 0.9 K; 8-14 um from
-/// 250 K to 1e6 K at 1 mK). Run with `cargo test --release -p bandtemp-capi --test
-/// ffi_bounded_time -- --ignored`.
+/// The frame-table constructors on hostile ranges and tolerances: unservable ranges are
+/// refused up front (cheap bounds on rows per octave, octaves and storage before any row
+/// is built), so no call searches for seconds (it once did: a 0.9-1.1 um band from 300 K
+/// to 1.39e25 K at 0.9 K; 8-14 um from 250 K to 1e6 K at 1 mK).
 #[test]
-#[ignore = "the frame-table constructors do not yet refuse unservable ranges up front (seconds on some ranges)"]
 fn frame_table_calls_are_bounded() {
     let tables = tables();
     let mut watch = Watch::new();
