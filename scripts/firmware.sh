@@ -57,6 +57,8 @@ tools() {
 
 # Debian's cargo and rustc for the target: core and compiler_builtins built from source
 # (with the mem feature: memcpy and friends), nightly flags through RUSTC_BOOTSTRAP.
+# `--ignore-rust-version`: the workspace's rust-version (1.88) is that of its test
+# dependencies; the libraries themselves build with Debian's 1.85, which this proves.
 # One target directory serves every variant (the features and profiles hash apart).
 xcargo() {
     nice env PATH=/usr/bin:$PATH RUSTC="$XRUSTC" RUSTC_BOOTSTRAP=1 \
@@ -72,7 +74,7 @@ xlib() {
     dest=$OUT/lib-$variant${opt:+-O$opt}
     mkdir -p "$dest"
     CARGO_PROFILE_RELEASE_OPT_LEVEL=${opt:-3} xcargo rustc --quiet --release --lib \
-        -p bandtemp-capi --no-default-features "${features[@]}" --crate-type staticlib \
+        --ignore-rust-version -p bandtemp-capi --no-default-features "${features[@]}" --crate-type staticlib \
         -Zbuild-std=core,compiler_builtins -Zbuild-std-features=compiler-builtins-mem \
         --target "$TRIPLE" >&2
     cp "$OUT/cargo/$TRIPLE/release/libbandtemp_capi.a" "$dest/"
@@ -142,7 +144,7 @@ rust_firmware() {
     # the target with the same profile are shared.
     (cd "$dir" && nice env PATH=/usr/bin:$PATH RUSTC="$XRUSTC" RUSTC_BOOTSTRAP=1 \
         CARGO_TARGET_DIR="$PWD/../../$OUT/cargo" "$XCARGO" build --quiet --release \
-        --target "$TRIPLE" -Zbuild-std=core,compiler_builtins \
+        --ignore-rust-version --target "$TRIPLE" -Zbuild-std=core,compiler_builtins \
         -Zbuild-std-features=compiler-builtins-mem)
     elf=$OUT/cargo/$TRIPLE/release/bandtemp-firmware-demo
     arm-none-eabi-size "$elf"

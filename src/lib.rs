@@ -63,6 +63,7 @@ mod quadrature;
 pub mod ratio;
 pub mod scene;
 pub mod site_budget;
+mod sort;
 pub mod uncertainty;
 pub mod verify;
 

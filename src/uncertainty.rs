@@ -537,7 +537,7 @@ pub fn coverage_interval(samples: &mut [f64], probability: f64) -> Result<Covera
     if q < 1 || q + 1 > m {
         return Err(Error::TooFewTrials);
     }
-    samples.sort_unstable_by(f64::total_cmp);
+    crate::sort::heapsort_by(samples, |a, b| a.total_cmp(&b).is_lt());
     let rest = m - q;
     // 1-based r; the interval is [y_(r), y_(r+q)] -> 0-based [r - 1, r + q - 1].
     // (M - q)/2 when even, (M - q + 1)/2 otherwise: the ceiling of (M - q)/2.

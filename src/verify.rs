@@ -325,7 +325,9 @@ pub fn coverage(temperatures_k: &[f64], lo_k: f64, hi_k: f64) -> Result<Coverage
     }
     // Walk the distinct clipped nodes upwards from the lowest; each step finds the next
     // larger node by a scan (no storage, no sort).
-    let clip = |t_k: f64| t_k.clamp(lo_k, hi_k);
+    // max/min, not f64::clamp: clamp asserts lo <= hi, a panic path the compiler cannot
+    // remove although `check_range` has ensured it.
+    let clip = |t_k: f64| t_k.max(lo_k).min(hi_k);
     let (mut largest_gap_k, mut gap_lo_k, mut gap_hi_k) = (0.0, lo_k, lo_k);
     let mut node = clip(t_min_k);
     loop {

@@ -106,14 +106,14 @@ fn median(values: &mut [f32]) -> f64 {
     if n == 0 {
         return f64::NAN;
     }
-    let (_, &mut upper, _) = values.select_nth_unstable_by(n / 2, f32::total_cmp);
+    // A full sort (heapsort, O(n log n), no panic path) rather than a selection: this
+    // runs once per calibration, not per frame.
+    crate::sort::heapsort_by(values, |a, b| a.total_cmp(&b).is_lt());
+    let upper = values.get(n / 2).copied().unwrap_or(f32::NAN);
     if n % 2 == 1 {
         return f64::from(upper);
     }
-    let lower = values
-        .get(..n / 2)
-        .and_then(|l| l.iter().copied().max_by(f32::total_cmp))
-        .unwrap_or(upper);
+    let lower = values.get(n / 2 - 1).copied().unwrap_or(upper);
     0.5 * (f64::from(lower) + f64::from(upper))
 }
 
@@ -205,6 +205,11 @@ pub(super) fn replacement_mean(
     saturated: u16,
 ) -> Option<f32> {
     let width = correction.width();
+    // `Correction::new` refuses a zero width; the early return says so to the compiler,
+    // which removes the division-by-zero panic path.
+    if width == 0 {
+        return None;
+    }
     let bad = correction.bad();
     let height = counts.len() / width;
     let (row, col) = (p / width, p % width);

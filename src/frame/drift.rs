@@ -94,7 +94,16 @@ fn polyfit(u: &[f64], y: &[f64], degree: usize) -> Result<[f64; 3]> {
                 ai.total_cmp(&aj)
             })
             .unwrap_or(col);
-        a.swap(col, pivot);
+        // A checked exchange (array `swap` would keep a bounds panic the compiler cannot
+        // remove).
+        if let (Some(&row_pivot), Some(&row_col)) = (a.get(pivot), a.get(col)) {
+            if let Some(slot) = a.get_mut(col) {
+                *slot = row_pivot;
+            }
+            if let Some(slot) = a.get_mut(pivot) {
+                *slot = row_col;
+            }
+        }
         let Some(prow) = a.get(col).copied() else {
             return Err(Error::DriftIllConditioned);
         };
