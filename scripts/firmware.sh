@@ -51,8 +51,8 @@ tools() {
         die "missing: ${missing[*]}; install with: apt-get install -y rustc-web cargo-web rust-web-src gcc-arm-none-eabi qemu-system-arm"
     fi
     "$XRUSTC" --version
-    arm-none-eabi-gcc --version | head -n1
-    "$QEMU" --version | head -n1
+    arm-none-eabi-gcc --version | sed -n 1p
+    "$QEMU" --version | sed -n 1p
 }
 
 # Debian's cargo and rustc for the target: core and compiler_builtins built from source
@@ -240,8 +240,11 @@ measure() {
     python3 firmware/tools/budgets.py "$OUT" | tee "$OUT/budgets.md"
     echo
     echo "Largest functions of the full C example (opt-level 3), bytes:"
-    arm-none-eabi-nm --size-sort -S -r -C "$OUT/level3.elf" | awk '$3 ~ /^[tTrR]$/' |
-        head -n 10 | while read -r _ size _ name; do printf '%8d  %s\n' "0x$size" "$name"; done
+    # awk reads all of its input and keeps 10 lines (a `head` would close the pipe early,
+    # and with pipefail the writer's SIGPIPE fails the script).
+    arm-none-eabi-nm --size-sort -S -r -C "$OUT/level3.elf" |
+        awk '$3 ~ /^[tTrR]$/ && n++ < 10' |
+        while read -r _ size _ name; do printf '%8d  %s\n' "0x$size" "$name"; done
 }
 
 case ${1:-check} in
