@@ -195,7 +195,7 @@ pub fn detect_bad_pixels(
     Ok(report)
 }
 
-/// Mean corrected counts x' of the good 8-neighbours of pixel `p` whose raw counts are
+/// Mean corrected counts x = G n + O (before the drift step) of the good 8-neighbours of pixel `p` whose raw counts are
 /// strictly between the rails; None if there is none.
 pub(super) fn replacement_mean(
     correction: &Correction<'_>,
