@@ -89,7 +89,7 @@ impl<'a> FrameStack<'a> {
     ///
     /// # Errors
     /// [`Error::FrameLengthMismatch`] unless the frame has the stack's length;
-    /// [`Error::NucStackEmpty`] never; [`Error::TooManyInputs`] after `u32::MAX` frames.
+    /// [`Error::TooManyInputs`] after `u32::MAX` frames. On error the stack is unchanged.
     pub fn add_counts(&mut self, frame: &[u16]) -> Result<()> {
         self.add(frame.len(), frame.iter().map(|&n| f64::from(n)))
     }
@@ -529,7 +529,9 @@ impl FrameConverter<'_> {
     /// converter apply to the raw counts). A bad pixel takes the mean corrected counts of
     /// its good, in-rail 8-neighbours; with none it comes out NaN and is counted as dead
     /// and in `bad_unreplaced`. Everything else is as [`FrameConverter::convert_counts`]
-    /// (uniform scene; the emissivity-map path is not fused). With the identity step the
+    /// (uniform scene; the emissivity-map path is not fused). Rails are carried through
+    /// the kernel as -inf (dead) and +inf (saturated), so a map extreme enough to overflow
+    /// the corrected signal to +inf reads as saturated. With the identity step the
     /// scene stage's arithmetic is the plain path's, so identity maps give the plain
     /// conversion bit for bit.
     ///
