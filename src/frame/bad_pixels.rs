@@ -20,6 +20,8 @@
 //! [`BAD_USER`] for pixels known bad from elsewhere). A pixel is bad when its byte is
 //! nonzero. Thresholds of 5 robust sigmas and 3x the median noise are common starting
 //! points; the right values depend on the detector and should be checked on its data.
+//! A robust sigma of zero (more than half the array exactly at the median, as in
+//! noise-free synthetic frames) flags every pixel that differs from the median at all.
 
 use super::nonuniformity::{Correction, StackStats};
 use crate::error::{Error, Result};
