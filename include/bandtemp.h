@@ -3730,6 +3730,53 @@ bt_status bt_object_from_net_signal_band(const bt_band *band,
  */
 bt_status bt_effective_exponent_band(const bt_band *band, double temperature_k, double *out);
 
+/**
+ * As `bt_nuc_shutter_target_band` for a Sakuma-Hattori curve (signal in counts above
+ * dark): (S(shutter_k) - counts_offset) / counts_gain.
+ *
+ * Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_FRAME_COUNTS_MAP_INVALID`.
+ *
+ * # Safety
+ * `curve` null or valid for reading; `out` null or valid for writing.
+ */
+bt_status bt_nuc_shutter_target_sakuma_hattori(const bt_sakuma_hattori *curve,
+                                               double counts_gain,
+                                               double counts_offset,
+                                               double shutter_k,
+                                               double *out);
+
+/**
+ * As `bt_drift_fit_band` with the signal of a Sakuma-Hattori curve in place of the band
+ * radiance (R in counts per count of curve signal).
+ *
+ * Errors: as `bt_drift_fit_band`, with those of `bt_sakuma_hattori_signal`.
+ *
+ * # Safety
+ * `curve` null or valid for reading; `points` null or valid for reading `n` points;
+ * `out` null or valid for writing.
+ */
+bt_status bt_drift_fit_sakuma_hattori(const bt_sakuma_hattori *curve,
+                                      const bt_drift_point *points,
+                                      size_t n,
+                                      uint32_t degree,
+                                      bt_drift_model *out);
+
+/**
+ * As `bt_drift_step_band` for a Sakuma-Hattori converter.
+ *
+ * Errors: as `bt_drift_step_band`, with those of `bt_sakuma_hattori_signal`.
+ *
+ * # Safety
+ * `model`, `curve` null or valid for reading; `out` null or valid for writing.
+ */
+bt_status bt_drift_step_sakuma_hattori(const bt_drift_model *model,
+                                       const bt_sakuma_hattori *curve,
+                                       double counts_gain,
+                                       double counts_offset,
+                                       double fpa_k,
+                                       double internal_k,
+                                       bt_drift_step *out);
+
 #ifdef __cplusplus
 }  // extern "C"
 #endif  // __cplusplus

@@ -149,10 +149,11 @@ pub use ratio::{
 };
 pub use raw::{
     bt_bad_pixel_report, bt_bad_pixel_rules, bt_bad_pixels_detect, bt_corrected_summary,
-    bt_drift_fit_band, bt_drift_model, bt_drift_point, bt_drift_step, bt_drift_step_band,
-    bt_effective_exponent_band, bt_frame_convert_counts_corrected, bt_frame_spatial_stats,
-    bt_frame_stack_add_counts, bt_frame_stack_add_signal, bt_net_signal_band, bt_netd_k,
-    bt_nuc_shutter_refresh, bt_nuc_shutter_target_band, bt_nuc_two_point,
+    bt_drift_fit_band, bt_drift_fit_sakuma_hattori, bt_drift_model, bt_drift_point, bt_drift_step,
+    bt_drift_step_band, bt_drift_step_sakuma_hattori, bt_effective_exponent_band,
+    bt_frame_convert_counts_corrected, bt_frame_spatial_stats, bt_frame_stack_add_counts,
+    bt_frame_stack_add_signal, bt_net_signal_band, bt_netd_k, bt_nuc_shutter_refresh,
+    bt_nuc_shutter_target_band, bt_nuc_shutter_target_sakuma_hattori, bt_nuc_two_point,
     bt_object_from_net_signal_band, bt_spatial_stats, bt_stack_view, bt_two_point_report,
 };
 pub use scene::{

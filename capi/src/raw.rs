@@ -9,10 +9,12 @@
 //! (`BT_STATUS_INVALID_BUFFER`).
 
 use super::band::{band_from_c, bt_band};
+use super::calibration::{bt_sakuma_hattori, read_curve};
 use super::frame::{
     bt_frame_converter, bt_frame_row, bt_frame_summary, overlaps, read_state, rows_from_c,
 };
 use super::{bt_status, check_ptr, deliver, read_input, slice_from_c, slice_from_c_mut, Output};
+use bandtemp::band::SignalCurve;
 use bandtemp::frame::{
     detect_bad_pixels, effective_exponent, net_signal, netd_k, object_from_net_signal,
     shutter_refresh, shutter_target_counts, spatial_stats, two_point, BadPixelRules, Correction,
@@ -588,41 +590,50 @@ pub unsafe extern "C" fn bt_drift_fit_band(
     out: *mut bt_drift_model,
 ) -> bt_status {
     // SAFETY: the caller's guarantees.
-    unsafe {
-        deliver(out, || {
-            let band = band_from_c(band)?;
-            let pts = slice_from_c(points, n)?;
-            if pts.len() > MAX_DRIFT_POINTS {
-                return Err(Error::DriftTooFewPoints);
-            }
-            let mut copy = [DriftPoint {
-                fpa_k: 0.0,
-                internal_k: 0.0,
-                low_k: 0.0,
-                high_k: 0.0,
-                low_counts: 0.0,
-                high_counts: 0.0,
-            }; MAX_DRIFT_POINTS];
-            for (c, p) in copy.iter_mut().zip(pts) {
-                *c = DriftPoint {
-                    fpa_k: p.fpa_k,
-                    internal_k: p.internal_k,
-                    low_k: p.low_k,
-                    high_k: p.high_k,
-                    low_counts: p.low_counts,
-                    high_counts: p.high_counts,
-                };
-            }
-            let used = copy.get(..pts.len()).ok_or(Error::DriftTooFewPoints)?;
-            let m = DriftModel::fit(&band, used, degree)?;
-            Ok(bt_drift_model {
-                reference_k: m.reference_k,
-                degree: m.degree,
-                responsivity: m.responsivity,
-                offset: m.offset,
-            })
-        })
+    unsafe { deliver(out, || fit_drift(&band_from_c(band)?, points, n, degree)) }
+}
+
+/// Shared body of the drift fits.
+///
+/// # Safety
+/// `points` null or valid for reading `n` points.
+unsafe fn fit_drift<C: SignalCurve + ?Sized>(
+    curve: &C,
+    points: *const bt_drift_point,
+    n: usize,
+    degree: u32,
+) -> Result<bt_drift_model> {
+    // SAFETY: the caller's guarantee on `points`.
+    let pts = unsafe { slice_from_c(points, n) }?;
+    if pts.len() > MAX_DRIFT_POINTS {
+        return Err(Error::DriftTooFewPoints);
     }
+    let mut copy = [DriftPoint {
+        fpa_k: 0.0,
+        internal_k: 0.0,
+        low_k: 0.0,
+        high_k: 0.0,
+        low_counts: 0.0,
+        high_counts: 0.0,
+    }; MAX_DRIFT_POINTS];
+    for (c, p) in copy.iter_mut().zip(pts) {
+        *c = DriftPoint {
+            fpa_k: p.fpa_k,
+            internal_k: p.internal_k,
+            low_k: p.low_k,
+            high_k: p.high_k,
+            low_counts: p.low_counts,
+            high_counts: p.high_counts,
+        };
+    }
+    let used = copy.get(..pts.len()).ok_or(Error::DriftTooFewPoints)?;
+    let m = DriftModel::fit(curve, used, degree)?;
+    Ok(bt_drift_model {
+        reference_k: m.reference_k,
+        degree: m.degree,
+        responsivity: m.responsivity,
+        offset: m.offset,
+    })
 }
 
 /// Reads a drift model.
@@ -888,6 +899,79 @@ pub unsafe extern "C" fn bt_effective_exponent_band(
     unsafe {
         deliver(out, || {
             effective_exponent(&band_from_c(band)?, temperature_k)
+        })
+    }
+}
+
+/// As `bt_nuc_shutter_target_band` for a Sakuma-Hattori curve (signal in counts above
+/// dark): (S(shutter_k) - counts_offset) / counts_gain.
+///
+/// Errors: those of `bt_sakuma_hattori_signal`, `BT_STATUS_FRAME_COUNTS_MAP_INVALID`.
+///
+/// # Safety
+/// `curve` null or valid for reading; `out` null or valid for writing.
+#[no_mangle]
+pub unsafe extern "C" fn bt_nuc_shutter_target_sakuma_hattori(
+    curve: *const bt_sakuma_hattori,
+    counts_gain: f64,
+    counts_offset: f64,
+    shutter_k: f64,
+    out: *mut f64,
+) -> bt_status {
+    // SAFETY: the caller's guarantees.
+    unsafe {
+        deliver(out, || {
+            let curve = read_curve(curve)?;
+            let counts = CountsMap::linear(counts_gain, counts_offset)?;
+            shutter_target_counts(&curve, counts, shutter_k)
+        })
+    }
+}
+
+/// As `bt_drift_fit_band` with the signal of a Sakuma-Hattori curve in place of the band
+/// radiance (R in counts per count of curve signal).
+///
+/// Errors: as `bt_drift_fit_band`, with those of `bt_sakuma_hattori_signal`.
+///
+/// # Safety
+/// `curve` null or valid for reading; `points` null or valid for reading `n` points;
+/// `out` null or valid for writing.
+#[no_mangle]
+pub unsafe extern "C" fn bt_drift_fit_sakuma_hattori(
+    curve: *const bt_sakuma_hattori,
+    points: *const bt_drift_point,
+    n: usize,
+    degree: u32,
+    out: *mut bt_drift_model,
+) -> bt_status {
+    // SAFETY: the caller's guarantees.
+    unsafe { deliver(out, || fit_drift(&read_curve(curve)?, points, n, degree)) }
+}
+
+/// As `bt_drift_step_band` for a Sakuma-Hattori converter.
+///
+/// Errors: as `bt_drift_step_band`, with those of `bt_sakuma_hattori_signal`.
+///
+/// # Safety
+/// `model`, `curve` null or valid for reading; `out` null or valid for writing.
+#[no_mangle]
+pub unsafe extern "C" fn bt_drift_step_sakuma_hattori(
+    model: *const bt_drift_model,
+    curve: *const bt_sakuma_hattori,
+    counts_gain: f64,
+    counts_offset: f64,
+    fpa_k: f64,
+    internal_k: f64,
+    out: *mut bt_drift_step,
+) -> bt_status {
+    // SAFETY: the caller's guarantees.
+    unsafe {
+        deliver(out, || {
+            let m = read_model(model)?;
+            let curve = read_curve(curve)?;
+            let counts = CountsMap::linear(counts_gain, counts_offset)?;
+            let s = m.step(&curve, counts, fpa_k, internal_k)?;
+            Ok(bt_drift_step { a: s.a, b: s.b })
         })
     }
 }

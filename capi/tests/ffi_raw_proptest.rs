@@ -142,10 +142,32 @@ proptest! {
             reference_k: model[0], degree: degree % 3,
             responsivity: [model[1], model[2], model[3]], offset: [model[4], model[5], model[6]],
         };
+        // The same points through an arbitrary Sakuma-Hattori curve.
+        let sh = bt_sakuma_hattori { a_um: model[1], b_umk: model[2], c: model[3] };
+        let mut out = sentinel;
+        // SAFETY: valid pointers; n <= 3 points.
+        let s = unsafe { bt_drift_fit_sakuma_hattori(&sh, points.as_ptr(), n, degree, &mut out) };
+        if s == bt_status::Ok {
+            prop_assert!(out.reference_k.is_finite() && out.degree <= 2);
+        } else {
+            prop_assert_eq!(out, sentinel);
+        }
+        let mut target = SENTINEL;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_nuc_shutter_target_sakuma_hattori(&sh, model[4], model[5], t, &mut target) };
+        prop_assert!(sane(s, target), "status {:?}, out {}", s, target);
         let step_sentinel = bt_drift_step { a: -7.0, b: -7.0 };
         let mut step = step_sentinel;
         // SAFETY: valid pointers.
         let s = unsafe { bt_drift_step_band(&m, &band, 0.01, -1.0, t, 300.0, &mut step) };
+        if s == bt_status::Ok {
+            prop_assert!(step.a > 0.0 && step.a.is_finite() && step.b.is_finite());
+        } else {
+            prop_assert_eq!(step, step_sentinel);
+        }
+        let mut step = step_sentinel;
+        // SAFETY: valid pointers.
+        let s = unsafe { bt_drift_step_sakuma_hattori(&m, &sh, 1.0, 0.0, t, 300.0, &mut step) };
         if s == bt_status::Ok {
             prop_assert!(step.a > 0.0 && step.a.is_finite() && step.b.is_finite());
         } else {

@@ -20,6 +20,8 @@
 //! [`BAD_USER`] for pixels known bad from elsewhere). A pixel is bad when its byte is
 //! nonzero. Thresholds of 5 robust sigmas and 3x the median noise are common starting
 //! points; the right values depend on the detector and should be checked on its data.
+//! A robust sigma of zero (more than half the array exactly at the median, as in
+//! noise-free synthetic frames) flags every pixel that differs from the median at all.
 
 use super::nonuniformity::{Correction, StackStats};
 use crate::error::{Error, Result};
@@ -195,7 +197,7 @@ pub fn detect_bad_pixels(
     Ok(report)
 }
 
-/// Mean corrected counts x' of the good 8-neighbours of pixel `p` whose raw counts are
+/// Mean corrected counts x = G n + O (before the drift step) of the good 8-neighbours of pixel `p` whose raw counts are
 /// strictly between the rails; None if there is none.
 pub(super) fn replacement_mean(
     correction: &Correction<'_>,

@@ -4,7 +4,7 @@
 //!
 //! # Definitions (EMVA Standard 1288, Release 4.0, open standard)
 //!
-//! For a stack of L frames of an M x N sensor with per-pixel means <y>_p:
+//! For a stack of L frames of an M x N sensor with per-pixel means `<y>_p`:
 //!
 //! ```text
 //! temporal variance    sigma_y^2 = mean over pixels of the pixels' temporal variance

@@ -32,7 +32,7 @@ pub struct PixelMap {
 }
 
 /// An offset split into an f32 integer part (exact below 2^24) and an f32 remainder.
-fn split_offset(value: f64) -> Result<(f32, f32)> {
+pub(super) fn split_offset(value: f64) -> Result<(f32, f32)> {
     let whole = if libm::fabs(value) < 16_777_216.0 {
         libm::round(value)
     } else {
@@ -91,6 +91,16 @@ impl PixelMap {
     #[inline(always)]
     pub(super) fn object_counts(&self, counts: f32) -> f32 {
         ((counts - self.counts_zero_int) - self.counts_zero_rem) * self.counts_scale
+    }
+
+    /// The uniform-scene counts coefficients (zero_int, zero_rem, scale), for a stage that
+    /// folds a per-frame affine step on the counts into them (`nonuniformity.rs`).
+    pub(super) fn counts_coefficients(&self) -> (f32, f32, f32) {
+        (
+            self.counts_zero_int,
+            self.counts_zero_rem,
+            self.counts_scale,
+        )
     }
 
     /// Object signal L of a pixel with `counts` and emissivity `e`, curve units.

@@ -3276,6 +3276,42 @@ static void test_raw_frames(void) {
     }
     CHECK(bt_netd_k(1.0, 1.0, NULL) == BT_STATUS_NULL_POINTER);
     CHECK(bt_netd_k(1.0, 1.0, (double *)misaligned(&out)) == BT_STATUS_INVALID_BUFFER);
+    /* Sakuma-Hattori curves (signal in counts above dark): the shutter target against the
+     * closed form S = C / (exp(c2 / (A T + B)) - 1) written out here, and a drift fit that
+     * returns known polynomials. */
+    {
+        const bt_sakuma_hattori sh = {10.0, 20.0, 4.0e6};
+        const double c2 = 14387.768775039337; /* um K, CODATA 2018 h c / k */
+        double want, got = SENTINEL, sl, shh, si;
+        bt_drift_model shm;
+        bt_drift_step shs;
+        want = (sh.c / (exp(c2 / (sh.a_um * 300.0 + sh.b_umk)) - 1.0) - (-100.0)) / 1.5;
+        CHECK(bt_nuc_shutter_target_sakuma_hattori(&sh, 1.5, -100.0, 300.0, &got) == BT_STATUS_OK);
+        CHECK(fabs(got - want) < 1e-12 * fabs(want));
+        got = SENTINEL;
+        CHECK(bt_nuc_shutter_target_sakuma_hattori(NULL, 1.5, -100.0, 300.0, &got) ==
+                  BT_STATUS_NULL_POINTER && untouched(got));
+        for (k = 0; k < 3; k++) {
+            double t = 298.0 + 5.0 * (double)k;
+            double r = 2.0 * (1.0 - 0.004 * (t - 303.0)), of = 9000.0 + 90.0 * (t - 303.0);
+            CHECK(bt_sakuma_hattori_signal(&sh, 293.15, &sl) == BT_STATUS_OK);
+            CHECK(bt_sakuma_hattori_signal(&sh, 333.15, &shh) == BT_STATUS_OK);
+            CHECK(bt_sakuma_hattori_signal(&sh, t - 1.5, &si) == BT_STATUS_OK);
+            points[k].fpa_k = t; points[k].internal_k = t - 1.5;
+            points[k].low_k = 293.15; points[k].high_k = 333.15;
+            points[k].low_counts = r * (sl - si) + of;
+            points[k].high_counts = r * (shh - si) + of;
+        }
+        CHECK(bt_drift_fit_sakuma_hattori(&sh, points, 3, 1, &shm) == BT_STATUS_OK);
+        CHECK(fabs(shm.responsivity[0] - 2.0) < 1e-9 && fabs(shm.offset[1] - 90.0) < 1e-6);
+        CHECK(bt_drift_fit_sakuma_hattori(NULL, points, 3, 1, &shm) == BT_STATUS_NULL_POINTER);
+        CHECK(bt_drift_step_sakuma_hattori(&shm, &sh, 1.0, 0.0, 303.0, 301.5, &shs) ==
+              BT_STATUS_OK);
+        /* a = 1 / (g R) with g = 1 and R(303 K) = 2. */
+        CHECK(fabs(shs.a - 0.5f) < 1e-6f);
+        CHECK(bt_drift_step_sakuma_hattori(&shm, NULL, 1.0, 0.0, 303.0, 301.5, &shs) ==
+              BT_STATUS_NULL_POINTER);
+    }
 }
 
 int main(void) {
