@@ -121,6 +121,20 @@ fn frame(c: &mut Criterion) {
             )
         });
     });
+    // What every C call does before converting: re-wrap the stored state and rows, which
+    // checks the geometry and recomputes the rows' fingerprint. Same frame, same run.
+    let state = converter.state();
+    let rows = converter.table().rows();
+    group.bench_function("table_uniform_scene_rewrapped_each_frame", |b| {
+        b.iter(|| {
+            let again = FrameConverter::from_parts(black_box(state), black_box(rows)).unwrap();
+            black_box(
+                again
+                    .convert_counts(black_box(&s.counts), None, &mut out)
+                    .unwrap(),
+            )
+        });
+    });
     group.sample_size(10);
     group.bench_function("exact_per_pixel_inversion", |b| {
         b.iter(|| {
@@ -139,5 +153,85 @@ fn frame(c: &mut Criterion) {
     group.finish();
 }
 
-criterion_group!(benches, frame);
+/// The re-wrap alone (geometry check and fingerprint of the rows), beside a copy of the
+/// same rows' bytes as the floor.
+fn rewrap(c: &mut Criterion) {
+    let s = setup();
+    let range = TemperatureRange::new(250.0, 1500.0).unwrap();
+    let mut storage: Vec<TableRow> = vec![[0.0; 4]; 256];
+    let converter = FrameConverter::new(
+        &s.band,
+        &s.scene,
+        s.counts_map,
+        Rails::default(),
+        range,
+        1e-3,
+        &mut storage,
+    )
+    .unwrap();
+    let state = converter.state();
+    let rows = converter.table().rows();
+    let mut group = c.benchmark_group("rewrap_61_rows");
+    group.bench_function("copy_rows_floor", |b| {
+        let mut copy = [[0.0f32; 4]; 61];
+        b.iter(|| {
+            for (y, x) in copy.iter_mut().zip(black_box(rows)) {
+                *y = *x;
+            }
+            black_box(&mut copy);
+        });
+    });
+    group.bench_function("from_parts_with_fingerprint", |b| {
+        b.iter(|| {
+            black_box(FrameConverter::from_parts(
+                black_box(state),
+                black_box(rows),
+            ))
+        });
+    });
+    group.finish();
+}
+
+/// Refusals of unservable ranges (each must come back without building rows), beside the
+/// start-up of a servable 1 mK table in the same run.
+fn refusal(c: &mut Criterion) {
+    let mut group = c.benchmark_group("table_rows_refusal");
+    group.sample_size(10);
+    let nir = Band::rectangular(0.9, 1.1, Detector::Energy).unwrap();
+    let lwir = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+    let absurd_hot = TemperatureRange::new(300.0, 1.39e25).unwrap();
+    let absurd_wide = TemperatureRange::new(250.0, 1e6).unwrap();
+    group.bench_function("nir_300k_to_1e25k_0.9k", |b| {
+        b.iter(|| black_box(FrameTable::required_rows(&nir, black_box(absurd_hot), 0.9)));
+    });
+    group.bench_function("lwir_250k_to_1e6k_1mk", |b| {
+        b.iter(|| {
+            black_box(FrameTable::required_rows(
+                &lwir,
+                black_box(absurd_wide),
+                1e-3,
+            ))
+        });
+    });
+    // The slowest refusal found: a blue photon band whose table passes its probes at
+    // ~1250 rows, fails the full check, and the next level would exceed MAX_TABLE_ROWS.
+    let blue = Band::rectangular(0.4, 0.5, Detector::Photon).unwrap();
+    let blue_range = TemperatureRange::new(500.0, 5000.0).unwrap();
+    group.bench_function("blue_photon_500_5000k_0.5mk_too_large", |b| {
+        b.iter(|| {
+            black_box(FrameTable::required_rows(
+                &blue,
+                black_box(blue_range),
+                5e-4,
+            ))
+        });
+    });
+    let servable = TemperatureRange::new(250.0, 1200.0).unwrap();
+    group.bench_function("lwir_250_1200k_1mk_servable", |b| {
+        b.iter(|| black_box(FrameTable::required_rows(&lwir, black_box(servable), 1e-3)));
+    });
+    group.finish();
+}
+
+criterion_group!(benches, frame, rewrap, refusal);
 criterion_main!(benches);

@@ -340,9 +340,9 @@ pub fn brewster_angle_deg(n: f64) -> Result<f64> {
     }
 }
 
-/// 4 pi c eps0 in ohm^-1 ... the Hagen-Rubens constant: n^2 = k^2 = lambda / (4 pi c eps0
-/// r_e) with c eps0 = 1/Z0 (Z0 = 376.730313412 ohm, CODATA 2018), so 4 pi c eps0 =
-/// 4 pi / Z0 = 0.0333564095... S (siemens).
+/// The Hagen-Rubens constant 4 pi c eps0 = 4 pi / Z0 = 0.0333564... S (siemens), with the
+/// impedance of free space Z0 = 1/(c eps0) = 376.730313412 ohm (CODATA 2018): the Drude
+/// low-frequency optical constants are n^2 = k^2 = lambda / (4 pi c eps0 r_e).
 const HAGEN_RUBENS_S: f64 = 4.0 * core::f64::consts::PI / 376.730_313_412;
 
 /// Hagen-Rubens normal spectral emissivity of a metal, first term only:
@@ -357,11 +357,17 @@ const HAGEN_RUBENS_S: f64 = 4.0 * core::f64::consts::PI / 376.730_313_412;
 /// sqrt(lambda / (4 pi c eps0 r_e)) ([`hagen_rubens_constants`]); its relative error is
 /// about 1/n = e_n/2, so it is refused above e_n = 0.2 (error then near 10 %).
 ///
-/// Second term: a second-order coefficient (-0.0464 r_e/lambda) circulates in heat-
-/// transfer texts (quoted here from memory). We could not find a printed source to check
-/// it against, and expanding the exact Fresnel normal emissivity 4n/(2n^2 + 2n + 1) at
-/// n = k gives 2/n - 2/n^2 + ..., i.e. -0.0667 r_e/lambda, which does not match it. So only
-/// the first term ships; for more accuracy use the exact Fresnel value of
+/// First term, checked: the Hagen-Rubens relation as the encyclopaedia article on it gives
+/// it (citing R. E. Hummel, *Electronic Properties of Materials*, 4th ed.; Hummel itself
+/// not seen) reads R ~= 1 - 2 sqrt(2 eps0 omega / sigma); with omega = 2 pi c / lambda
+/// and sigma = 1/r_e that is e = 1 - R = 2 sqrt(4 pi c eps0 r_e / lambda) =
+/// 0.36528 sqrt(r_e / lambda), the coefficient above (`tests/emissivity_fresnel.rs`).
+///
+/// Second term, not confirmed: a second-order coefficient (-0.0464 r_e/lambda) circulates
+/// in heat-transfer texts (quoted here from memory). We found no printed source to check it
+/// against, and expanding the exact Fresnel normal emissivity 4n/(2n^2 + 2n + 1) at n = k
+/// gives 2/n - 2/n^2 + ..., i.e. -0.0667 r_e/lambda, which does not match it. So only the
+/// first term ships; for more accuracy use the exact Fresnel value of
 /// [`hagen_rubens_constants`], and for any metal at wavelengths where the Drude
 /// low-frequency limit fails (below a few um for most metals) use measured n, k.
 ///

@@ -265,6 +265,12 @@ pub enum Error {
     TargetRuleInvalid,
     /// Spectral moments with a mean wavelength that is not positive or a negative variance.
     MomentsInvalid,
+    /// Table rows that are not the ones the converter or geometry was built with: their
+    /// fingerprint (of the rows' bytes and the geometry) differs from the stored one.
+    FrameRowsMismatch,
+    /// The table would need more rows than [`crate::frame::MAX_TABLE_ROWS`] (refused up
+    /// front, before the rows are built).
+    FrameTableTooLarge,
 }
 
 impl Error {
@@ -437,6 +443,8 @@ impl Error {
             Error::EmissivityModelInvalid => "emissivity model must have 0 to 3 terms",
             Error::TargetRuleInvalid => "unknown minimum-target rule",
             Error::MomentsInvalid => "moments need a positive mean and non-negative variance",
+            Error::FrameRowsMismatch => "the table rows are not the ones the converter was built with",
+            Error::FrameTableTooLarge => "the table would need more rows than the library builds",
         }
     }
 }

@@ -706,4 +706,52 @@ mod tests {
         assert!(worst.offer(4, 340.0, f64::NAN));
         assert_eq!(worst.index, 4);
     }
+
+    /// A table whose rows are wrong but whose fingerprint matches them (what a faulty
+    /// table builder would hand over; rows merely changed after the build are refused
+    /// earlier, by the fingerprint). Crate-internal: the public API cannot make one.
+    fn refingerprinted<'t>(
+        table: &FrameTable<'_>,
+        rows: &'t [crate::frame::TableRow],
+    ) -> FrameTable<'t> {
+        let mut geometry = table.geometry();
+        geometry.fingerprint = crate::frame::fingerprint::fingerprint(&geometry, rows);
+        FrameTable::from_parts(geometry, rows).unwrap()
+    }
+
+    #[test]
+    fn a_moved_row_is_found_in_that_row_and_a_downhill_row_is_counted() {
+        use crate::band::Band;
+        use crate::frame::{TableRow, TemperatureRange};
+        use crate::planck::Detector;
+        let band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+        let range = TemperatureRange::new(250.0, 1500.0).unwrap();
+        let mut storage = [[0.0f32; 4]; 128];
+        let needed = FrameTable::required_rows(&band, range, 1e-3).unwrap();
+        let table = FrameTable::build(&band, range, 1e-3, &mut storage[..needed]).unwrap();
+        let n = table.rows().len();
+        let mut rows: [TableRow; 128] = [[0.0; 4]; 128];
+        rows[..n].copy_from_slice(table.rows());
+        let k = n / 2;
+        rows[k][0] += 0.05; // the row's constant term: +50 mK over the whole row
+        let moved = refingerprinted(&table, &rows[..n]);
+        let report = frame_table(&moved, &band, 37).unwrap();
+        assert!(
+            (report.max_abs_error_k - 0.05).abs() < 1e-3,
+            "50 mK within the table's own 1 mK: {report:?}"
+        );
+        assert!(report.worst_error_k > 0.0);
+        let (s0, s1) = moved.interval(k).unwrap();
+        assert!(
+            report.worst_signal >= f64::from(s0) && report.worst_signal < f64::from(s1),
+            "{report:?} not in row {k}"
+        );
+
+        // A row turned downhill: the table's output falls with rising signal there.
+        rows[..n].copy_from_slice(table.rows());
+        rows[k][1] = -rows[k][1].abs();
+        let downhill = refingerprinted(&table, &rows[..n]);
+        let report = frame_table(&downhill, &band, 37).unwrap();
+        assert!(report.non_monotonic > 0, "{report:?}");
+    }
 }

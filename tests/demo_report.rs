@@ -42,7 +42,10 @@ fn one_flag_vocabulary_with_its_rule() {
         );
     }
     for flag in ["REFUSED  ", "UNSURE   ", "CHECK    ", "OK       "] {
-        assert!(text.contains(&format!("  {flag}")), "the rule for {flag} is printed");
+        assert!(
+            text.contains(&format!("  {flag}")),
+            "the rule for {flag} is printed"
+        );
     }
 }
 
@@ -54,7 +57,9 @@ fn every_reading_carries_its_inputs() {
     assert!(text.contains("air path 60 m at 302.0 K, relative humidity 85 %"));
     assert!(text.contains("window tw 0.72, rw 0.06"));
     // Air and window transmittances are separate columns.
-    assert!(text.lines().any(|l| l.contains(" air ") && l.contains(" window ")));
+    assert!(text
+        .lines()
+        .any(|l| l.contains(" air ") && l.contains(" window ")));
     // Budget input names carry no nested parentheses.
     assert!(text.contains("largest input: calibration, temperature scale,"));
     assert!(!text.contains("((") && !text.contains("))"));
@@ -86,7 +91,10 @@ fn instrument_has_a_plain_descriptive_name() {
     for word in instrument.split(|c: char| c.is_whitespace() || c == ',') {
         let letters = word.chars().any(|c| c.is_ascii_uppercase());
         let digits = word.chars().any(|c| c.is_ascii_digit());
-        assert!(!(letters && digits), "model-code-like word {word:?} in {instrument}");
+        assert!(
+            !(letters && digits),
+            "model-code-like word {word:?} in {instrument}"
+        );
     }
     assert!(instrument.contains("fictional"));
 }

@@ -142,12 +142,19 @@ fn printed_check_values() {
 }
 
 /// Hagen-Rubens: the first term is the leading term of the exact n = k Fresnel value;
-/// 0.365 is its printed coefficient (Siegel and Howell), 2 sqrt(4 pi / Z0) = 0.36528.
+/// 0.365 is the coefficient as heat-transfer texts print it (Siegel and Howell, from
+/// memory); derived, 2 sqrt(4 pi / Z0) = 0.36528.
 #[test]
 fn hagen_rubens_first_term() {
     // An invented conductor, r_e = 1e-7 ohm m, at 10 um: r_e/lambda = 0.01 ohm.
     let e = hagen_rubens_normal(1e-7, 10.0).unwrap();
     assert_close("0.365 sqrt(r/l)", e, 0.365 * 0.1, 1.0e-3, 0.0);
+    // The relation as published, A = 1 - R = 2 sqrt(2 eps0 omega / sigma) (Hummel,
+    // Electronic Properties of Materials, via the encyclopaedia article), with
+    // eps0 = 8.8541878128e-12 F/m (CODATA 2018), omega = 2 pi c / lambda, sigma = 1/r_e.
+    let omega = 2.0 * std::f64::consts::PI * 299_792_458.0 / 10e-6;
+    let published = 2.0 * (2.0 * 8.854_187_812_8e-12 * omega * 1e-7).sqrt();
+    assert_close("published relation", e, published, 1e-9, 0.0);
     let m = hagen_rubens_constants(1e-7, 10.0).unwrap();
     assert_eq!(m.n(), m.k());
     // Relative error of the first term about 1/n = e/2.

@@ -129,9 +129,11 @@ fn tighter_tolerance_needs_more_rows_and_is_still_met() {
     let range = TemperatureRange::new(250.0, 1500.0).unwrap();
     let coarse = FrameTable::required_rows(&band, range, 1e-2).unwrap();
     let fine = FrameTable::required_rows(&band, range, 1e-3).unwrap();
-    let finer = FrameTable::required_rows(&band, range, 3e-4).unwrap();
+    // 0.4 mK: the f32 floor at 1500 K is about 0.26 mK (u T for the last Horner addition
+    // plus 1.5 ulps of L in kelvin, 3u L / L'), so this is close to the finest reachable.
+    let finer = FrameTable::required_rows(&band, range, 4e-4).unwrap();
     assert!(coarse < fine && fine < finer, "{coarse} {fine} {finer}");
-    check_every_interval(&band, 250.0, 1500.0, 3e-4);
+    check_every_interval(&band, 250.0, 1500.0, 4e-4);
 }
 
 #[test]
@@ -192,7 +194,7 @@ fn from_parts_round_trips_and_rejects_tampered_geometry() {
     );
     // A finer table's geometry claims more rows than these.
     let mut finer_storage = vec![[0.0f32; 4]; 8192];
-    let finer = FrameTable::build(&band, range, 3e-4, &mut finer_storage)
+    let finer = FrameTable::build(&band, range, 4e-4, &mut finer_storage)
         .unwrap()
         .geometry();
     assert!(finer.rows() > geometry.rows());
@@ -200,4 +202,62 @@ fn from_parts_round_trips_and_rejects_tampered_geometry() {
         FrameTable::from_parts(finer, &rows).map(|t| t.geometry()),
         Err(Error::FrameStorageTooSmall)
     );
+}
+
+#[test]
+fn unservable_ranges_are_refused_up_front() {
+    // Below the f32 output floor (u hi_k / 4): refused before any band integral.
+    let nir = Band::rectangular(0.9, 1.1, Detector::Energy).unwrap();
+    let hot = TemperatureRange::new(300.0, 1.39e25).unwrap();
+    assert_eq!(
+        FrameTable::required_rows(&nir, hot, 0.9),
+        Err(Error::FrameToleranceUnreachable)
+    );
+    let wide = TemperatureRange::new(250.0, 1e6).unwrap();
+    assert_eq!(
+        FrameTable::required_rows(&lwir(), wide, TOLERANCE_K),
+        Err(Error::FrameToleranceUnreachable)
+    );
+    // Reachable in f32 but more rows than the library builds.
+    let blue = Band::rectangular(0.4, 0.5, Detector::Photon).unwrap();
+    let range = TemperatureRange::new(500.0, 5000.0).unwrap();
+    assert_eq!(
+        FrameTable::required_rows(&blue, range, 5e-4),
+        Err(Error::FrameTableTooLarge)
+    );
+    let rows = FrameTable::required_rows(&blue, range, 1e-3).unwrap();
+    assert!(rows <= bandtemp::frame::MAX_TABLE_ROWS, "{rows}");
+    // Storage too small is known from the rows of the level, before building.
+    let mut storage = vec![[0.0f32; 4]; 16];
+    assert_eq!(
+        FrameTable::build(&blue, range, 1e-3, &mut storage).map(|t| t.geometry()),
+        Err(Error::FrameStorageTooSmall)
+    );
+}
+
+#[test]
+fn required_rows_is_what_build_uses() {
+    // `required_rows` decides lazily (a row's centre-only bound where it fits), `build`
+    // checks every row densely: the two must pick the same level, including near each
+    // level's edge (tolerances spaced finer than the 16x per level of Hermite tables).
+    let mwir = Band::rectangular(3.0, 5.0, Detector::Photon).unwrap();
+    let sh = SakumaHattori::new(0.9325, 0.41, 6e8).unwrap();
+    let curves: [(&dyn SignalCurve, f64, f64); 3] = [
+        (&lwir(), 250.0, 1500.0),
+        (&mwir, 300.0, 1000.0),
+        (&sh, 850.0, 1450.0),
+    ];
+    let mut storage = vec![[0.0f32; 4]; 2048];
+    for (curve, lo_k, hi_k) in curves {
+        let range = TemperatureRange::new(lo_k, hi_k).unwrap();
+        let mut tolerance_k = 2e-2;
+        while tolerance_k > 4e-4 {
+            let rows = FrameTable::required_rows(curve, range, tolerance_k).unwrap();
+            let built = FrameTable::build(curve, range, tolerance_k, &mut storage)
+                .unwrap()
+                .geometry();
+            assert_eq!(built.rows(), rows, "{lo_k}-{hi_k} K at {tolerance_k} K");
+            tolerance_k *= 0.8;
+        }
+    }
 }

@@ -318,34 +318,28 @@ fn a_sound_table_passes_within_its_tolerance() {
     );
 }
 
+/// Rows changed after the build (a moved row, a row turned downhill) never reach the
+/// check: the table's fingerprint refuses them when the stored parts are re-wrapped. (How
+/// the check finds such rows in a table whose fingerprint matches them, as a faulty table
+/// builder would produce, is tested inside the crate, `src/verify.rs`.)
 #[test]
-fn a_moved_row_is_found_in_that_row() {
-    let band = Band::rectangular(8.0, 14.0, Detector::Energy).unwrap();
+fn rows_changed_after_the_build_are_refused_before_the_check() {
     let mut storage = Vec::new();
     let table = lwir_table(&mut storage);
     let geometry = table.geometry();
+    let k = table.rows().len() / 2;
     let mut rows = table.rows().to_vec();
-    let k = rows.len() / 2;
-    rows[k][0] += 0.05; // the row's constant term: +50 mK over the whole row
-    let moved = FrameTable::from_parts(geometry, &rows).unwrap();
-    let report = verify::frame_table(&moved, &band, 37).unwrap();
-    assert!(
-        (report.max_abs_error_k - 0.05).abs() < 1e-3,
-        "50 mK within the table's own 1 mK: {report:?}"
+    rows[k][0] += 0.05;
+    assert_eq!(
+        FrameTable::from_parts(geometry, &rows).err(),
+        Some(Error::FrameRowsMismatch)
     );
-    assert!(report.worst_error_k > 0.0);
-    let (s0, s1) = moved.interval(k).unwrap();
-    assert!(
-        report.worst_signal >= f64::from(s0) && report.worst_signal < f64::from(s1),
-        "{report:?} not in row {k}"
-    );
-
-    // A row turned downhill: the table's output falls with rising signal there.
     let mut rows = table.rows().to_vec();
     rows[k][1] = -rows[k][1].abs();
-    let downhill = FrameTable::from_parts(geometry, &rows).unwrap();
-    let report = verify::frame_table(&downhill, &band, 37).unwrap();
-    assert!(report.non_monotonic > 0, "{report:?}");
+    assert_eq!(
+        FrameTable::from_parts(geometry, &rows).err(),
+        Some(Error::FrameRowsMismatch)
+    );
 }
 
 #[test]

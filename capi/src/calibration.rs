@@ -623,7 +623,7 @@ fn curve_out(form: bt_curve_form, a_um: f64, b_umk: f64, c: f64, offset: f64) ->
 
 /// Fits a curve of `form` (`BT_CURVE_FORM_PLANCK` or `BT_CURVE_FORM_WIEN`) to `n` >= 3
 /// blackbody readings (`t_k[i]` K, `signal[i]` signal units) behind a known
-/// `dark_offset`: the curve is fitted to signal[i] - dark_offset by Levenberg-Marquardt,
+/// `dark_offset`: the curve is fitted to `signal[i] - dark_offset` by Levenberg-Marquardt,
 /// in temperature without `signal_u` (NULL), or by maximum likelihood in signal with the
 /// signals' standard uncertainties `signal_u` (n positive doubles). `out->curve.offset`
 /// is `dark_offset`. Exact data from a curve of the form are recovered to below 1 uK.

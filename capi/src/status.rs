@@ -263,6 +263,12 @@ pub enum bt_status {
     TargetRuleInvalid = 917,
     /// Spectral moments with a mean wavelength that is not positive or a negative variance.
     MomentsInvalid = 918,
+    /// Table rows that are not the ones the converter was built with (their fingerprint
+    /// differs): another table's rows, or rows changed since.
+    FrameRowsMismatch = 712,
+    /// The table would need more rows than the library builds (4096 rows, 64 KiB); refused
+    /// up front, before any row is built.
+    FrameTableTooLarge = 713,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -417,6 +423,8 @@ status_table!(
     EmissivityModelInvalid,
     TargetRuleInvalid,
     MomentsInvalid,
+    FrameRowsMismatch,
+    FrameTableTooLarge,
 );
 
 impl bt_status {

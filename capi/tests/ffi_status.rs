@@ -117,6 +117,8 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::EmissivityModelInvalid, 916),
     (bt_status::TargetRuleInvalid, 917),
     (bt_status::MomentsInvalid, 918),
+    (bt_status::FrameRowsMismatch, 712),
+    (bt_status::FrameTableTooLarge, 713),
 ];
 
 fn message(raw: c_int) -> &'static str {

@@ -166,15 +166,13 @@ impl<'t> FrameConverter<'t> {
             None => map.object_signal(signal),
             Some(e) => map.object_signal_e(signal, e),
         };
-        let status = if signal.is_finite() {
-            match emissivity {
-                Some(e) if !(valid_emissivity(e) && map.map_ready == 1) => {
-                    PixelStatus::EmissivityInvalid
-                }
-                _ => lookup.classify(object),
+        // The documented order: an invalid emissivity wins over a non-finite signal.
+        let status = match emissivity {
+            Some(e) if !(valid_emissivity(e) && map.map_ready == 1) => {
+                PixelStatus::EmissivityInvalid
             }
-        } else {
-            PixelStatus::NonFinite
+            _ if !signal.is_finite() => PixelStatus::NonFinite,
+            _ => lookup.classify(object),
         };
         finish(&lookup, object, status)
     }

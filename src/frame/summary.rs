@@ -1,7 +1,9 @@
 //! Per-pixel outcomes and their tally for one frame.
 
 /// What became of one pixel. Every pixel gets exactly one status; the first that applies
-/// in this order wins.
+/// in this order (the order of the variants) wins: dead, saturated, invalid emissivity,
+/// non-finite signal, below background, below range, above range. So a NaN signal with
+/// emissivity 0 is [`PixelStatus::EmissivityInvalid`]; from counts, the rails come first.
 #[repr(u32)]
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 pub enum PixelStatus {

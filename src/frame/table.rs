@@ -1,9 +1,11 @@
 //! The table stage: rows (cubic Hermite pieces of T(L) on f32-bit segments), their
 //! construction and the check that measures them against exact inversion.
 
-use super::lookup::{eval_row, Lookup};
+use super::build::plan;
+use super::fingerprint::fingerprint;
+use super::lookup::Lookup;
 use super::params::TemperatureRange;
-use super::{to_f32, to_f32_checked, MANTISSA_BITS, MAX_LEVEL};
+use super::{to_f32, MANTISSA_BITS, MAX_LEVEL};
 use crate::band::SignalCurve;
 use crate::error::{Error, Result};
 
@@ -13,13 +15,6 @@ use crate::error::{Error, Result};
 /// coefficients in t = r 2^-(23 - level) scaled by powers of two (exact), which saves the
 /// per-pixel scaling of t. In C: `float[4]`.
 pub type TableRow = [f32; 4];
-/// Check points per row of the construction check (t = j/16).
-const CHECK_POINTS: u32 = 16;
-
-/// Allowance, in f32 ulps of L, for the counts-to-signal arithmetic of a uniform scene:
-/// (n - z_int) is exact, `- z_rem` and `* scale` each round once (0.5 ulp), and the f32
-/// scale itself carries 0.5 ulp.
-const SIGNAL_ROUNDING_ULPS: f64 = 1.5;
 
 /// The largest signal a table may cover: two octaves below f32::MAX, so the end of the
 /// last segment is still finite.
@@ -41,14 +36,16 @@ pub struct TableGeometry {
     /// f32 signal at `hi_k` (nearest), curve units: larger signals are above range.
     pub(super) signal_hi: f32,
     /// Declared range, K.
-    lo_k: f64,
-    hi_k: f64,
+    pub(super) lo_k: f64,
+    pub(super) hi_k: f64,
     /// Requested tolerance, K.
-    tolerance_k: f64,
-    /// Measured max |T_table(L) - T(L)| over the check grid, K.
-    max_table_error_k: f64,
+    pub(super) tolerance_k: f64,
+    /// Bound on |T_table(L) - T(L)| for f32 signals L in range, K.
+    pub(super) max_table_error_k: f64,
     /// `max_table_error_k` plus the uniform-scene signal rounding allowance, K.
-    max_pixel_error_k: f64,
+    pub(super) max_pixel_error_k: f64,
+    /// Fingerprint of the rows and the fields above (see `fingerprint.rs`).
+    pub(crate) fingerprint: u64,
 }
 
 impl TableGeometry {
@@ -90,19 +87,29 @@ impl TableGeometry {
     pub fn tolerance_k(&self) -> f64 {
         self.tolerance_k
     }
-    /// Measured max |T_table(L) - T_exact(L)| on the check grid (16 points per row and
-    /// the range ends; f32 table evaluation against exact inversion of the same f32
-    /// signal), K.
+    /// Bound on |T_table(L) - T_exact(L)| for every f32 signal L in
+    /// [`TableGeometry::signal_lo`]..=[`TableGeometry::signal_hi`]: the f32 table evaluation
+    /// against exact inversion of the same signal, K. Per row, the largest error at 9 check
+    /// points (measured with the stored f32 coefficients) times 8/7 for the points between
+    /// them (or, where smaller, twice the centre error plus the coefficients' rounding),
+    /// plus a rigorous bound on the f32 Horner rounding; see the derivation in the module
+    /// docs ("Accuracy") and in `build.rs`.
     #[must_use]
     pub fn max_table_error_k(&self) -> f64 {
         self.max_table_error_k
     }
-    /// [`TableGeometry::max_table_error_k`] plus 1.5 f32 ulps of L converted to kelvin
-    /// (L / L'(T)): the bound for a uniform-scene pixel from counts; at most the
-    /// tolerance, K.
+    /// [`TableGeometry::max_table_error_k`] plus 2 f32 ulps of L converted to kelvin
+    /// (2^-22 L / L'(T), the largest over the rows): the bound for a uniform-scene pixel
+    /// from counts against exact inversion of the f64 signal; at most the tolerance, K.
     #[must_use]
     pub fn max_pixel_error_k(&self) -> f64 {
         self.max_pixel_error_k
+    }
+    /// The fingerprint of the rows this geometry was built with (and of the geometry),
+    /// checked by [`FrameTable::from_parts`].
+    #[must_use]
+    pub fn fingerprint(&self) -> u64 {
+        self.fingerprint
     }
 
     pub(super) fn shift(&self) -> u32 {
@@ -130,38 +137,9 @@ impl TableGeometry {
     }
 }
 
-/// The Hermite row of one segment [s0, s1): T and dT/dt = (s1 - s0) / L'(T) at both ends
-/// from the exact curve, converted to power-basis coefficients in f64 and rounded once.
-fn hermite_row<C: SignalCurve + ?Sized>(curve: &C, shift: u32, segment: u32) -> Result<TableRow> {
-    let s0 = f64::from(f32::from_bits(segment << shift));
-    let s1 = f64::from(f32::from_bits(segment.wrapping_add(1) << shift));
-    let width = s1 - s0;
-    let node = |signal: f64| -> Result<(f64, f64)> {
-        let temperature_k = curve.temperature(signal)?;
-        let (_, slope) = curve.signal_and_derivative(temperature_k)?;
-        if slope > 0.0 && slope.is_finite() {
-            Ok((temperature_k, width / slope))
-        } else {
-            Err(Error::FrameToleranceUnreachable)
-        }
-    };
-    let (t0, m0) = node(s0)?;
-    let (t1, m1) = node(s1)?;
-    let c2 = 3.0 * (t1 - t0) - 2.0 * m0 - m1;
-    let c3 = 2.0 * (t0 - t1) + m0 + m1;
-    // From t in [0, 1) to r = t 2^shift: powers of two, exact (no f32 underflow: shift <= 23).
-    let scale = libm::exp2(-f64::from(shift));
-    Ok([
-        to_f32_checked(t0)?,
-        to_f32_checked(m0 * scale)?,
-        to_f32_checked(c2 * scale * scale)?,
-        to_f32_checked(c3 * scale * scale * scale)?,
-    ])
-}
-
 /// The geometry of a level-`level` table over the given f32 signal ends (errors not yet
 /// measured).
-fn geometry_for(
+pub(super) fn geometry_for(
     level: u32,
     signal_lo: f32,
     signal_hi: f32,
@@ -181,95 +159,8 @@ fn geometry_for(
         tolerance_k: 0.0,
         max_table_error_k: 0.0,
         max_pixel_error_k: 0.0,
+        fingerprint: 0,
     }
-}
-
-/// Measures a table against exact inversion: for every row, 16 points t = j/16 inside the
-/// declared range, plus the range ends. Returns (max table error, max pixel error), or
-/// `None` as soon as the pixel error exceeds `tolerance_k`.
-fn measure<C, R>(
-    curve: &C,
-    geometry: &TableGeometry,
-    mut row_of: R,
-    tolerance_k: f64,
-) -> Result<Option<(f64, f64)>>
-where
-    C: SignalCurve + ?Sized,
-    R: FnMut(u32) -> Result<TableRow>,
-{
-    let lookup = Lookup::new(geometry, &[]);
-    let shift = geometry.shift();
-    let step = 1u32 << (shift - 4); // shift >= 11, so 16 points per row
-    let ulp_allowance = SIGNAL_ROUNDING_ULPS * f64::from(f32::EPSILON);
-    let mut max_table = 0.0f64;
-    let mut max_pixel = 0.0f64;
-    for index in 0..geometry.rows {
-        let row = row_of(index)?;
-        let base = (geometry.first_segment + index) << shift;
-        let ends = [
-            (index == 0).then_some(geometry.signal_lo),
-            (index + 1 == geometry.rows).then_some(geometry.signal_hi),
-        ];
-        let inner = (0..CHECK_POINTS).map(|j| Some(f32::from_bits(base + j * step)));
-        for signal in inner.chain(ends).flatten() {
-            if !lookup.in_range(signal) {
-                continue;
-            }
-            let (found, t) = lookup.segment(signal);
-            if found != index as usize {
-                return Err(Error::FrameTableInvalid);
-            }
-            let approx = f64::from(eval_row(row, t));
-            let exact = curve.temperature(f64::from(signal))?;
-            let (_, slope) = curve.signal_and_derivative(exact)?;
-            let table_error = libm::fabs(approx - exact);
-            let pixel_error = table_error + ulp_allowance * f64::from(signal) / slope;
-            if !(pixel_error <= tolerance_k) {
-                return Ok(None);
-            }
-            max_table = max_table.max(table_error);
-            max_pixel = max_pixel.max(pixel_error);
-        }
-    }
-    Ok(Some((max_table, max_pixel)))
-}
-
-/// Finds the coarsest level whose table meets `tolerance_k`, measuring rows computed on
-/// the fly (no storage).
-fn plan<C: SignalCurve + ?Sized>(
-    curve: &C,
-    range: TemperatureRange,
-    tolerance_k: f64,
-) -> Result<TableGeometry> {
-    let range = TemperatureRange::new(range.lo_k, range.hi_k)?;
-    if !(tolerance_k.is_finite() && tolerance_k > 0.0) {
-        return Err(Error::FrameToleranceInvalid);
-    }
-    let (signal_lo, signal_hi) = signal_ends(curve, range)?;
-    let mut last_error = Error::FrameToleranceUnreachable;
-    for level in 0..=MAX_LEVEL {
-        let mut geometry = geometry_for(level, signal_lo, signal_hi, range);
-        let shift = geometry.shift();
-        let first = geometry.first_segment;
-        let measured = measure(
-            curve,
-            &geometry,
-            |index| hermite_row(curve, shift, first + index),
-            tolerance_k,
-        );
-        match measured {
-            Ok(Some((table_error, pixel_error))) => {
-                geometry.tolerance_k = tolerance_k;
-                geometry.max_table_error_k = table_error;
-                geometry.max_pixel_error_k = pixel_error;
-                return Ok(geometry);
-            }
-            Ok(None) => last_error = Error::FrameToleranceUnreachable,
-            // A coarse row may reach outside the curve's domain; finer rows stay closer.
-            Err(error) => last_error = error,
-        }
-    }
-    Err(last_error)
 }
 
 /// The f32 signals at the range ends, checked to lie in the normal f32 range.
@@ -303,76 +194,74 @@ pub struct FrameTable<'t> {
 impl<'t> FrameTable<'t> {
     /// Rows a table of `curve` over `range` needs to meet `tolerance_k` (K) for every
     /// pixel of a uniform scene: the coarsest level 0..=[`MAX_LEVEL`] (2^level rows per
-    /// octave of signal) whose measured `max_pixel_error_k` is at most `tolerance_k`.
+    /// octave of signal) whose `max_pixel_error_k` bound is at most `tolerance_k`.
     /// Storage is 16 bytes per row. Runs the same check as [`FrameTable::build`], with no
-    /// storage (a few ms for a rectangular band).
+    /// storage.
     ///
     /// Example (measured, `tests/frame_table.rs`): 8-14 um energy band, 250-1500 K, 1 mK:
-    /// level 3, 62 rows, 992 bytes.
+    /// level 3, 61 rows, 976 bytes.
+    ///
+    /// Time: bounded on every input. Tolerances below the f32 output floor (u hi_k / 4,
+    /// u = 2^-24) are refused before any curve evaluation; then two curve evaluations give
+    /// the rows of every level from the f32 bits of the signal ends, a table over
+    /// [`MAX_TABLE_ROWS`](super::MAX_TABLE_ROWS) is refused before its rows are built, and a few probe rows per
+    /// level skip levels that cannot pass. Worst case: see the module docs ("Start-up and
+    /// worst case").
     ///
     /// # Errors
     /// [`Error::FrameRangeInvalid`], [`Error::TemperatureNotPositive`],
     /// [`Error::NonFinite`], [`Error::FrameToleranceInvalid`],
     /// [`Error::FrameSignalUnrepresentable`], [`Error::FrameToleranceUnreachable`] (f32
     /// output resolves about 6e-8 T, so very small tolerances at high temperature are
-    /// refused), and errors of the curve.
+    /// refused), [`Error::FrameTableTooLarge`], and errors of the curve.
     pub fn required_rows<C: SignalCurve + ?Sized>(
         curve: &C,
         range: TemperatureRange,
         tolerance_k: f64,
     ) -> Result<usize> {
-        plan(curve, range, tolerance_k).map(|geometry| geometry.rows())
+        plan(curve, range, tolerance_k, None).map(|geometry| geometry.rows())
     }
 
     /// Builds the table into `storage` (at least [`FrameTable::required_rows`] rows; only
-    /// that many are written), then measures the stored table against exact inversion
-    /// and refuses it unless `max_pixel_error_k <= tolerance_k`.
+    /// that many are written): each row is checked as it is stored, with the same check
+    /// as [`FrameTable::required_rows`], and the table is refused unless
+    /// `max_pixel_error_k <= tolerance_k`. The geometry carries the rows' fingerprint.
     ///
     /// # Errors
-    /// As [`FrameTable::required_rows`], and [`Error::FrameStorageTooSmall`].
+    /// As [`FrameTable::required_rows`], and [`Error::FrameStorageTooSmall`] as soon as a
+    /// level under consideration needs more rows than `storage` holds (every later level
+    /// needs more).
     pub fn build<C: SignalCurve + ?Sized>(
         curve: &C,
         range: TemperatureRange,
         tolerance_k: f64,
         storage: &'t mut [TableRow],
     ) -> Result<Self> {
-        let mut geometry = plan(curve, range, tolerance_k)?;
-        let used = storage
-            .get_mut(..geometry.rows())
+        let mut geometry = plan(curve, range, tolerance_k, Some(&mut *storage))?;
+        let rows: &'t [TableRow] = storage
+            .get(..geometry.rows())
             .ok_or(Error::FrameStorageTooSmall)?;
-        let shift = geometry.shift();
-        for (index, slot) in (0u32..).zip(used.iter_mut()) {
-            *slot = hermite_row(curve, shift, geometry.first_segment + index)?;
-        }
-        let rows: &'t [TableRow] = used;
-        let measured = measure(
-            curve,
-            &geometry,
-            |index| {
-                rows.get(index as usize)
-                    .copied()
-                    .ok_or(Error::FrameTableInvalid)
-            },
-            tolerance_k,
-        )?;
-        let (table_error, pixel_error) = measured.ok_or(Error::FrameToleranceUnreachable)?;
-        geometry.max_table_error_k = table_error;
-        geometry.max_pixel_error_k = pixel_error;
+        geometry.fingerprint = fingerprint(&geometry, rows);
         Ok(FrameTable { geometry, rows })
     }
 
     /// Re-wraps a geometry and rows that [`FrameTable::build`] produced (the C ABI keeps
-    /// them in caller storage between calls). Only the geometry's consistency is checked,
-    /// not the rows' values.
+    /// them in caller storage between calls). The geometry's consistency is checked, then
+    /// the rows' fingerprint against the one stored in the geometry.
     ///
     /// # Errors
     /// [`Error::FrameTableInvalid`] for an inconsistent geometry,
-    /// [`Error::FrameStorageTooSmall`] if `rows` is shorter than the geometry says.
+    /// [`Error::FrameStorageTooSmall`] if `rows` is shorter than the geometry says,
+    /// [`Error::FrameRowsMismatch`] for rows other than the ones the geometry was built
+    /// with (another table's, or changed since).
     pub fn from_parts(geometry: TableGeometry, rows: &'t [TableRow]) -> Result<Self> {
         geometry.check()?;
         let rows = rows
             .get(..geometry.rows())
             .ok_or(Error::FrameStorageTooSmall)?;
+        if fingerprint(&geometry, rows) != geometry.fingerprint {
+            return Err(Error::FrameRowsMismatch);
+        }
         Ok(FrameTable { geometry, rows })
     }
 
@@ -429,8 +318,24 @@ mod tests {
         let good = FrameTable::build(&band, range, 1e-3, &mut storage)
             .unwrap()
             .geometry();
-        let rows = [[300.0f32; 4]; 256];
+        let rows = storage;
         assert!(FrameTable::from_parts(good, &rows).is_ok());
+        // Rows that are not the built ones, and a geometry whose recorded figures were
+        // edited, fail the fingerprint.
+        let mut foreign = rows;
+        foreign[7][2] = f32::from_bits(foreign[7][2].to_bits() ^ 1);
+        assert_eq!(
+            FrameTable::from_parts(good, &foreign).map(|t| t.geometry()),
+            Err(Error::FrameRowsMismatch)
+        );
+        let edited = TableGeometry {
+            max_pixel_error_k: good.max_pixel_error_k / 2.0,
+            ..good
+        };
+        assert_eq!(
+            FrameTable::from_parts(edited, &rows).map(|t| t.geometry()),
+            Err(Error::FrameRowsMismatch)
+        );
         let tampered = [
             TableGeometry {
                 level: MAX_LEVEL + 1,

@@ -30,12 +30,14 @@ pub enum TargetRule {
     /// power comes. The target must be at least that spot: target >= distance / DSR, with
     /// the distance-to-spot ratio (DSR) specified at 99 %. A DSR stated at 90 % or 95 %
     /// (common in data sheets) gives a smaller spot than the ISO one: convert it first.
+    /// (The definition as commonly quoted; the standard's text was not consulted here.)
     Iso10878,
     /// The often-quoted "at least 3 x 3 pixels" for an imager: common practice with no
     /// standard behind it. Target >= 3 pixel footprints across.
     ThreeByThree,
     /// Pusnik and Gersak 2021 (Sensors 21, 607): at least 10 x 10 exposed pixels, with the
-    /// reading averaged over the central 3 x 3. Target >= 10 pixel footprints across.
+    /// reading averaged over the central 3 x 3 (their recommendation as quoted, from
+    /// memory). Target >= 10 pixel footprints across.
     PusnikGersak,
 }
 
