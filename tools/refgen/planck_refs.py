@@ -549,7 +549,8 @@ def check(stride):
             continue
         stored_by_inputs = {}
         n_values = {"spectral_radiance.csv": 2, "blackbody_fraction.csv": 3,
-                    "band_radiance.csv": 2, "tabulated_band_radiance.csv": 1}[name]
+                    "band_radiance.csv": 2, "band_switch_points.csv": 2,
+                    "tabulated_band_radiance.csv": 1}[name]
         for ln in stored:
             cells = ln.split(",")
             stored_by_inputs[tuple(cells[:-n_values])] = cells[-n_values:]
