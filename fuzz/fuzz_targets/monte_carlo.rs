@@ -59,7 +59,7 @@ fn surface(d: &mut Dec<'_>) {
         return;
     };
     let small = |d: &mut Dec<'_>, scale: f64| {
-        if d.u8() % 8 == 0 {
+        if d.u8().is_multiple_of(8) {
             d.f64(Kind::Uncertainty)
         } else {
             scale * f64::from(d.u8()) / 255.0

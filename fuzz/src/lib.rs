@@ -325,7 +325,7 @@ impl FuzzBand {
     /// bands; `tests/fuzz_regressions.rs` holds the reproduction (ignored until fixed).
     pub fn has_sliver(&self) -> bool {
         let (lo, hi) = (self.raw.lo_um, self.raw.hi_um);
-        if self.raw.response_len == 0 || !(lo < hi) {
+        if self.raw.response_len == 0 || lo.partial_cmp(&hi) != Some(core::cmp::Ordering::Less) {
             return false;
         }
         let mut points: Vec<f64> = self
@@ -408,7 +408,7 @@ pub fn enc_band(e: &mut Enc, lo: f64, hi: f64, detector: u32, table: Option<(&[f
 /// Decodes a scene: all fields, or a valid scene with one field replaced.
 pub fn scene(d: &mut Dec<'_>) -> bt_scene {
     let mode = d.u8();
-    let mut f = if mode % 4 == 0 {
+    let mut f = if mode.is_multiple_of(4) {
         [
             d.f64(Kind::Fraction),
             d.f64(Kind::TempK),
