@@ -94,7 +94,12 @@ fn curve(d: &mut Dec<'_>) {
     // A subnormal signal carries too few digits to come back (the forward refuses it),
     // and one at the edge of the normal range may come back just below it (the forward's
     // conditioning is y eps, y up to 710).
-    if st == bt_status::Ok && any_s >= f64::MIN_POSITIVE * (1.0 + 1e-9) {
+    // And A T + B = c2 / ln(1 + C/S) must be resolvable next to B: with |B| beyond 1e6
+    // times it, T is accurate but the forward's A T + B cancels to nothing (a conditioning
+    // limit of the curve, not an error of the inverse).
+    let x = C2_UMK / (p.c / any_s).ln_1p();
+    let resolvable = x > 1e-6 * p.b_umk.abs();
+    if st == bt_status::Ok && any_s >= f64::MIN_POSITIVE * (1.0 + 1e-9) && resolvable {
         // The temperature must lie on the curve: its signal exists and matches.
         let mut fwd = Poisoned::<f64>::new();
         let sf = unsafe { bt_sakuma_hattori_signal(&p, tk.value, fwd.ptr()) };
