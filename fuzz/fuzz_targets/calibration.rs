@@ -116,8 +116,11 @@ fn curve(d: &mut Dec<'_>) {
             let y = C2_UMK / den;
             let slope = fwd.value * p.a_um * y * (1.0 + 1.0 / y.exp_m1()) / den;
             let err_k = (fwd.value - any_s).abs() / slope;
+            // The same in relative signal: d ln S = y d ln(A T + B), and A T + B = X carries
+            // 64 ulp of |X| + |B| (the slope itself may underflow for a tiny A).
+            let rel_tol = 1e-12 + y.abs() * 64.0 * f64::EPSILON * (x.abs() + p.b_umk.abs()) / x.abs();
             oracle(
-                err_k <= tol || (fwd.value - any_s).abs() <= 1e-12 * any_s,
+                err_k <= tol || (fwd.value - any_s).abs() <= rel_tol * any_s,
                 || {
                     format!(
                         "S -> T {:e} -> S {:e} (error {err_k:e} K, tol {tol:e}): {}",
