@@ -263,3 +263,27 @@ fn lpu_validation_that_overflows_is_an_error() {
         "{v:?}"
     );
 }
+
+/// A points fit whose C is near the top of the double range: C^2 Var(ln C) overflowed and
+/// the Rust fit came out Ok with an infinite covariance (the C ABI's report refused it while
+/// the plain C fit accepted the same data). Now both are `CalibrationIllConditioned`.
+#[test]
+fn points_fit_with_an_overflowing_covariance_is_ill_conditioned() {
+    use bandtemp::band::SignalCurve;
+    use bandtemp::calibration::{fit_points, SakumaHattori};
+    let truth = SakumaHattori::new(1.0, 10.0, 1e250).unwrap();
+    let t_k = [1000.0, 1100.0, 1200.0, 1300.0, 1400.0, 1500.0];
+    // Exact signals with a part-per-million scatter, so that the scatter scale is not 0.
+    let s: Vec<f64> = t_k
+        .iter()
+        .zip([1.0, -1.0, 1.0, -1.0, 1.0, -1.0])
+        .map(|(&t, sign)| truth.signal(t).unwrap() * (1.0 + sign * 1e-6))
+        .collect();
+    match fit_points(&t_k, &s, None) {
+        Ok(fit) => assert!(
+            fit.covariance.iter().flatten().all(|x| !x.is_infinite()),
+            "{fit:?}"
+        ),
+        Err(error) => assert_eq!(error, Error::CalibrationIllConditioned),
+    }
+}
