@@ -681,7 +681,8 @@ pub fn numerical_tolerance(standard_uncertainty: f64, significant_digits: u32) -
 /// are used).
 ///
 /// # Errors
-/// [`Error::NonFinite`], [`Error::UncertaintyNegative`] for a negative U or tolerance.
+/// [`Error::NonFinite`] (also when d_low or d_high overflows),
+/// [`Error::UncertaintyNegative`] for a negative U or tolerance.
 pub fn validate_lpu(
     estimate: f64,
     expanded_uncertainty: f64,
@@ -692,8 +693,13 @@ pub fn validate_lpu(
     if finite(expanded_uncertainty)? < 0.0 || finite(tolerance)? < 0.0 {
         return Err(Error::UncertaintyNegative);
     }
-    let d_low = libm::fabs(estimate - expanded_uncertainty - finite(interval.low)?);
-    let d_high = libm::fabs(estimate + expanded_uncertainty - finite(interval.high)?);
+    // Finite inputs near the double range's end can still overflow the differences.
+    let d_low = finite(libm::fabs(
+        estimate - expanded_uncertainty - finite(interval.low)?,
+    ))?;
+    let d_high = finite(libm::fabs(
+        estimate + expanded_uncertainty - finite(interval.high)?,
+    ))?;
     Ok(Validation {
         d_low,
         d_high,

@@ -242,3 +242,48 @@ fn sliver_between_band_edge_and_table_node_round_trips() {
     let back = band.temperature(l).unwrap();
     assert!((back - t).abs() <= 1e-9 * t, "T {t} -> L {l:e} -> T {back}");
 }
+
+/// The law-of-propagation check with finite values near the double range's end: y + U -
+/// y_high overflowed and came out Ok with d_high = inf. Now it is `NonFinite`.
+#[test]
+fn lpu_validation_that_overflows_is_an_error() {
+    use bandtemp::uncertainty::{coverage_interval, validate_lpu};
+    let mut samples = [-1.7e308, -1.0, 0.0, 1.0, 1.7e308];
+    let interval = coverage_interval(&mut samples, 0.6).unwrap();
+    assert_eq!(
+        validate_lpu(1.5e308, 1e308, &interval, 0.0),
+        Err(Error::NonFinite)
+    );
+    // Ordinary values: d_low = |10 - 2 - 7.9| = 0.1 and d_high = |10 + 2 - 12.05| = 0.05.
+    let mut samples = [7.9, 9.0, 10.0, 12.05, 13.0];
+    let interval = coverage_interval(&mut samples, 0.6).unwrap();
+    let v = validate_lpu(10.0, 2.0, &interval, 0.2).unwrap();
+    assert!(
+        v.passed && (v.d_low - 0.1).abs() < 1e-12 && (v.d_high - 0.05).abs() < 1e-12,
+        "{v:?}"
+    );
+}
+
+/// A points fit whose C is near the top of the double range: C^2 Var(ln C) overflowed and
+/// the Rust fit came out Ok with an infinite covariance (the C ABI's report refused it while
+/// the plain C fit accepted the same data). Now both are `CalibrationIllConditioned`.
+#[test]
+fn points_fit_with_an_overflowing_covariance_is_ill_conditioned() {
+    use bandtemp::band::SignalCurve;
+    use bandtemp::calibration::{fit_points, SakumaHattori};
+    let truth = SakumaHattori::new(1.0, 10.0, 1e250).unwrap();
+    let t_k = [1000.0, 1100.0, 1200.0, 1300.0, 1400.0, 1500.0];
+    // Exact signals with a part-per-million scatter, so that the scatter scale is not 0.
+    let s: Vec<f64> = t_k
+        .iter()
+        .zip([1.0, -1.0, 1.0, -1.0, 1.0, -1.0])
+        .map(|(&t, sign)| truth.signal(t).unwrap() * (1.0 + sign * 1e-6))
+        .collect();
+    match fit_points(&t_k, &s, None) {
+        Ok(fit) => assert!(
+            fit.covariance.iter().flatten().all(|x| !x.is_infinite()),
+            "{fit:?}"
+        ),
+        Err(error) => assert_eq!(error, Error::CalibrationIllConditioned),
+    }
+}

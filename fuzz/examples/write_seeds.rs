@@ -100,11 +100,7 @@ fn main() {
         .enumerate()
         .step_by(8)
     {
-        let name = r
-            .get("table")
-            .cloned()
-            .unwrap_or_default()
-            .replace("invented_", "invented_");
+        let name = r.get("table").cloned().unwrap_or_default();
         let (wl, resp) = table(&name);
         let mut e = Enc::new();
         e.u8(0).f64(10.0).f64(num(r, "temperature_k"));
@@ -152,8 +148,6 @@ fn main() {
 
     // calibration: the reference points (with and without uncertainties), the band fits
     // and their curves.
-    let points = csv("calibration_points_ref.csv");
-    let _ = points;
     let text = fs::read_to_string("../tests/data/calibration_points_ref.csv").unwrap_or_default();
     let mut rows: BTreeMap<String, Vec<f64>> = BTreeMap::new();
     for line in text.lines().filter(|l| !l.starts_with('#')) {

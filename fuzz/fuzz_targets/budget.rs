@@ -40,7 +40,7 @@ fn surface(d: &mut Dec<'_>) {
     let mut f = [0.0; 11];
     let all_hostile = d.bool();
     for v in &mut f {
-        *v = if all_hostile || d.u8() % 8 == 0 {
+        *v = if all_hostile || d.u8().is_multiple_of(8) {
             d.f64(Kind::Uncertainty)
         } else {
             1e-3 * f64::from(d.u8())

@@ -343,7 +343,7 @@ fuzz_target!(|data: &[u8]| {
                 .collect(),
         ),
     };
-    let out_len = if d.u8() % 8 == 0 {
+    let out_len = if d.u8().is_multiple_of(8) {
         d.len(MAX_PIXELS)
     } else {
         n

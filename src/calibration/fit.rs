@@ -101,7 +101,7 @@ pub struct PointsFit<P = SakumaHattori> {
 /// [`Error::CalibrationDuplicateTemperature`], [`Error::CalibrationSignalNotIncreasing`],
 /// [`Error::CalibrationNotConverged`] when the data do not follow the curve's form (a
 /// signal linear in T, say), [`Error::CalibrationIllConditioned`] when the covariance
-/// cannot be formed.
+/// cannot be formed or overflows (C near the top of the double range).
 pub fn fit_points(
     temperatures_k: &[f64],
     signals: &[f64],
@@ -160,6 +160,11 @@ pub fn fit_points_with<F: CurveForm>(
             let to_c = |k: usize| if k == 2 { c } else { 1.0 };
             *entry = scale * covariance_p[i][j] * to_c(i) * to_c(j);
         }
+    }
+    // With C near the top of the double range, C^2 Var(ln C) overflows: a covariance
+    // that cannot be represented (NaN stays, documented for n = 3).
+    if covariance.iter().flatten().any(|x| x.is_infinite()) {
+        return Err(Error::CalibrationIllConditioned);
     }
     let (max_residual_k, rms_residual_k) = data.temperature_residuals(&solution.model)?;
     Ok(PointsFit {
