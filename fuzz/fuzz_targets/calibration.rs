@@ -114,11 +114,12 @@ fn curve(d: &mut Dec<'_>) {
             let tol = closed_form_tolerance(&p, tk.value, any_s);
             let den = p.a_um * tk.value + p.b_umk;
             let y = C2_UMK / den;
-            let slope = fwd.value * p.a_um * y * (1.0 + 1.0 / y.exp_m1()) / den;
+            let slope = fwd.value * (p.a_um / den) * (y * (1.0 + 1.0 / y.exp_m1()));
             let err_k = (fwd.value - any_s).abs() / slope;
             // The same in relative signal: d ln S = y d ln(A T + B), and A T + B = X carries
             // 64 ulp of |X| + |B| (the slope itself may underflow for a tiny A).
-            let rel_tol = 1e-12 + y.abs() * 64.0 * f64::EPSILON * (x.abs() + p.b_umk.abs()) / x.abs();
+            let rel_tol =
+                1e-12 + y.abs() * 64.0 * f64::EPSILON * (x.abs() + p.b_umk.abs()) / x.abs();
             oracle(
                 err_k <= tol || (fwd.value - any_s).abs() <= rel_tol * any_s,
                 || {
@@ -158,7 +159,7 @@ fn curve(d: &mut Dec<'_>) {
             let den = p.a_um * t + p.b_umk;
             let y = C2_UMK / den;
             let slope = if unsafe { bt_sakuma_hattori_signal(&p, t, s0.ptr()) } == bt_status::Ok {
-                s0.value * p.a_um * y * (1.0 + 1.0 / y.exp_m1()) / den
+                s0.value * (p.a_um / den) * (y * (1.0 + 1.0 / y.exp_m1()))
             } else {
                 0.0
             };
