@@ -491,7 +491,7 @@ fuzz_target!(|data: &[u8]| {
                 }
                 let den = p.a_um * t + p.b_umk;
                 let y = bandtemp::constants::C2_UMK / den;
-                sv.value * p.a_um * y * (1.0 + 1.0 / y.exp_m1()) / den
+                sv.value * (p.a_um / den) * (y * (1.0 + 1.0 / y.exp_m1()))
             }
         };
         let float_allowance =
