@@ -58,7 +58,8 @@ tools() {
 # Debian's cargo and rustc for the target: core and compiler_builtins built from source
 # (with the mem feature: memcpy and friends), nightly flags through RUSTC_BOOTSTRAP.
 # `--ignore-rust-version`: the workspace's rust-version (1.88) is that of its test
-# dependencies; the libraries themselves build with Debian's 1.85, which this proves.
+# dependencies; the libraries themselves also build with older compilers (Debian 12's
+# rustc-web has shipped 1.85 and, after an update, 1.96).
 # One target directory serves every variant (the features and profiles hash apart).
 xcargo() {
     nice env PATH=/usr/bin:$PATH RUSTC="$XRUSTC" RUSTC_BOOTSTRAP=1 \

@@ -115,7 +115,7 @@ pub unsafe extern "C" fn bt_path_band_transmittance(
     }
 }
 
-/// Spectral transmittance tau(lambda) = exp(-k w) in [0, 1] of a horizontal air path at
+/// Spectral transmittance tau(lambda) = exp(-k w) in (0, 1] of a horizontal air path at
 /// `wavelength_um` (8-14 um), the water-vapour continuum model; arguments as
 /// `bt_path_band_transmittance` (the same enhancement factor f(p) on the vapour pressure).
 ///

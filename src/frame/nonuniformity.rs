@@ -406,8 +406,8 @@ impl<'m> Correction<'m> {
     /// [`Error::NucGeometryInvalid`], [`Error::FrameLengthMismatch`], [`Error::NucMapInvalid`].
     pub fn new(gain: &'m [f32], offset: &'m [f32], bad: &'m [u8], width: usize) -> Result<Self> {
         let len = gain.len();
-        // `%`, not `is_multiple_of` (Rust 1.87): the library builds with Rust 1.85, the
-        // firmware toolchain CI uses.
+        // `%`, not `is_multiple_of` (Rust 1.87): the library itself keeps building with
+        // older compilers (Debian 12's firmware toolchain has shipped Rust 1.85).
         #[allow(clippy::manual_is_multiple_of)]
         if width == 0 || len % width != 0 {
             return Err(Error::NucGeometryInvalid);
