@@ -17,43 +17,11 @@ use core::ffi::c_int;
 use core::mem::{offset_of, size_of};
 use proptest::prelude::*;
 
-/// The value out variables hold before a call; it must survive every error.
-const SENTINEL: f64 = -12345.678;
+mod common;
+use common::{any_f64_to, SENTINEL};
 
-/// Edge values every argument is also drawn from.
-const SPECIAL: &[f64] = &[
-    f64::NAN,
-    f64::INFINITY,
-    f64::NEG_INFINITY,
-    0.0,
-    -0.0,
-    -1.0,
-    f64::MAX,
-    f64::MIN,
-    f64::MIN_POSITIVE,
-    -f64::MIN_POSITIVE,
-    5e-324,
-    -5e-324,
-    2e-310,
-    f64::EPSILON,
-    1e-300,
-    1e300,
-    0.5,
-    1.0,
-    8.0,
-    14.0,
-    300.0,
-    1000.0,
-    1e6,
-];
-
-/// Arbitrary bit patterns, edge values, and magnitudes from 1e-3 to 1e7.
 fn any_f64() -> impl Strategy<Value = f64> {
-    prop_oneof![
-        3 => any::<u64>().prop_map(f64::from_bits),
-        2 => prop::sample::select(SPECIAL),
-        3 => (-3.0f64..7.0).prop_map(|e| 10f64.powf(e)),
-    ]
+    any_f64_to(7.0)
 }
 
 /// Small tables of arbitrary values, and increasing ones (sorted, so that some are valid).
