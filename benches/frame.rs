@@ -108,6 +108,21 @@ fn frame(c: &mut Criterion) {
             )
         });
     });
+    for threads in [2usize, 4] {
+        let n = std::num::NonZeroUsize::new(threads).unwrap();
+        group.bench_function(
+            format!("table_uniform_scene_parallel_{threads}_threads"),
+            |b| {
+                b.iter(|| {
+                    black_box(
+                        converter
+                            .convert_counts_parallel(black_box(&s.counts), None, &mut out, n)
+                            .unwrap(),
+                    )
+                });
+            },
+        );
+    }
     group.bench_function("table_emissivity_map", |b| {
         b.iter(|| {
             black_box(

@@ -2580,7 +2580,7 @@ bt_status bt_path_band_transmittance(const bt_band *band,
                                      double *out);
 
 /**
- * Spectral transmittance tau(lambda) = exp(-k w) in [0, 1] of a horizontal air path at
+ * Spectral transmittance tau(lambda) = exp(-k w) in (0, 1] of a horizontal air path at
  * `wavelength_um` (8-14 um), the water-vapour continuum model; arguments as
  * `bt_path_band_transmittance` (the same enhancement factor f(p) on the vapour pressure).
  *

@@ -175,6 +175,8 @@ mod kernel;
 mod lookup;
 mod merit;
 mod nonuniformity;
+#[cfg(feature = "std")]
+mod parallel;
 mod params;
 mod pixel_map;
 mod summary;
@@ -195,6 +197,8 @@ pub use nonuniformity::{
     shutter_refresh, shutter_target_counts, two_point, CorrectedSummary, Correction, DriftStep,
     FrameStack, StackStats, TwoPointReport,
 };
+#[cfg(feature = "std")]
+pub use parallel::MAX_THREADS;
 pub use params::{CountsMap, Rails, TemperatureRange};
 pub use pixel_map::PixelMap;
 pub use summary::{FrameSummary, PixelStatus};

@@ -66,6 +66,20 @@ impl FrameSummary {
         *field += 1;
     }
 
+    /// Adds another part's counts (a frame converted in parts).
+    #[cfg(feature = "std")]
+    pub(super) fn add(&mut self, other: &FrameSummary) {
+        self.pixels += other.pixels;
+        self.converted += other.converted;
+        self.dead += other.dead;
+        self.saturated += other.saturated;
+        self.emissivity_invalid += other.emissivity_invalid;
+        self.non_finite += other.non_finite;
+        self.below_background += other.below_background;
+        self.below_range += other.below_range;
+        self.above_range += other.above_range;
+    }
+
     pub(super) fn failed(&self) -> u64 {
         self.dead
             + self.saturated
