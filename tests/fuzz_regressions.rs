@@ -216,15 +216,13 @@ fn running_variance_that_overflows_is_an_error() {
     assert_eq!(stats.variance(), Ok(1.0));
 }
 
-/// Open finding (not yet fixed): a tabulated band whose overlap with its table holds a
-/// sliver (here the band edge 8.7e-11 um below the table node at 1.45 um) that carries
-/// most of the integral. The quadrature samples the response at nodes whose wavelengths
-/// round to 1 ulp, a relative position error of ulp/width = 1e-6 across the sliver, so the
-/// radiance is about 1e-6 off and the round trip T -> L -> T misses by 1.8 mK at 4000 K.
-/// A fix evaluates the response by position within the segment instead of by the rounded
-/// wavelength. The fuzz oracles skip such bands meanwhile (`FuzzBand::has_sliver`).
+/// A tabulated band whose overlap with its table holds a sliver (here the band edge
+/// 8.7e-11 um below the table node at 1.45 um) that carries most of the integral. The
+/// quadrature sampled the response at nodes whose wavelengths rounded to 1 ulp, a relative
+/// position error of ulp/width = 1e-6 across the sliver: the radiance was about 1e-6 off
+/// and T -> L -> T missed by 1.8 mK at 4000 K, with success. Each segment's geometry now
+/// comes from differences of the table's own numbers (`Band::response_panels`).
 #[test]
-#[ignore = "open finding: tabulated quadrature across a sliver segment (see the doc comment)"]
 fn sliver_between_band_edge_and_table_node_round_trips() {
     use bandtemp::band::SpectralTable;
     let wl = [3.064_968_409_935_597e-294, 0.5, 1.45, 1.6, 1.709_023_437_5];
@@ -286,4 +284,83 @@ fn points_fit_with_an_overflowing_covariance_is_ill_conditioned() {
         ),
         Err(error) => assert_eq!(error, Error::CalibrationIllConditioned),
     }
+}
+
+/// A narrow response segment (1.1e-4 um at 1.48 um) carrying the whole band: x values
+/// subtracted across it lost log10(1.48/1.1e-4) = 4 digits, so band radiance was 6e-12
+/// relative off between neighbouring temperatures, the inversion missed its documented
+/// 1e-12 T, and a scene behind a hot window (3668 K, the object 4e-8 of the signal) came
+/// back 3.6 mK off through its apparent temperature. Now within 1e-15.
+#[test]
+fn narrow_response_segment_keeps_full_precision() {
+    use bandtemp::band::SpectralTable;
+    use bandtemp::scene::Scene;
+    let wl = [
+        1.479_692_604_958_723_1,
+        1.479_805_742_723_783_8,
+        2.609_073_853_833_935_5,
+    ];
+    let r = [0.066_239_414_053_559_17, 5e-324, 7.609_970_6e-317];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(0.230_493_413_962_491_8, 5.0, Detector::Energy, table).unwrap();
+    // The band is a triangle of height h = 0.0662 and width w = 1.131e-4 um with its peak
+    // at w0 = 1.4797 um. Over so narrow a line Planck's law is linear: its curvature
+    // leaves ~ (x w/lambda)^2/18 = 4e-9 (x = 3.5), so L = (h w / 2) L_lambda(w0 + w/3)
+    // (the triangle's centroid) to 1e-8.
+    let (w0, w1, h) = (wl[0], wl[1], r[0]);
+    let t = 2_775.553_474_453_727;
+    let line =
+        0.5 * h * (w1 - w0) * bandtemp::planck::spectral_radiance(w0 + (w1 - w0) / 3.0, t).unwrap();
+    let l = band.radiance(t).unwrap();
+    assert!(
+        (l / line - 1.0).abs() < 1e-8,
+        "L {l:e} against the line {line:e}"
+    );
+    // Inversion within 1e-14 T over the range (the documented bound is 1e-12 T).
+    for t in [300.0, 557.8, 1000.0, 2_775.553_474_453_727, 4000.0] {
+        let back = band.temperature(band.radiance(t).unwrap()).unwrap();
+        assert!((back - t).abs() <= 1e-14 * t, "T {t} -> {back}");
+    }
+    let scene = Scene::new(0.511_921_568_627_451, 342.616_511_200_943_7)
+        .unwrap()
+        .with_atmosphere(0.4, 372.890_062_283_093_9)
+        .unwrap()
+        .with_window(
+            0.319_215_686_274_509_8,
+            0.272_313_725_490_196_06,
+            3_668.448_204_437_637_7,
+            555.151_678_951_086_1,
+        )
+        .unwrap();
+    let t = 557.800_310_864_913_7;
+    let apparent = scene.apparent_temperature(&band, t).unwrap();
+    let back = scene
+        .object_temperature_from_apparent(&band, apparent)
+        .unwrap();
+    // The object is 5.7e-8 of the signal: a 1e-16 relative signal error is 1e-7 K here.
+    assert!(
+        (back - t).abs() <= 1e-6,
+        "T {t} -> Tapp {apparent} -> T {back}"
+    );
+}
+
+/// A tabulated response with values near the largest double (1e308 at 708 um, the band
+/// 1.45-1.975 um seeing 5e304): the Gauss sums multiplied response by t^m before dividing
+/// by e^t - 1 and overflowed where the radiance is 1e304, so the inversion of a radiance
+/// the band had just returned (2.3e307 at 1000 K) failed with `NonFinite`. The Planck
+/// factors now come first, and overflow happens only where the radiance itself overflows.
+#[test]
+fn response_near_the_double_range_end_inverts() {
+    use bandtemp::band::SpectralTable;
+    let wl = [1.45, 1.52, 1.6, 708.395_488_281_25, f64::MAX];
+    let r = [0.0, 0.0, 0.0, 1e308, 0.249_942_778_667_887_4];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(1.275, 1.975, Detector::Energy, table).unwrap();
+    let l = band.radiance(1000.0).unwrap();
+    assert!(l > 1e307 && l.is_finite());
+    let l500 = band.radiance(500.0).unwrap();
+    assert!(l500 > 0.0 && l500 < l);
+    assert_eq!(band.radiance(2000.0), Err(Error::RadianceOverflow));
+    let back = band.temperature(l).unwrap();
+    assert!((back - 1000.0).abs() <= 1e-9 * 1000.0, "{back}");
 }

@@ -314,39 +314,6 @@ impl FuzzBand {
     }
 }
 
-impl FuzzBand {
-    /// True when the band's overlap with its table holds a segment narrower than 1e-6 of
-    /// its wavelength (a table node within 1e-6 of a band edge or of another node).
-    ///
-    /// Known open finding: the tabulated quadrature evaluates the response at nodes whose
-    /// wavelengths round to 1 ulp, so across such a sliver the response is sampled with a
-    /// relative position error of ulp/width, and when the sliver carries most of the
-    /// integral the radiance is off by up to 1e-6 relative (a band edge 8.7e-11 um below a
-    /// table node: T 4000 K came back 1.8 mK off). The round-trip oracles skip these
-    /// bands; `tests/fuzz_regressions.rs` holds the reproduction (ignored until fixed).
-    pub fn has_sliver(&self) -> bool {
-        let (lo, hi) = (self.raw.lo_um, self.raw.hi_um);
-        if self.raw.response_len == 0 || lo.partial_cmp(&hi) != Some(core::cmp::Ordering::Less) {
-            return false;
-        }
-        let mut points: Vec<f64> = self
-            .wl
-            .iter()
-            .copied()
-            .filter(|&w| w >= lo && w <= hi)
-            .collect();
-        points.push(lo);
-        points.push(hi);
-        if let (Some(&first), Some(&last)) = (self.wl.first(), self.wl.last()) {
-            points.push(first.max(lo).min(hi));
-            points.push(last.max(lo).min(hi));
-        }
-        points.sort_by(f64::total_cmp);
-        points.dedup();
-        points.windows(2).any(|w| w[1] - w[0] < 1e-6 * w[1].abs())
-    }
-}
-
 thread_local! {
     /// Set while the current input holds a band of the known slow kind (see [`band`]).
     static KNOWN_SLOW: core::cell::Cell<bool> = const { core::cell::Cell::new(false) };
