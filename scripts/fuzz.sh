@@ -2,8 +2,9 @@
 # Coverage-guided fuzzing of the core and its C ABI (fuzz/, cargo fuzz + libFuzzer).
 #
 #   bash scripts/fuzz.sh ci [SECONDS]        every target for SECONDS (default 30) each, with
-#                                            AddressSanitizer; fails on any finding (crash,
-#                                            oracle violation, slow call, timeout, leak).
+#                                            AddressSanitizer, from seed BT_FUZZ_SEED (default
+#                                            1); fails on any finding (crash, oracle violation,
+#                                            slow call, timeout, leak).
 #   bash scripts/fuzz.sh campaign [SECONDS]  the long run, by hand: release build without
 #                                            sanitizer, every target for SECONDS (default 600)
 #                                            each, one at a time under nice -n 19; logs and the
@@ -29,6 +30,9 @@ mode="${1:-}"
 case "$mode" in
 ci)
     seconds="${2:-30}"
+    # A fixed seed (BT_FUZZ_SEED, default 1) makes a CI finding reproducible with the same
+    # command; the campaign draws fresh seeds and is where new findings are hunted.
+    seed="${BT_FUZZ_SEED:-1}"
     export BT_FUZZ_CALL_LIMIT_MS="${BT_FUZZ_CALL_LIMIT_MS:-250}"
     # The known open slow paths (see fuzz/fuzz_targets/frame.rs and fuzz/src/lib.rs) are
     # reported by the campaign, not allowed to make CI flaky under the sanitizer.
@@ -42,8 +46,8 @@ ci)
     for t in $TARGETS; do
         mkdir -p "$work/$t" "$work/artifacts"
         cp corpus/"$t"/* "$work/$t"/ 2>/dev/null || true
-        echo "== fuzz $t for ${seconds}s"
-        if "$bin/$t" "$work/$t" -max_total_time="$seconds" -timeout=30 -rss_limit_mb=2048 \
+        echo "== fuzz $t for ${seconds}s (seed $seed)"
+        if "$bin/$t" "$work/$t" -max_total_time="$seconds" -seed="$seed" -timeout=30 -rss_limit_mb=2048 \
             -print_final_stats=1 -artifact_prefix="$work/artifacts/$t-" >"$work/$t.log" 2>&1; then
             grep -h "stat::number_of_executed_units" "$work/$t.log" | sed "s/^/$t /"
         else

@@ -509,10 +509,10 @@ impl<'a> Band<'a> {
     /// are those of [`Band::panels`].
     ///
     /// A segment's geometry comes from differences of the table's own numbers, never from
-    /// differences of computed x values: its width in x is c2 (w1 - w0)/(w0 w1 T), and at
-    /// a node an offset o into the segment (in x) sits at lambda = w1 - w1 o/(x1 + o)
-    /// (x1 = c2/(w1 T)). Subtracting x values or wavelengths near w1 instead would lose
-    /// log10(lambda/(w1 - w0)) digits on a narrow segment (a 1e-4 um segment at 1.5 um
+    /// differences of computed x values: its width in x is c2 (w1 - w0)/(w0 w1 T), and a
+    /// node an offset o into the segment (in x, from its upper end x1 = c2/(w1 T)) lies
+    /// w1 o/(x1 + o) below w1 and w0 (width - o)/(x1 + o) above w0. Subtracting x values
+    /// or wavelengths instead would lose log10(lambda/(w1 - w0)) digits on a narrow segment (a 1e-4 um segment at 1.5 um
     /// gave 6e-12 relative radiance error; a 1e-10 um sliver, 1e-6).
     fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
         let m = self.detector.moment();
@@ -538,16 +538,12 @@ impl<'a> Band<'a> {
             if upper_um <= lower_um {
                 continue;
             }
-            // r(lambda) = r_upper - dv (upper - lambda)/(w1 - w0); both fractions <= 1, so
-            // nothing overflows for any finite non-negative table.
-            let dv = v1 - v0;
-            let span_um = w1 - w0;
-            let v_upper = if upper_um == w1 {
-                v1
-            } else {
-                v0 + dv * ((upper_um - w0) / span_um)
-            };
-            let upper_per_span = upper_um / span_um;
+            // r(lambda) = v0 (w1 - lambda)/(w1 - w0) + v1 (lambda - w0)/(w1 - w0): two
+            // non-negative terms, so neither end's value cancels the other's (a segment
+            // rising from 0.1 to 1e300 is exact near its small end too), and each weight
+            // is at most 1, so nothing overflows for any finite non-negative table.
+            let inv_span = 1.0 / (w1 - w0);
+            let (above_um, below_um) = (w1 - upper_um, lower_um - w0);
             let x_upper = C2_UMK / (upper_um * t);
             if !(x_upper > 0.0) {
                 // upper_um * t overflowed: so does the radiance.
@@ -566,8 +562,14 @@ impl<'a> Band<'a> {
                 let next = (offset + 1.0).min(offset + x).min(width_x);
                 let (s, d, d2) =
                     weighted_gauss_panel_offsets(m, x, next - offset, |_, node_offset| {
+                        // The node at x_n = x_upper + o: upper - lambda = upper o/x_n and
+                        // lambda - lower = lower (width_x - o)/x_n.
                         let o = offset + node_offset;
-                        v_upper - dv * (upper_per_span * (o / (x_upper + o)))
+                        let inv_xn = 1.0 / (x_upper + o);
+                        // Grouped so no product exceeds c2/T or the wavelengths themselves.
+                        let from_w1 = above_um + upper_um * (o * inv_xn);
+                        let from_w0 = below_um + lower_um * (width_x - o) * inv_xn;
+                        v0 * (from_w1 * inv_span) + v1 * (from_w0 * inv_span)
                     });
                 sum += s;
                 sum_derivative += d;

@@ -364,3 +364,51 @@ fn response_near_the_double_range_end_inverts() {
     let back = band.temperature(l).unwrap();
     assert!((back - 1000.0).abs() <= 1e-9 * 1000.0, "{back}");
 }
+
+/// A segment rising from 0.12 at 1000 um to 1e300 at 5.2e11 um, seen at 2 K (the band's
+/// radiance comes from its small end): interpolating down from the 1e300 end cancelled
+/// 1e300 against 1e300 - 4e291 and left 3e-8 relative error, so T -> L -> T missed by
+/// 3.3e-9 T. The response is now the sum of two non-negative terms, one per end.
+#[test]
+fn segment_rising_over_many_decades_round_trips() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        2.639_975_803_334_934,
+        6.543_498_291_083_124,
+        16.418_476_064_048_956,
+        273.15,
+        1000.0,
+        518_539_246_354.603_2,
+        1e300,
+    ];
+    let r = [
+        1e300,
+        0.999_999_999_999_999_9,
+        0.926_756_694_895_857_2,
+        0.800_427_252_613_107_5,
+        0.116_594_186_312_657_36,
+        1e300,
+        1e-300,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(1e-310, 1e300, Detector::Energy, table).unwrap();
+    for t in [2.0, 5.0, 30.0] {
+        let back = band.temperature(band.radiance(t).unwrap()).unwrap();
+        assert!((back - t).abs() <= 1e-12 * t, "T {t} -> {back}");
+    }
+}
+
+/// The Planck-form inverse at S = f64::MAX (A = 4.42 um, B = 100 um K, C = 2.3e9) gave
+/// T = 2.5e302 K, whose signal rounded past the largest double: a success with no way
+/// back. Such a signal is now `RadianceOverflow`; one a little below still round-trips.
+#[test]
+fn sakuma_hattori_inverse_at_the_double_range_end() {
+    use bandtemp::band::SignalCurve;
+    use bandtemp::calibration::SakumaHattori;
+    let curve = SakumaHattori::new(4.423_529_411_764_706, 100.0, 2_315_825_769.988_51).unwrap();
+    assert_eq!(curve.temperature(f64::MAX), Err(Error::RadianceOverflow));
+    let s = 1e300;
+    let t = curve.temperature(s).unwrap();
+    let back = curve.signal(t).unwrap();
+    assert!((back / s - 1.0).abs() < 1e-12, "{s:e} -> {t:e} -> {back:e}");
+}

@@ -119,7 +119,9 @@ pub unsafe extern "C" fn bt_sakuma_hattori_signal(
 ///
 /// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_NON_FINITE`,
 /// `BT_STATUS_CALIBRATION_PARAMETER_INVALID`, `BT_STATUS_RADIANCE_NOT_POSITIVE`,
-/// `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN` when the result is not a positive temperature.
+/// `BT_STATUS_CALIBRATION_OUT_OF_DOMAIN` when the result is not a positive temperature,
+/// `BT_STATUS_RADIANCE_OVERFLOW` for a signal so near the largest double that the curve's
+/// signal at the result would overflow.
 ///
 /// # Safety
 /// `p` as in `bt_sakuma_hattori_signal`; `temperature_k` null or valid for writing a

@@ -245,7 +245,9 @@ impl SignalCurve for SakumaHattori {
     ///
     /// # Errors
     /// [`Error::NonFinite`], [`Error::RadianceNotPositive`],
-    /// [`Error::CalibrationOutOfDomain`] when the result is not a positive temperature.
+    /// [`Error::CalibrationOutOfDomain`] when the result is not a positive temperature,
+    /// [`Error::RadianceOverflow`] for a signal so near the largest double that the
+    /// curve's signal at the result would overflow.
     fn temperature(&self, signal: f64) -> Result<f64> {
         let s = check_signal(signal)?;
         let ratio = self.c / s;
@@ -255,7 +257,14 @@ impl SignalCurve for SakumaHattori {
         } else {
             ln_ratio(self.c, s)
         };
-        check_inverse((C2_UMK / log - self.b_umk) / self.a_um)
+        let temperature_k = check_inverse((C2_UMK / log - self.b_umk) / self.a_um)?;
+        // Within rounding of the largest double, the forward at the result can round up
+        // past it (S = f64::MAX gave T = 2.5e302 K whose signal overflowed): such a
+        // temperature has no signal to return to, so it is refused.
+        if s > 0.5 * f64::MAX && self.signal(temperature_k).is_err() {
+            return Err(Error::RadianceOverflow);
+        }
+        Ok(temperature_k)
     }
 }
 
