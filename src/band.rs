@@ -538,12 +538,23 @@ impl<'a> Band<'a> {
             if upper_um <= lower_um {
                 continue;
             }
-            // r(lambda) = v0 (w1 - lambda)/(w1 - w0) + v1 (lambda - w0)/(w1 - w0): two
-            // non-negative terms, so neither end's value cancels the other's (a segment
-            // rising from 0.1 to 1e300 is exact near its small end too), and each weight
-            // is at most 1, so nothing overflows for any finite non-negative table.
+            // r(lambda) = r_small + (r_large - r_small) distance/(w1 - w0), measured from
+            // the segment's smaller end: two non-negative terms, so neither end's value
+            // cancels the other's (a segment rising from 0.1 to 1e300 is exact near its
+            // small end too), and distance/(w1 - w0) <= 1, so nothing overflows for any
+            // finite non-negative table. With x_n = x_upper + o, a node lies
+            // upper o/x_n below `upper_um` and lower (width_x - o)/x_n above `lower_um`;
+            // the distance from the small end is (its gap to the overlap) + scale p/x_n,
+            // p = o or width_x - o.
             let inv_span = 1.0 / (w1 - w0);
-            let (above_um, below_um) = (w1 - upper_um, lower_um - w0);
+            let falls = v1 <= v0;
+            let (small, rise, gap_um, scale_um) = if falls {
+                (v1, v0 - v1, w1 - upper_um, upper_um)
+            } else {
+                (v0, v1 - v0, lower_um - w0, lower_um)
+            };
+            let r_edge = small + rise * (gap_um * inv_span);
+            let scale_per_span = scale_um * inv_span;
             let x_upper = C2_UMK / (upper_um * t);
             if !(x_upper > 0.0) {
                 // upper_um * t overflowed: so does the radiance.
@@ -551,6 +562,8 @@ impl<'a> Band<'a> {
             }
             // c2 (upper - lower)/(upper lower T), ordered so that no product overflows.
             let width_x = c2_over_t * (((upper_um - lower_um) / upper_um) / lower_um);
+            // p = p_sign o + p_start.
+            let (p_sign, p_start) = if falls { (1.0, 0.0) } else { (-1.0, width_x) };
             let mut offset = 0.0;
             while offset < width_x {
                 let x = x_upper + offset;
@@ -562,14 +575,9 @@ impl<'a> Band<'a> {
                 let next = (offset + 1.0).min(offset + x).min(width_x);
                 let (s, d, d2) =
                     weighted_gauss_panel_offsets(m, x, next - offset, |_, node_offset| {
-                        // The node at x_n = x_upper + o: upper - lambda = upper o/x_n and
-                        // lambda - lower = lower (width_x - o)/x_n.
                         let o = offset + node_offset;
-                        let inv_xn = 1.0 / (x_upper + o);
-                        // Grouped so no product exceeds c2/T or the wavelengths themselves.
-                        let from_w1 = above_um + upper_um * (o * inv_xn);
-                        let from_w0 = below_um + lower_um * (width_x - o) * inv_xn;
-                        v0 * (from_w1 * inv_span) + v1 * (from_w0 * inv_span)
+                        let p = p_sign * o + p_start;
+                        r_edge + rise * (scale_per_span * (p / (x_upper + o)))
                     });
                 sum += s;
                 sum_derivative += d;

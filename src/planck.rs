@@ -580,10 +580,12 @@ fn gauss_sum<W: Fn(f64, f64) -> f64>(
             let planck = power(m, t) * inv_e;
             let weighted = w * weight(t, offset);
             let f = weighted * planck;
-            let d = weighted * (planck * (t * (e + 1.0) * inv_e));
+            // k1 = t e^t/(e^t - 1) = t (1 + 1/e) and t (e + 2)/e = t (1 + 2/e): finite at
+            // nodes past t = 709.78, where e overflows to infinity and (e + 1)/e was NaN.
+            let d = weighted * (planck * (t * (1.0 + inv_e)));
             sum += f;
             sum_derivative += d;
-            sum_second += d * (t * (e + 2.0) * inv_e - 1.0);
+            sum_second += d * (t * (1.0 + 2.0 * inv_e) - 1.0);
         }
     }
     (half * sum, half * sum_derivative, half * sum_second)

@@ -412,3 +412,39 @@ fn sakuma_hattori_inverse_at_the_double_range_end() {
     let back = curve.signal(t).unwrap();
     assert!((back / s - 1.0).abs() < 1e-12, "{s:e} -> {t:e} -> {back:e}");
 }
+
+/// A response of 2e147 at 5 um seen at 1-4 K: Gauss nodes of the last panel before the
+/// quadrature's cut (x = 710) lie past x = 709.78, where e^x - 1 overflows, and the
+/// derivative kernel (e + 1)/e was inf/inf = NaN. The inversion of a radiance the band had
+/// just returned at 5 K failed with `NonFinite`. The kernel is now 1 + 1/e there.
+#[test]
+fn derivative_kernel_past_the_expm1_overflow() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        9.401_195_160_968_883e-270,
+        6.202_640_661_512_71e-94,
+        0.698_710_703_332_939_5,
+        5.0,
+        10.352_272,
+        22.372_451_587_739_278,
+        1.756_506_924_236_417_3e156,
+    ];
+    let r = [
+        1e300,
+        1e300,
+        1e-310,
+        1.980_702_506_999_929_5e147,
+        0.377_721_828_030_823_2,
+        0.0,
+        0.245_944_914_930_952_9,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band =
+        Band::with_response(1e-300, 1.808_288_332_801_935_5e135, Detector::Energy, table).unwrap();
+    for t in [4.8, 5.0, 6.0] {
+        let (l, dl) = band.radiance_and_derivative(t).unwrap();
+        assert!(dl.is_finite() && dl > 0.0, "dL/dT at {t} K: {dl:e}");
+        let back = band.temperature(l).unwrap();
+        assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
+    }
+}
