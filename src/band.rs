@@ -63,7 +63,7 @@ const X_INTEGRAND_ZERO: f64 = 710.0;
 const MIN_RESOLVED_INTEGRAL: f64 = 1e-295;
 
 /// As [`MIN_RESOLVED_INTEGRAL`] for a tabulated response, per unit of the response's
-/// largest value (taken as at least 1e-7): the quadrature stops at [`X_INTEGRAND_ZERO`] =
+/// largest value over the band (taken as at least 1e-7): the quadrature stops at [`X_INTEGRAND_ZERO`] =
 /// 710, dropping at most 710^3 e^-710 (1.6e-300) per unit response, below 2e-17 of this
 /// limit; and with the floor, an integral of at least 1e-290 keeps the products
 /// response x integrand that carry it out of the subnormal range (a response of 2e-314
@@ -181,11 +181,6 @@ impl<'a> SpectralTable<'a> {
             .checked_sub(1)
             .and_then(|i| self.wavelengths_um.get(i).copied())
     }
-
-    /// The largest value of the table.
-    fn max_value(&self) -> f64 {
-        self.values.iter().copied().fold(0.0, f64::max)
-    }
 }
 
 /// A validated spectral band of an instrument.
@@ -195,6 +190,9 @@ pub struct Band<'a> {
     hi_um: f64,
     detector: Detector,
     response: Option<SpectralTable<'a>>,
+    /// The response's largest value over the band (its nodes inside and its values at the
+    /// edges; values outside the band never enter the integral); 1 for a rectangular band.
+    response_max: f64,
     /// Integral of the response over the band, um (trapezoid; a starting-guess aid only).
     width_um: f64,
     /// Response-weighted mean wavelength, um (a starting-guess aid only).
@@ -229,6 +227,7 @@ impl Band<'static> {
             hi_um,
             detector,
             response: None,
+            response_max: 1.0,
             width_um: hi_um - lo_um,
             centroid_um: 0.5 * (lo_um + hi_um),
             x_edges_k: x_edges_k(lo_um, hi_um),
@@ -280,9 +279,11 @@ impl<'a> Band<'a> {
         let mut moment_um2 = 0.0;
         let mut upper = b;
         let mut r_upper = response.value_at(b);
+        let mut response_max = r_upper;
         while upper > a {
             let lower = response.node_below(upper).map_or(a, |w| w.max(a));
             let r_lower = response.value_at(lower);
+            response_max = response_max.max(r_lower);
             let area = 0.5 * (r_lower + r_upper) * (upper - lower);
             width_um += area;
             moment_um2 += area * 0.5 * (lower + upper);
@@ -297,6 +298,7 @@ impl<'a> Band<'a> {
             hi_um: b,
             detector,
             response: Some(response),
+            response_max,
             width_um,
             centroid_um: moment_um2 / width_um,
             x_edges_k: x_edges_k(a, b),
@@ -390,9 +392,13 @@ impl<'a> Band<'a> {
                 (i, d, d2, MIN_RESOLVED_INTEGRAL)
             }
             Some(response) => {
-                let bound = response.max_value();
                 let (i, d, d2) = self.response_panels(t, response);
-                (i, d, d2, MIN_RESOLVED_TABULATED_INTEGRAL * bound.max(1e-7))
+                (
+                    i,
+                    d,
+                    d2,
+                    MIN_RESOLVED_TABULATED_INTEGRAL * self.response_max.max(1e-7),
+                )
             }
         };
         let scale = scale_or_overflow(self.detector, t)?;
@@ -516,7 +522,7 @@ impl<'a> Band<'a> {
     /// gave 6e-12 relative radiance error; a 1e-10 um sliver, 1e-6).
     fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
         let m = self.detector.moment();
-        let bound = response.max_value();
+        let bound = self.response_max;
         let c2_over_t = C2_UMK / t;
         let mut sum = 0.0;
         let mut sum_derivative = 0.0;

@@ -487,3 +487,55 @@ fn rising_segment_behind_a_hot_window_round_trips() {
     let back = scene.object_temperature(&band, signal).unwrap();
     assert!((back - t).abs() <= 4e-6, "T {t} -> {back}");
 }
+
+/// A 3.4-14 um photon band whose table also holds 3.6e282 at 1.6e-38 um, far outside the
+/// band: the "integral too small to be resolved" floor scaled with the whole table's
+/// largest value instead of the band's, so the band's own radiance at 200 K (and its 300 K
+/// radiance as a target) was refused as an underflow. The floor now uses the response's
+/// largest value over the band.
+#[test]
+fn values_outside_the_band_do_not_set_its_resolution() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        1.630_999_080_770_495_2e-38,
+        1.630_999_080_770_535_4e-38,
+        0.576_439_264_419_698_5,
+        0.688_265_509_056_137_1,
+        3.374_076_063_884_047,
+        7.949_078_390_621_878,
+        14.051_652_948_865_826,
+    ];
+    let r = [
+        3.583_124_107_699_808_4e282,
+        2.0,
+        0.650_000_476_837_158_2,
+        0.181_155_107_957_579_91,
+        14.0,
+        0.003_082_322_423_132_677,
+        0.0,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(
+        3.374_076_063_884_047,
+        14.051_652_948_865_826,
+        Detector::Photon,
+        table,
+    )
+    .unwrap();
+    // The same band without the far-away nodes: radiances agree to rounding.
+    let near = SpectralTable::new(&wl[4..], &r[4..]).unwrap();
+    let reference = Band::with_response(
+        3.374_076_063_884_047,
+        14.051_652_948_865_826,
+        Detector::Photon,
+        near,
+    )
+    .unwrap();
+    for t in [100.0, 200.0, 300.153_260_203_172_07, 1000.0] {
+        let l = band.radiance(t).unwrap();
+        let l_ref = reference.radiance(t).unwrap();
+        assert!((l / l_ref - 1.0).abs() < 1e-15, "{t} K: {l:e} vs {l_ref:e}");
+        let back = band.temperature(l).unwrap();
+        assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
+    }
+}
