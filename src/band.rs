@@ -537,7 +537,11 @@ impl<'a> Band<'a> {
                 continue;
             };
             let upper_um = w1.min(self.hi_um);
-            let lower_um = w0.max(self.lo_um);
+            // Wavelengths below c2/(2 X_INTEGRAND_ZERO T) contribute exactly zero (the walk
+            // stops at x = X_INTEGRAND_ZERO); starting the segment there keeps its width in
+            // x finite however small its lower end (1e-308 um gave an infinite width and an
+            // infinite weight at 1000 K).
+            let lower_um = w0.max(self.lo_um).max(c2_over_t / (2.0 * X_INTEGRAND_ZERO));
             if w1 <= self.lo_um {
                 break;
             }

@@ -539,3 +539,42 @@ fn values_outside_the_band_do_not_set_its_resolution() {
         assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
     }
 }
+
+/// A table segment from 2.2e-308 um to 0.31 um: its width in x, c2 (w1 - w0)/(w0 w1 T),
+/// overflowed to infinity, the response measured from that end became infinite, and at
+/// 1000 K the band reported `RadianceOverflow` between finite radiances at 100 K and
+/// 4000 K (so 4000 K did not invert). Segments now start where x = 1420, beyond which the
+/// integrand is exactly zero anyway.
+#[test]
+fn segment_from_the_smallest_doubles_has_a_finite_width() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        1e-310,
+        2.225_073_858_507_201_4e-308,
+        0.312_355_021_095_421_24,
+        2.607_877_230_406_522,
+        3.402_823_5e38,
+        1e300,
+        1e308,
+    ];
+    let r = [
+        0.138_185_702_296_482_8,
+        0.0,
+        0.245_944_914_930_952_9,
+        0.088_960_097_657_740_14,
+        1e6,
+        1e300,
+        0.365_285_725_185_015_6,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band =
+        Band::with_response(1e-310, 1.779_886_502_699_879_4e156, Detector::Energy, table).unwrap();
+    let mut previous = 0.0;
+    for t in [100.0, 300.0, 1000.0, 4000.0, 1e5] {
+        let l = band.radiance(t).unwrap();
+        assert!(l > previous, "L({t}) = {l:e} after {previous:e}");
+        previous = l;
+        let back = band.temperature(l).unwrap();
+        assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
+    }
+}
