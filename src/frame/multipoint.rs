@@ -102,7 +102,9 @@ pub struct MultiPointReport {
 /// [`Error::NucLevelsNotIncreasing`] if the levels' means over the pixels not flagged
 /// bad beforehand do not increase strictly (levels out of order, or two levels at one
 /// radiance), or if the means over the good pixels tie after rounding;
-/// [`Error::NucNoGoodPixels`] if no pixel is left good. On error `bad` and `maps` are
+/// [`Error::NucNoGoodPixels`] if no pixel is left good;
+/// [`Error::FrameCoefficientOverflow`] if a good pixel's map does not fit an f32 (a
+/// response far below an f32's range). On error `bad` and `maps` are
 /// untouched.
 pub fn multi_point(
     levels: &[StackStats<'_>],
@@ -177,6 +179,18 @@ pub fn multi_point(
     if !(1..n).all(|k| level_means.get(k) > level_means.get(k - 1)) {
         return Err(Error::NucLevelsNotIncreasing);
     }
+    // Every good pixel's maps must fit an f32 (a response of 1e-300 counts would not).
+    for p in 0..pixels {
+        if bad.get(p).is_some_and(|&f| f == 0) && increasing(p) {
+            for k in 0..n - 1 {
+                let (g, o, b) = segment_map(&level_means, value(k, p), value(k + 1, p), k);
+                let fits = |v: f32| v.is_finite();
+                if !(fits(g) && fits(o) && fits(super::to_f32(value(k, p))) && fits(b)) {
+                    return Err(Error::FrameCoefficientOverflow);
+                }
+            }
+        }
+    }
     write_maps(levels, &level_means, bad, maps);
     Ok(MultiPointReport {
         levels: n,
@@ -214,12 +228,8 @@ fn write_maps(
         for k in 0..segments {
             let at = k * pixels + p;
             let (g, o) = if good_pixel {
-                let (l, h) = (value(k, p), value(k + 1, p));
-                let ml = level_means.get(k).copied().unwrap_or(f64::NAN);
-                let mh = level_means.get(k + 1).copied().unwrap_or(f64::NAN);
-                // Two-point's arithmetic, term for term (N = 2 reproduces it exactly).
-                let gp = (mh - ml) / (h - l);
-                (super::to_f32(gp), super::to_f32(ml - gp * l))
+                let (g, o, _) = segment_map(level_means, value(k, p), value(k + 1, p), k);
+                (g, o)
             } else {
                 (1.0, 0.0)
             };
@@ -238,4 +248,17 @@ fn write_maps(
             }
         }
     }
+}
+
+/// Gain and offset of segment `k` for a pixel with levels `l` < `h`, and the upper
+/// level as f32: two-point's arithmetic, term for term (N = 2 reproduces it exactly).
+fn segment_map(level_means: &[f64; MAX_NUC_LEVELS], l: f64, h: f64, k: usize) -> (f32, f32, f32) {
+    let ml = level_means.get(k).copied().unwrap_or(f64::NAN);
+    let mh = level_means.get(k + 1).copied().unwrap_or(f64::NAN);
+    let gp = (mh - ml) / (h - l);
+    (
+        super::to_f32(gp),
+        super::to_f32(ml - gp * l),
+        super::to_f32(h),
+    )
 }
