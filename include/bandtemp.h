@@ -3895,6 +3895,64 @@ bt_status bt_frame_convert_counts_multi_point(const bt_frame_converter *converte
                                               size_t len,
                                               bt_corrected_summary *summary);
 
+/**
+ * As `bt_frame_convert_counts_corrected` with a per-pixel emissivity map (`emissivity`,
+ * `len` floats), applied in the same pass: each pixel's corrected counts (after the
+ * drift step) go through the emissivity-map form of `bt_frame_convert_counts`,
+ * L = (x - K) / (tw ta e) + Lr. A replaced bad pixel takes its neighbours' corrected
+ * counts and its own emissivity; an emissivity outside (0, 1] gives NaN, counted as
+ * `emissivity_invalid`. With the identity step, the same as correcting first and
+ * converting with `bt_frame_convert_counts` and the same map.
+ *
+ * Errors: those of `bt_frame_convert_counts_corrected`,
+ * `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE` (the curve had no signal at the reflected
+ * temperature). On error neither `kelvin` nor `summary` is written.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts_corrected`; `emissivity` null or valid for reading `len`
+ * floats.
+ */
+bt_status bt_frame_convert_counts_corrected_emissivity(const bt_frame_converter *converter,
+                                                       const bt_frame_row *table,
+                                                       size_t table_rows,
+                                                       const float *gain,
+                                                       const float *offset,
+                                                       const uint8_t *bad,
+                                                       size_t width,
+                                                       const bt_drift_step *step,
+                                                       const uint16_t *counts,
+                                                       const float *emissivity,
+                                                       float *kelvin,
+                                                       size_t len,
+                                                       bt_corrected_summary *summary);
+
+/**
+ * As `bt_frame_convert_counts_multi_point` with a per-pixel emissivity map, applied in
+ * the same pass as `bt_frame_convert_counts_corrected_emissivity` describes.
+ *
+ * Errors: those of `bt_frame_convert_counts_multi_point`,
+ * `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE`. On error neither `kelvin` nor `summary`
+ * is written.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts_multi_point`; `emissivity` null or valid for reading `len`
+ * floats.
+ */
+bt_status bt_frame_convert_counts_multi_point_emissivity(const bt_frame_converter *converter,
+                                                         const bt_frame_row *table,
+                                                         size_t table_rows,
+                                                         const float *maps,
+                                                         size_t maps_len,
+                                                         size_t levels,
+                                                         const uint8_t *bad,
+                                                         size_t width,
+                                                         const bt_drift_step *step,
+                                                         const uint16_t *counts,
+                                                         const float *emissivity,
+                                                         float *kelvin,
+                                                         size_t len,
+                                                         bt_corrected_summary *summary);
+
 #ifdef __cplusplus
 }  // extern "C"
 #endif  // __cplusplus

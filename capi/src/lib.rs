@@ -157,7 +157,8 @@ pub use raw::{
     bt_object_from_net_signal_band, bt_spatial_stats, bt_stack_view, bt_two_point_report,
 };
 pub use raw::{
-    bt_frame_convert_counts_multi_point, bt_multi_point_report, bt_nuc_multi_point,
+    bt_frame_convert_counts_corrected_emissivity, bt_frame_convert_counts_multi_point,
+    bt_frame_convert_counts_multi_point_emissivity, bt_multi_point_report, bt_nuc_multi_point,
     bt_nuc_multi_point_map_len, BT_NUC_MAX_LEVELS,
 };
 pub use scene::{

@@ -1219,3 +1219,100 @@ pub unsafe extern "C" fn bt_frame_convert_counts_multi_point(
     }
 }
 
+/// As `bt_frame_convert_counts_corrected` with a per-pixel emissivity map (`emissivity`,
+/// `len` floats), applied in the same pass: each pixel's corrected counts (after the
+/// drift step) go through the emissivity-map form of `bt_frame_convert_counts`,
+/// L = (x - K) / (tw ta e) + Lr. A replaced bad pixel takes its neighbours' corrected
+/// counts and its own emissivity; an emissivity outside (0, 1] gives NaN, counted as
+/// `emissivity_invalid`. With the identity step, the same as correcting first and
+/// converting with `bt_frame_convert_counts` and the same map.
+///
+/// Errors: those of `bt_frame_convert_counts_corrected`,
+/// `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE` (the curve had no signal at the reflected
+/// temperature). On error neither `kelvin` nor `summary` is written.
+///
+/// # Safety
+/// As `bt_frame_convert_counts_corrected`; `emissivity` null or valid for reading `len`
+/// floats.
+#[no_mangle]
+#[allow(clippy::too_many_arguments)]
+pub unsafe extern "C" fn bt_frame_convert_counts_corrected_emissivity(
+    converter: *const bt_frame_converter,
+    table: *const bt_frame_row,
+    table_rows: usize,
+    gain: *const f32,
+    offset: *const f32,
+    bad: *const u8,
+    width: usize,
+    step: *const bt_drift_step,
+    counts: *const u16,
+    emissivity: *const f32,
+    kelvin: *mut f32,
+    len: usize,
+    summary: *mut bt_corrected_summary,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `fused_from_c`.
+    unsafe {
+        fused_from_c(
+            converter,
+            table,
+            table_rows,
+            Maps::TwoPoint(gain, offset),
+            bad,
+            width,
+            step,
+            counts,
+            Some(emissivity),
+            kelvin,
+            len,
+            summary,
+        )
+    }
+}
+
+/// As `bt_frame_convert_counts_multi_point` with a per-pixel emissivity map, applied in
+/// the same pass as `bt_frame_convert_counts_corrected_emissivity` describes.
+///
+/// Errors: those of `bt_frame_convert_counts_multi_point`,
+/// `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE`. On error neither `kelvin` nor `summary`
+/// is written.
+///
+/// # Safety
+/// As `bt_frame_convert_counts_multi_point`; `emissivity` null or valid for reading `len`
+/// floats.
+#[no_mangle]
+#[allow(clippy::too_many_arguments)]
+pub unsafe extern "C" fn bt_frame_convert_counts_multi_point_emissivity(
+    converter: *const bt_frame_converter,
+    table: *const bt_frame_row,
+    table_rows: usize,
+    maps: *const f32,
+    maps_len: usize,
+    levels: usize,
+    bad: *const u8,
+    width: usize,
+    step: *const bt_drift_step,
+    counts: *const u16,
+    emissivity: *const f32,
+    kelvin: *mut f32,
+    len: usize,
+    summary: *mut bt_corrected_summary,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `fused_from_c`.
+    unsafe {
+        fused_from_c(
+            converter,
+            table,
+            table_rows,
+            Maps::MultiPoint(maps, maps_len, levels),
+            bad,
+            width,
+            step,
+            counts,
+            Some(emissivity),
+            kelvin,
+            len,
+            summary,
+        )
+    }
+}

@@ -155,8 +155,9 @@ proptest! {
         }
     }
 
-    /// Arbitrary map bits, bad maps, widths and steps: the fused export either refuses
-    /// with a status (output untouched) or agrees bit for bit with the Rust API.
+    /// Arbitrary map bits, bad maps, widths, steps and emissivity maps (or none): the
+    /// fused two-point exports either refuse with a status (output untouched) or agree bit
+    /// for bit with the Rust API.
     #[test]
     fn fused_conversion_agrees_with_rust(
         gain in prop::collection::vec(any_f32(), 24),
@@ -166,6 +167,7 @@ proptest! {
         width in 0usize..30,
         a in any_f32(),
         b in any_f32(),
+        emissivity in prop::option::of(prop::collection::vec(any_f32(), 24)),
     ) {
         let band = rust_band();
         let scene = Scene::new(0.9, 293.15).unwrap();
@@ -184,19 +186,29 @@ proptest! {
         let mut summary = sentinel_summary;
         // SAFETY: every buffer holds 24 values; rows and converter as built above.
         let s = unsafe {
-            bt_frame_convert_counts_corrected(&c_conv, rows.as_ptr().cast(), rows.len(),
-                gain.as_ptr(), offset.as_ptr(), bad.as_ptr(), width, &step,
-                counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary)
+            match &emissivity {
+                None => bt_frame_convert_counts_corrected(&c_conv, rows.as_ptr().cast(),
+                    rows.len(), gain.as_ptr(), offset.as_ptr(), bad.as_ptr(), width, &step,
+                    counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary),
+                Some(e) => bt_frame_convert_counts_corrected_emissivity(&c_conv,
+                    rows.as_ptr().cast(), rows.len(), gain.as_ptr(), offset.as_ptr(),
+                    bad.as_ptr(), width, &step, counts.as_ptr(), e.as_ptr(),
+                    kelvin.as_mut_ptr(), 24, &mut summary),
+            }
         };
         let mut expected = vec![-1.0f32; 24];
         let r = Correction::new(&gain, &offset, &bad, width)
             .and_then(|c| c.with_step(DriftStep { a, b }))
-            .and_then(|c| conv.convert_counts_corrected(&c, &counts, &mut expected));
+            .and_then(|c| match &emissivity {
+                None => conv.convert_counts_corrected(&c, &counts, &mut expected),
+                Some(e) => conv.convert_counts_corrected_emissivity(&c, &counts, e, &mut expected),
+            });
         prop_assert_eq!(s, status_of(&r));
         match r {
             Ok(rs) => {
                 prop_assert_eq!(summary.bad_replaced, rs.bad_replaced);
                 prop_assert_eq!(summary.frame.converted, rs.frame.converted);
+                prop_assert_eq!(summary.frame.emissivity_invalid, rs.frame.emissivity_invalid);
                 let f = summary.frame;
                 prop_assert_eq!(f.pixels, f.converted + f.dead + f.saturated + f.emissivity_invalid
                     + f.non_finite + f.below_background + f.below_range + f.above_range);
@@ -212,7 +224,7 @@ proptest! {
     }
 
     /// Arbitrary multi-point map bits (breakpoints included), level counts, map lengths,
-    /// widths and steps: the fused multi-point export either refuses with a status
+    /// widths, steps and emissivity maps (or none): the fused multi-point export either refuses with a status
     /// (output untouched) or agrees bit for bit with the Rust API.
     #[test]
     fn fused_multi_point_agrees_with_rust(
@@ -224,8 +236,8 @@ proptest! {
         width in prop_oneof![3 => Just(6usize), 1 => 0usize..30],
         a in any_f32(),
         b in any_f32(),
+        emissivity in prop::option::of(prop::collection::vec(any_f32(), 24)),
     ) {
-        let emissivity: Option<Vec<f32>> = None;
         let band = rust_band();
         let scene = Scene::new(0.9, 293.15).unwrap();
         let counts_map = CountsMap::linear(0.002, -2.0).unwrap();
@@ -246,7 +258,10 @@ proptest! {
                 None => bt_frame_convert_counts_multi_point(&c_conv, rows.as_ptr().cast(),
                     rows.len(), maps.as_ptr(), maps_len, levels, bad.as_ptr(), width, &step,
                     counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary),
-                Some(_) => unreachable!(),
+                Some(e) => bt_frame_convert_counts_multi_point_emissivity(&c_conv,
+                    rows.as_ptr().cast(), rows.len(), maps.as_ptr(), maps_len, levels,
+                    bad.as_ptr(), width, &step, counts.as_ptr(), e.as_ptr(),
+                    kelvin.as_mut_ptr(), 24, &mut summary),
             }
         };
         let mut expected = vec![-1.0f32; 24];

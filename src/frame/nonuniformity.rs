@@ -522,8 +522,26 @@ impl<'m> Correction<'m> {
                 let o = offset.get(i).copied().unwrap_or(f32::NAN);
                 !is_good(i % pixels) || (g > 0.0 && g < f32::INFINITY && o.abs() < f32::INFINITY)
             });
-        // Breakpoints: finite, and each plane at least the one before it.
-        let ordered = |fast: bool| {
+        // Breakpoints: finite, and each plane at least the one before it. Fast path over
+        // whole planes with non-short-circuiting folds (vectorised); only when it fails
+        // are the bad-pixel flags consulted, pixel by pixel.
+        let finite = |b: f32| b.abs() < f32::INFINITY;
+        #[allow(clippy::needless_bitwise_bool)] // `&`, not `&&`: no branch, so it vectorises
+        let fast = breaks
+            .chunks(pixels)
+            .enumerate()
+            .fold(true, |ok, (j, plane)| {
+                let previous = if j == 0 {
+                    plane
+                } else {
+                    window(breaks, j - 1, pixels, 0, pixels)
+                };
+                ok & plane
+                    .iter()
+                    .zip(previous)
+                    .fold(true, |ok, (&b, &a)| ok & finite(b) & (b >= a))
+            });
+        let ordered = || {
             (0..breaks.len()).all(|i| {
                 let b = breaks.get(i).copied().unwrap_or(f32::NAN);
                 let before = if i >= pixels {
@@ -531,10 +549,10 @@ impl<'m> Correction<'m> {
                 } else {
                     f32::NEG_INFINITY
                 };
-                (!fast && !is_good(i % pixels)) || (b.abs() < f32::INFINITY && b >= before)
+                !is_good(i % pixels) || (finite(b) && b >= before)
             })
         };
-        if !(maps_ok && (ordered(true) || ordered(false))) {
+        if !(maps_ok && (fast || ordered())) {
             return Err(Error::NucMapInvalid);
         }
         Ok(Correction {

@@ -3535,6 +3535,114 @@ static void test_multi_point(void) {
     (void)bad_copy;
 }
 
+/* The fused emissivity-map path against correcting first and converting with the plain
+ * emissivity-map conversion: with maps that leave every count whole (identity gains,
+ * offsets of whole counts), and a bad pixel in a flat patch (its neighbours' mean is the
+ * patch's count), the results agree bit for bit, invalid emissivities included. */
+static bt_frame_row sh_table[1024];
+
+static void test_fused_emissivity(void) {
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = {0.9, 300.0, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    bt_rails rails = {0, 65535};
+    bt_frame_converter conv, sh_conv;
+    bt_frame_summary plain;
+    bt_corrected_summary cs, cs_sentinel;
+    bt_drift_step step = {1.0f, 0.0f};
+    uint16_t raw[RAW_N], corrected[RAW_N];
+    float gain[RAW_N], offset[RAW_N], maps[5 * RAW_N], em[RAW_N], fused[RAW_N], expected[RAW_N];
+    uint8_t bad[RAW_N];
+    size_t p;
+    const bt_sakuma_hattori sh = {10.0, -3000.0, 1e7};
+    bt_scene cold = {1.0, 250.0, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+
+    CHECK(bt_frame_converter_new_band(&band, &scene, 0.002, -2.0, &rails, 250.0, 600.0, 1e-3,
+                                      frame_table, FRAME_ROWS, &conv) == BT_STATUS_OK);
+    /* Pixel p: offset (p % 3) * 100 counts, gain 1; corrected counts 20000 + 900 p, except
+     * a flat patch of 22000 around the bad pixel 5 (row 1, column 1 of a 4-wide frame). */
+    memset(bad, 0, sizeof bad);
+    bad[5] = 1;
+    for (p = 0; p < RAW_N; p++) {
+        size_t r = p / RAW_W, c = p % RAW_W;
+        int near5 = r <= 2 && c <= 2;
+        corrected[p] = (uint16_t)(near5 ? 22000 : 20000 + 900 * p);
+        gain[p] = 1.0f;
+        offset[p] = (float)((p % 3) * 100);
+        raw[p] = (uint16_t)(corrected[p] - (p % 3) * 100);
+        em[p] = 0.2f + 0.07f * (float)p;
+    }
+    raw[5] = 1234; /* whatever a bad pixel reads */
+    em[2] = 0.0f;
+    em[7] = NAN;
+    em[9] = 1.5f;
+    CHECK(bt_frame_convert_counts(&conv, frame_table, FRAME_ROWS, corrected, RAW_N, em, RAW_N,
+                                  expected, RAW_N, &plain) == BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw, em,
+                                                       fused, RAW_N, &cs) == BT_STATUS_OK);
+    CHECK(memcmp(fused, expected, sizeof fused) == 0);
+    CHECK(memcmp(&cs.frame, &plain, sizeof plain) == 0);
+    CHECK(cs.bad_replaced == 1 && plain.emissivity_invalid == 3 && plain.converted > 6);
+    /* The same maps as three-level multi-point maps (every segment the same). */
+    for (p = 0; p < RAW_N; p++) {
+        maps[p] = maps[RAW_N + p] = 1.0f;
+        maps[2 * RAW_N + p] = maps[3 * RAW_N + p] = offset[p];
+        maps[4 * RAW_N + p] = 21000.0f;
+    }
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 3, bad, RAW_W, NULL, raw, em,
+                                                         fused, RAW_N, &cs) == BT_STATUS_OK);
+    CHECK(memcmp(fused, expected, sizeof fused) == 0);
+    CHECK(memcmp(&cs.frame, &plain, sizeof plain) == 0);
+
+    /* Hostile: nothing written. */
+    for (p = 0; p < RAW_N; p++) fused[p] = -1.0f;
+    memset(&cs_sentinel, 0x5a, sizeof cs_sentinel);
+    cs = cs_sentinel;
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw, NULL,
+                                                       fused, RAW_N, &cs) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw, fused,
+                                                       fused, RAW_N, &cs) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw,
+                                                       (const float *)misaligned(em), fused,
+                                                       RAW_N - 1, &cs) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, 5, &step, raw, em, fused,
+                                                       RAW_N, &cs) ==
+          BT_STATUS_NUC_GEOMETRY_INVALID);
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 3, bad, RAW_W, NULL, raw,
+                                                         NULL, fused, RAW_N, &cs) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 2, bad, RAW_W, NULL, raw, em,
+                                                         fused, RAW_N, &cs) ==
+          BT_STATUS_NUC_MAP_STORAGE_MISMATCH);
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 3, bad, RAW_W, NULL, raw, em,
+                                                         fused, RAW_N, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    /* A curve without a signal at the reflected temperature (an invented Sakuma-Hattori
+     * curve undefined below 300 K, surroundings at 250 K): no emissivity map. */
+    CHECK(bt_frame_converter_new_sakuma_hattori(&sh, &cold, 100.0, &rails, 400.0, 1200.0, 0.01,
+                                                sh_table, 1024, &sh_conv) == BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&sh_conv, sh_table, 1024, gain, offset,
+                                                       bad, RAW_W, &step, raw, em, fused, RAW_N,
+                                                       &cs) ==
+          BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE);
+    CHECK(bt_frame_convert_counts_corrected(&sh_conv, sh_table, 1024, gain, offset, bad, RAW_W,
+                                            &step, raw, fused, RAW_N, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    for (p = 0; p < RAW_N; p++) CHECK(fused[p] == -1.0f);
+    CHECK(memcmp(&cs, &cs_sentinel, sizeof cs) == 0);
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -3562,6 +3670,7 @@ int main(void) {
     test_optics();
     test_raw_frames();
     test_multi_point();
+    test_fused_emissivity();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }
