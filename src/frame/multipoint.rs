@@ -218,8 +218,12 @@ fn write_maps(
     };
     let increasing = |p: usize| (1..n).all(|k| value(k, p) > value(k - 1, p));
     let segments = n - 1;
-    let (gain, rest) = maps.split_at_mut(segments * pixels);
-    let (offset, breaks) = rest.split_at_mut(segments * pixels);
+    let Some((gain, rest)) = maps.split_at_mut_checked(segments * pixels) else {
+        return;
+    };
+    let Some((offset, breaks)) = rest.split_at_mut_checked(segments * pixels) else {
+        return;
+    };
     for (p, flag) in bad.iter_mut().enumerate() {
         let good_pixel = *flag == 0 && increasing(p);
         if *flag == 0 && !good_pixel {

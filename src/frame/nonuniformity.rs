@@ -511,45 +511,50 @@ impl<'m> Correction<'m> {
         if maps.len() != expected {
             return Err(Error::NucMapStorageMismatch);
         }
+        // `multi_point_map_len` refuses zero pixels and levels outside 2..=16 and the
+        // length is checked; the early returns say so to the compiler, which removes the
+        // division-by-zero and slicing panic paths.
+        if pixels == 0 || levels < 2 {
+            return Err(Error::NucFrameEmpty);
+        }
         let segments = levels - 1;
         let plane = segments * pixels;
-        let (gain, rest) = maps.split_at(plane);
-        let (offset, breaks) = rest.split_at(plane);
-        let is_good = |p: usize| bad.get(p).is_some_and(|&f| f == 0);
+        let (gain, rest) = maps
+            .split_at_checked(plane)
+            .ok_or(Error::NucMapStorageMismatch)?;
+        let (offset, breaks) = rest
+            .split_at_checked(plane)
+            .ok_or(Error::NucMapStorageMismatch)?;
+        let valid = |g: f32, o: f32| g > 0.0 && g < f32::INFINITY && o.abs() < f32::INFINITY;
+        let plane = |map, k| window(map, k, pixels, 0, pixels);
+        // Slow paths plane by plane, zipped with the bad-pixel map (no division).
         let maps_ok = maps_valid_fast(gain, offset)
-            || (0..plane).all(|i| {
-                let g = gain.get(i).copied().unwrap_or(f32::NAN);
-                let o = offset.get(i).copied().unwrap_or(f32::NAN);
-                !is_good(i % pixels) || (g > 0.0 && g < f32::INFINITY && o.abs() < f32::INFINITY)
+            || (0..segments).all(|k| {
+                plane(gain, k)
+                    .iter()
+                    .zip(plane(offset, k))
+                    .zip(bad)
+                    .all(|((&g, &o), &f)| f != 0 || valid(g, o))
             });
         // Breakpoints: finite, and each plane at least the one before it. Fast path over
         // whole planes with non-short-circuiting folds (vectorised); only when it fails
-        // are the bad-pixel flags consulted, pixel by pixel.
+        // are the bad-pixel flags consulted.
         let finite = |b: f32| b.abs() < f32::INFINITY;
+        let previous = |j: usize| plane(breaks, j.saturating_sub(1));
         #[allow(clippy::needless_bitwise_bool)] // `&`, not `&&`: no branch, so it vectorises
-        let fast = breaks
-            .chunks(pixels)
-            .enumerate()
-            .fold(true, |ok, (j, plane)| {
-                let previous = if j == 0 {
-                    plane
-                } else {
-                    window(breaks, j - 1, pixels, 0, pixels)
-                };
-                ok & plane
-                    .iter()
-                    .zip(previous)
-                    .fold(true, |ok, (&b, &a)| ok & finite(b) & (b >= a))
-            });
+        let fast = (0..segments - 1).fold(true, |ok, j| {
+            ok & plane(breaks, j)
+                .iter()
+                .zip(previous(j))
+                .fold(true, |ok, (&b, &a)| ok & finite(b) & (b >= a))
+        });
         let ordered = || {
-            (0..breaks.len()).all(|i| {
-                let b = breaks.get(i).copied().unwrap_or(f32::NAN);
-                let before = if i >= pixels {
-                    breaks.get(i - pixels).copied().unwrap_or(f32::NAN)
-                } else {
-                    f32::NEG_INFINITY
-                };
-                !is_good(i % pixels) || (finite(b) && b >= before)
+            (0..segments - 1).all(|j| {
+                plane(breaks, j)
+                    .iter()
+                    .zip(previous(j))
+                    .zip(bad)
+                    .all(|((&b, &a), &f)| f != 0 || (finite(b) && b >= a))
             })
         };
         if !(maps_ok && (fast || ordered())) {
