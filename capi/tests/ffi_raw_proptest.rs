@@ -337,7 +337,9 @@ proptest! {
             .unwrap_or_default();
         let mut maps = vec![-3.0f32; len];
         let mut rust_bad = bad.clone();
-        let r = if stats.len() < n {
+        let r = if levels < 2 {
+            Err(Error::NucLevelCount)
+        } else if stats.len() < n {
             Err(Error::NucStackEmpty)
         } else {
             multi_point(&stats, &mut rust_bad, &mut maps)
