@@ -32,7 +32,7 @@ use super::bad_pixels::replacement_mean;
 use super::kernel::run;
 use super::lookup::Lookup;
 use super::summary::{FrameSummary, PixelStatus};
-use super::FrameConverter;
+use super::{FrameConverter, LANES};
 use crate::band::SignalCurve;
 use crate::error::{Error, Result};
 
@@ -775,11 +775,45 @@ fn select_segments(
             at(correction.offset, k),
             at(correction.breaks, k - 1),
         );
+        // Lanes of 16 in fixed-size arrays (the loop vectorises), then the tail.
+        let whole = m - m % LANES;
+        for (((g, o), n), ((gn, on), b)) in gains
+            .chunks_exact_mut(LANES)
+            .zip(offsets.chunks_exact_mut(LANES))
+            .zip(n_block.chunks_exact(LANES))
+            .zip(
+                gk.chunks_exact(LANES)
+                    .zip(ok.chunks_exact(LANES))
+                    .zip(bk.chunks_exact(LANES)),
+            )
+        {
+            let (Ok(g), Ok(o), Ok(n), Ok(gn), Ok(on), Ok(b)) = (
+                <&mut [f32; LANES]>::try_from(g),
+                <&mut [f32; LANES]>::try_from(o),
+                <&[u16; LANES]>::try_from(n),
+                <&[f32; LANES]>::try_from(gn),
+                <&[f32; LANES]>::try_from(on),
+                <&[f32; LANES]>::try_from(b),
+            ) else {
+                continue;
+            };
+            for j in 0..LANES {
+                let upper = f32::from(n[j]) >= b[j];
+                g[j] = if upper { gn[j] } else { g[j] };
+                o[j] = if upper { on[j] } else { o[j] };
+            }
+        }
         for (((g, o), &n), ((&gn, &on), &b)) in gains
             .iter_mut()
             .zip(offsets.iter_mut())
             .zip(n_block)
-            .zip(gk.iter().zip(ok).zip(bk))
+            .skip(whole)
+            .zip(
+                gk.iter()
+                    .skip(whole)
+                    .zip(ok.iter().skip(whole))
+                    .zip(bk.iter().skip(whole)),
+            )
         {
             let upper = f32::from(n) >= b;
             *g = if upper { gn } else { *g };
