@@ -589,7 +589,7 @@ typedef enum {
      */
     BT_STATUS_NUC_LEVEL_COUNT = 814,
     /**
-     * Multi-point NUC levels whose array means (over the pixels not flagged bad) do not increase strictly from one level to the next.
+     * Multi-point NUC levels that do not increase for at least half of the pixels not flagged bad (levels out of order, or two at one radiance), or array means that tie.
      */
     BT_STATUS_NUC_LEVELS_NOT_INCREASING = 815,
     /**
@@ -3848,7 +3848,8 @@ bt_status bt_nuc_multi_point_map_len(size_t levels, size_t pixels, size_t *out);
  * length, overlapping buffers), `BT_STATUS_NUC_LEVEL_COUNT`, `BT_STATUS_NUC_STACK_EMPTY`,
  * `BT_STATUS_NUC_FRAME_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`,
  * `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`, `BT_STATUS_NON_FINITE`,
- * `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (levels out of order or two at one radiance),
+ * `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (at least half of the pixels not already flagged
+ * have levels that do not increase: levels out of order or two at one radiance),
  * `BT_STATUS_NUC_NO_GOOD_PIXELS`. On error nothing is written.
  *
  * # Safety

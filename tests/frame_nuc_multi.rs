@@ -561,6 +561,44 @@ fn multi_point_refuses_and_flags() {
     assert_eq!(s.frame.converted, np as u64);
     assert!(kelvin[6].is_finite() && kelvin[9].is_finite());
 
+    // One wild pixel (its last level far below everything) is flagged, never a refusal;
+    // half the pixels not increasing is (the levels, not the pixels, are at fault).
+    let mut wild = l2.clone();
+    wild[2] = -1e9;
+    let mut fresh = vec![0u8; np];
+    let mut scratch_maps = maps.clone();
+    let r = multi_point(
+        &[st(&l0), st(&l1), st(&wild)],
+        &mut fresh,
+        &mut scratch_maps,
+    )
+    .unwrap();
+    assert_eq!((r.order_flagged, fresh[2]), (1, BAD_ORDER));
+    let mut half = l2.clone();
+    for v in half.iter_mut().take(np / 2) {
+        *v = 0.0;
+    }
+    let mut fresh = vec![0u8; np];
+    assert_eq!(
+        multi_point(
+            &[st(&l0), st(&l1), st(&half)],
+            &mut fresh,
+            &mut scratch_maps
+        ),
+        Err(Error::NucLevelsNotIncreasing)
+    );
+    assert!(fresh.iter().all(|&f| f == 0));
+    half[0] = l2[0];
+    assert!(multi_point(
+        &[st(&l0), st(&l1), st(&half)],
+        &mut fresh,
+        &mut scratch_maps
+    )
+    .is_ok());
+    let mut again = bad.clone();
+    let r = multi_point(&[st(&l0), st(&l1), st(&l2)], &mut again, &mut scratch_maps).unwrap();
+    assert_eq!(r.order_flagged, 0, "pixels 6 and 9 were flagged already");
+
     // Correction::multi_point refusals.
     assert_eq!(
         Correction::multi_point(&maps, 3, &bad, 5).err(),

@@ -1105,7 +1105,8 @@ pub unsafe extern "C" fn bt_nuc_multi_point_map_len(
 /// length, overlapping buffers), `BT_STATUS_NUC_LEVEL_COUNT`, `BT_STATUS_NUC_STACK_EMPTY`,
 /// `BT_STATUS_NUC_FRAME_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`,
 /// `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`, `BT_STATUS_NON_FINITE`,
-/// `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (levels out of order or two at one radiance),
+/// `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (at least half of the pixels not already flagged
+/// have levels that do not increase: levels out of order or two at one radiance),
 /// `BT_STATUS_NUC_NO_GOOD_PIXELS`. On error nothing is written.
 ///
 /// # Safety

@@ -299,7 +299,7 @@ pub enum bt_status {
     // 814: multi-point non-uniformity correction
     /// Multi-point NUC with fewer than 2 or more than 16 flat-field levels.
     NucLevelCount = 814,
-    /// Multi-point NUC levels whose array means (over the pixels not flagged bad) do not increase strictly from one level to the next.
+    /// Multi-point NUC levels that do not increase for at least half of the pixels not flagged bad (levels out of order, or two at one radiance), or array means that tie.
     NucLevelsNotIncreasing = 815,
     /// Multi-point map storage that does not hold (3 N - 4) floats per pixel for N levels.
     NucMapStorageMismatch = 816,

@@ -99,9 +99,10 @@ pub struct MultiPointReport {
 /// [`Error::FrameLengthMismatch`] unless every level and `bad` have one length;
 /// [`Error::NucMapStorageMismatch`] if `maps` has the wrong length;
 /// [`Error::NonFinite`] for a non-finite mean at a pixel not flagged bad;
-/// [`Error::NucLevelsNotIncreasing`] if the levels' means over the pixels not flagged
-/// bad beforehand do not increase strictly (levels out of order, or two levels at one
-/// radiance), or if the means over the good pixels tie after rounding;
+/// [`Error::NucLevelsNotIncreasing`] if at least half of the pixels not flagged bad
+/// beforehand have levels that do not increase (levels out of order, or two levels at
+/// one radiance: a fault of the calibration, not of the pixels), or if the means over
+/// the good pixels tie after rounding;
 /// [`Error::NucNoGoodPixels`] if no pixel is left good;
 /// [`Error::FrameCoefficientOverflow`] if a good pixel's map does not fit an f32 (a
 /// response far below an f32's range). On error `bad` and `maps` are
@@ -131,9 +132,8 @@ pub fn multi_point(
             .unwrap_or(f64::NAN)
     };
     let increasing = |p: usize| (1..n).all(|k| value(k, p) > value(k - 1, p));
-    // Pass 1, nothing written: finiteness, the order of the levels over every pixel not
-    // flagged beforehand, and the sums over the pixels that will stay good.
-    let mut all_sums = [0.0f64; MAX_NUC_LEVELS];
+    // Pass 1, nothing written: finiteness, the order of each pixel's levels, and the sums
+    // over the pixels that will stay good.
     let mut sums = [0.0f64; MAX_NUC_LEVELS];
     let (mut candidates, mut good, mut order_flagged) = (0u64, 0u64, 0u64);
     for (p, &flag) in bad.iter().enumerate() {
@@ -144,15 +144,11 @@ pub fn multi_point(
             return Err(Error::NonFinite);
         }
         candidates += 1;
-        let keep = increasing(p);
-        for (k, (all, sum)) in all_sums.iter_mut().zip(sums.iter_mut()).take(n).enumerate() {
-            *all += value(k, p);
-            if keep {
+        if increasing(p) {
+            good += 1;
+            for (k, sum) in sums.iter_mut().take(n).enumerate() {
                 *sum += value(k, p);
             }
-        }
-        if keep {
-            good += 1;
         } else {
             order_flagged += 1;
         }
@@ -160,11 +156,10 @@ pub fn multi_point(
     if candidates == 0 {
         return Err(Error::NucNoGoodPixels);
     }
-    if !(1..n).all(|k| all_sums.get(k) > all_sums.get(k - 1)) {
+    // Levels out of order, or two at one radiance, leave most pixels not increasing: a
+    // fault of the calibration, not of the pixels.
+    if good == 0 || order_flagged >= good {
         return Err(Error::NucLevelsNotIncreasing);
-    }
-    if good == 0 {
-        return Err(Error::NucNoGoodPixels);
     }
     #[allow(clippy::cast_precision_loss)]
     let count = good as f64;
