@@ -101,9 +101,9 @@ pub struct Figures {
     /// Temporal NETD before and after NUC, K.
     pub netd_k: (f64, f64),
     /// Per correction case: worst error in the blackbody span, outside it, at replaced
-    /// bad pixels, and the rms error over good pixels, K. Cases: no NUC; NUC + bad pixels;
-    /// + drift step; + shutter; multi-point NUC (three levels) + bad pixels + drift step +
-    /// shutter.
+    /// bad pixels, and the rms error over good pixels, K. Cases: no NUC; NUC and bad
+    /// pixels; and the drift step; and the shutter; multi-point NUC (three levels) with bad
+    /// pixels, drift step and shutter.
     pub errors: Vec<(f64, f64, f64, f64)>,
 }
 
