@@ -55,7 +55,7 @@
 //! | multi-point (piecewise-linear) NUC maps | `multipoint.rs` | [`multi_point`], [`multi_point_map_len`], [`Correction::multi_point`] |
 //! | bad-pixel map and replacement           | `bad_pixels.rs` | [`detect_bad_pixels`], [`BadPixelRules`] |
 //! | array-temperature drift, self-emission  | `drift.rs`     | [`DriftModel`], [`DriftStep`], [`net_signal`] |
-//! | fused raw counts -> kelvin              | `nonuniformity.rs` | [`FrameConverter::convert_counts_corrected`] |
+//! | fused raw counts -> kelvin              | `nonuniformity.rs` | [`FrameConverter::convert_counts_corrected`], [`FrameConverter::convert_counts_corrected_emissivity`] |
 //! | declared inputs                         | `params.rs`    | [`TemperatureRange`], [`CountsMap`], [`Rails`] |
 //! | counts or S -> object signal L          | `pixel_map.rs` | [`PixelMap`]                           |
 //! | L -> row and position -> T (per pixel)  | `lookup.rs`    | row index from the f32 bits, Horner    |

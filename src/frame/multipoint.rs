@@ -24,7 +24,8 @@
 //! Below S_1,ij the first segment applies and at or above S_N-2,ij the last one, so raw
 //! counts outside the calibrated span are extrapolated with the end segments (as
 //! two-point NUC extrapolates with its one segment). For N = 2 the maps are the
-//! two-point maps of [`crate::frame::two_point`], bit for bit.
+//! two-point maps of [`crate::frame::two_point`], bit for bit, over the same good pixels
+//! (two-point refuses a pixel whose levels do not increase; this flags it).
 //!
 //! A pixel S = a + b L + c L^2 keeps on segment k the residual
 //! G_k c (L - L_k)(L - L_k+1): zero at every level and -G_k c dL_k^2 / 4 at the segment's

@@ -1,6 +1,8 @@
 //! Non-uniformity correction (NUC): averaging of calibration frames, two-point gain and
 //! offset maps, the shutter (flag) offset refresh, and the fused conversion of raw counts
-//! through the maps, bad-pixel replacement and drift step straight to kelvin.
+//! through the maps (two-point, or multi-point from [`crate::frame::multi_point`]),
+//! bad-pixel replacement and drift step straight to kelvin, with or without a per-pixel
+//! emissivity map.
 //!
 //! # Two-point correction (Perry & Dereniak 1993, Opt. Eng. 32, 1854)
 //!
@@ -491,9 +493,9 @@ impl<'m> Correction<'m> {
     /// non-decreasing. A bad pixel's map values are never read. With `levels == 2` this
     /// is [`Correction::new`] over the two planes.
     ///
-    /// Cost: one pass over the maps per call (about a third of a fused conversion's
-    /// memory traffic for N = 3); wrap once and keep the `Correction` when the maps do
-    /// not change between frames.
+    /// Cost: one pass over the maps per call (four levels on 640x512: 4.7 M instructions,
+    /// against 16.7 M for the fused conversion; `benches/nuc.rs`); wrap once and keep the
+    /// `Correction` when the maps do not change between frames.
     ///
     /// # Errors
     /// [`Error::NucLevelCount`], [`Error::NucFrameEmpty`] (no pixels),
@@ -890,6 +892,9 @@ impl FrameConverter<'_> {
     /// Accuracy: that of the emissivity-map path of [`FrameConverter::convert_counts`] at
     /// the corrected counts, plus the rounding of G n + O as for
     /// [`FrameConverter::convert_counts_corrected`].
+    ///
+    /// Speed (`benches/nuc.rs`, 640x512, two-point maps): 1.05x the plain emissivity-map
+    /// conversion of the same counts in wall time, 1.13x in instructions (README).
     ///
     /// # Errors
     /// [`Error::FrameLengthMismatch`] unless counts, maps, emissivity and output have one
