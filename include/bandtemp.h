@@ -3850,7 +3850,9 @@ bt_status bt_nuc_multi_point_map_len(size_t levels, size_t pixels, size_t *out);
  * `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`, `BT_STATUS_NON_FINITE`,
  * `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (at least half of the pixels not already flagged
  * have levels that do not increase: levels out of order or two at one radiance),
- * `BT_STATUS_NUC_NO_GOOD_PIXELS`. On error nothing is written.
+ * `BT_STATUS_NUC_NO_GOOD_PIXELS` (every pixel flagged beforehand),
+ * `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's map does not fit a float). On
+ * error nothing is written.
  *
  * # Safety
  * `levels` null or valid for reading `n_levels` views, each valid; `bad` null or valid

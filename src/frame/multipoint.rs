@@ -104,7 +104,7 @@ pub struct MultiPointReport {
 /// beforehand have levels that do not increase (levels out of order, or two levels at
 /// one radiance: a fault of the calibration, not of the pixels), or if the means over
 /// the good pixels tie after rounding;
-/// [`Error::NucNoGoodPixels`] if no pixel is left good;
+/// [`Error::NucNoGoodPixels`] if every pixel was flagged bad beforehand;
 /// [`Error::FrameCoefficientOverflow`] if a good pixel's map does not fit an f32 (a
 /// response far below an f32's range). On error `bad` and `maps` are
 /// untouched.
