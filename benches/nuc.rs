@@ -1,6 +1,8 @@
 //! Raw-frame conversion speed: two-point NUC, drift step and bad-pixel replacement fused
 //! into the table conversion (`convert_counts_corrected`), beside the plain conversion of
-//! the same counts (`convert_counts`, the baseline) in the same run.
+//! the same counts (`convert_counts`, the baseline) in the same run; the same with
+//! four-level multi-point maps (three segments, two breakpoint planes), and the fused
+//! emissivity-map path beside the plain emissivity-map conversion.
 //!
 //! The frame is invented: a 640x512 field of 280-600 K on a fictional 8-14 um
 //! microbolometer core, with a seeded 5 % gain and 300-count offset spread and 0.1 % bad
@@ -8,7 +10,8 @@
 
 use bandtemp::band::Band;
 use bandtemp::frame::{
-    Correction, CountsMap, DriftStep, FrameConverter, FrameTable, Rails, TableRow, TemperatureRange,
+    multi_point_map_len, Correction, CountsMap, DriftStep, FrameConverter, FrameTable, Rails,
+    TableRow, TemperatureRange,
 };
 use bandtemp::planck::Detector;
 use bandtemp::scene::Scene;
@@ -73,6 +76,34 @@ fn nuc(c: &mut Criterion) {
         .unwrap()
         .with_step(DriftStep { a: 1.0005, b: -0.5 })
         .unwrap();
+    // Four-level maps: the two-point gain and offset on the middle segment, gains 0.3 %
+    // higher below the first breakpoint and 0.3 % lower above the second (a mildly
+    // non-linear pixel), offsets making every pixel's map continuous at its breakpoints.
+    let levels = 4;
+    let mut maps = vec![0.0f32; multi_point_map_len(levels, n).unwrap()];
+    for p in 0..n {
+        let (gp, op) = (f64::from(g[p]), f64::from(o[p]));
+        let (b1, b2) = (
+            15_000.0 + 50.0 * next(&mut state),
+            30_000.0 + 50.0 * next(&mut state),
+        );
+        let (g0, g2) = (gp * 1.003, gp * 0.997);
+        maps[p] = g0 as f32;
+        maps[n + p] = gp as f32;
+        maps[2 * n + p] = g2 as f32;
+        maps[3 * n + p] = (op + (gp - g0) * b1) as f32;
+        maps[4 * n + p] = op as f32;
+        maps[5 * n + p] = (op + (gp - g2) * b2) as f32;
+        maps[6 * n + p] = b1 as f32;
+        maps[7 * n + p] = b2 as f32;
+    }
+    let multi = Correction::multi_point(&maps, levels, &bad, WIDTH)
+        .unwrap()
+        .with_step(DriftStep { a: 1.0005, b: -0.5 })
+        .unwrap();
+    let emissivity: Vec<f32> = (0..n)
+        .map(|p| if (p % WIDTH) < WIDTH / 4 { 0.35 } else { 0.95 })
+        .collect();
     let mut out = vec![0.0f32; n];
     let summary = converter
         .convert_counts_corrected(&correction, &counts, &mut out)
@@ -95,6 +126,51 @@ fn nuc(c: &mut Criterion) {
             black_box(
                 converter
                     .convert_counts_corrected(black_box(&correction), black_box(&counts), &mut out)
+                    .unwrap(),
+            )
+        });
+    });
+    group.bench_function("fused_multi_point_4_levels", |b| {
+        b.iter(|| {
+            black_box(
+                converter
+                    .convert_counts_corrected(black_box(&multi), black_box(&counts), &mut out)
+                    .unwrap(),
+            )
+        });
+    });
+    group.bench_function("fused_multi_point_4_levels_with_map_check", |b| {
+        b.iter(|| {
+            let multi = Correction::multi_point(black_box(&maps), levels, black_box(&bad), WIDTH)
+                .unwrap()
+                .with_step(DriftStep { a: 1.0005, b: -0.5 })
+                .unwrap();
+            black_box(
+                converter
+                    .convert_counts_corrected(&multi, black_box(&counts), &mut out)
+                    .unwrap(),
+            )
+        });
+    });
+    group.bench_function("plain_convert_counts_emissivity_map", |b| {
+        b.iter(|| {
+            black_box(
+                converter
+                    .convert_counts(black_box(&counts), Some(black_box(&emissivity)), &mut out)
+                    .unwrap(),
+            )
+        });
+    });
+    group.bench_function("fused_emissivity_map", |b| {
+        b.iter(|| {
+            black_box(
+                converter
+                    .convert_counts_corrected_emissivity(
+                        black_box(&correction),
+                        black_box(&counts),
+                        black_box(&emissivity),
+                        &mut out,
+                    )
                     .unwrap(),
             )
         });

@@ -12,7 +12,9 @@
 //! 3. drift points at array temperatures 297-315 K, a quadratic drift model with the
 //!    housing's self-emission through the exact band radiance;
 //! 4. warm-up: the array drifts to 311 K; a shutter event refreshes the offsets;
-//! 5. a scene frame converted to kelvin in one fused pass, against the simulator's truth.
+//! 5. a scene frame converted to kelvin in one fused pass, against the simulator's truth;
+//! 6. multi-point maps from a third flat field at 423.15 K (three levels, two segments),
+//!    the shutter's offset change applied to both segments, the same frame converted.
 //!
 //! Run: `cargo run --release --example nuc_demo`
 //!
@@ -25,9 +27,9 @@ pub mod sim;
 
 use bandtemp::band::SignalCurve;
 use bandtemp::frame::{
-    detect_bad_pixels, fpn_k, netd_k, shutter_refresh, shutter_target_counts, spatial_stats,
-    two_point, BadPixelRules, Correction, CountsMap, DriftModel, DriftPoint, FrameConverter,
-    FrameStack, Rails, TableRow, TemperatureRange,
+    detect_bad_pixels, fpn_k, multi_point, multi_point_map_len, netd_k, shutter_refresh,
+    shutter_target_counts, spatial_stats, two_point, BadPixelRules, Correction, CountsMap,
+    DriftModel, DriftPoint, FrameConverter, FrameStack, Rails, TableRow, TemperatureRange,
 };
 use bandtemp::scene::Scene;
 use bandtemp::Error;
@@ -36,6 +38,8 @@ use sim::{internal_k, Camera, Defect, HEIGHT, REFERENCE_FPA_K, WIDTH};
 const N: usize = WIDTH * HEIGHT;
 const BB_LOW_K: f64 = 293.15;
 const BB_HIGH_K: f64 = 333.15;
+/// The third flat-field level of the multi-point maps, above the scene's hottest part.
+const BB_TOP_K: f64 = 423.15;
 
 /// Accumulates `frames` flat-field frames into a fresh stack.
 fn flat_stack<'a>(
@@ -97,7 +101,9 @@ pub struct Figures {
     /// Temporal NETD before and after NUC, K.
     pub netd_k: (f64, f64),
     /// Per correction case: worst error in the blackbody span, outside it, at replaced
-    /// bad pixels, and the rms error over good pixels, K.
+    /// bad pixels, and the rms error over good pixels, K. Cases: no NUC; NUC and bad
+    /// pixels; and the drift step; and the shutter; multi-point NUC (three levels) with bad
+    /// pixels, drift step and shutter.
     pub errors: Vec<(f64, f64, f64, f64)>,
 }
 
@@ -302,6 +308,40 @@ pub fn run(print: bool) -> Result<Figures, Error> {
         }
         all_errors.push((inside, outside, replaced, rms));
     }
+
+    // 6. Multi-point maps: a third flat field at 423.15 K, array at the reference (drawn
+    // last so that every figure above keeps its random draws); the lower segment's levels
+    // and means are the two-point ones, so the counts map and drift model still apply.
+    let (mut tm, mut t2) = (vec![0.0; N], vec![0.0; N]);
+    let top = flat_stack(&mut cam, BB_TOP_K, REFERENCE_FPA_K, 16, &mut tm, &mut t2)?;
+    let top = top.stats()?;
+    let mut multi_bad = bad.clone();
+    let mut maps = vec![0.0f32; multi_point_map_len(3, N)?];
+    let mp = multi_point(&[low, high, top], &mut multi_bad, &mut maps)?;
+    // The shutter event is a one-point offset update: the pixel's drift moves every
+    // segment's line by the same amount, the change the two-point refresh found (the
+    // lower segment's map is the two-point map, bit for bit, when no pixel was flagged).
+    for p in 0..N {
+        let shift = o_refreshed[p] - o[p];
+        for k in 0..2 {
+            maps[2 * N + k * N + p] += shift;
+        }
+    }
+    let c = Correction::multi_point(&maps, 3, &multi_bad, WIDTH)?.with_step(step)?;
+    let s = converter.convert_counts_corrected(&c, &frame, &mut kelvin)?;
+    let (inside, outside, replaced, rms) = errors(&kelvin, &multi_bad);
+    if print {
+        let name = "3-level NUC + bad + drift + shutter";
+        println!(
+            "  {name:<40} {inside:7.3} {outside:7.3} {replaced:7.3} {rms:7.3}   {:>5} {:>3}",
+            s.frame.converted, s.bad_replaced
+        );
+        println!(
+            "  (multi-point: {} pixels flagged by the order rule, {} good)",
+            mp.order_flagged, mp.good_pixels
+        );
+    }
+    all_errors.push((inside, outside, replaced, rms));
     Ok(Figures {
         planted: planted.len(),
         found,

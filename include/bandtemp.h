@@ -72,6 +72,11 @@
 #define BT_SITE_BUDGET_MAX_LINES 4
 
 /**
+ * The most flat-field levels `bt_nuc_multi_point` accepts.
+ */
+#define BT_NUC_MAX_LEVELS 16
+
+/**
  * What a `bt_` function reports: `BT_STATUS_OK` (0) or the named reason it failed.
  *
  * Values are explicit and never reused: a retired status keeps its number unused. They
@@ -579,6 +584,18 @@ typedef enum {
      * A figure-of-merit input that is out of its domain (a non-positive responsivity, a negative variance, fewer than two good pixels).
      */
     BT_STATUS_MERIT_INPUT_INVALID = 810,
+    /**
+     * Multi-point NUC with fewer than 2 or more than 16 flat-field levels.
+     */
+    BT_STATUS_NUC_LEVEL_COUNT = 814,
+    /**
+     * Multi-point NUC levels that do not increase for at least half of the pixels not flagged bad (levels out of order, or two at one radiance), or array means that tie.
+     */
+    BT_STATUS_NUC_LEVELS_NOT_INCREASING = 815,
+    /**
+     * Multi-point map storage that does not hold (3 N - 4) floats per pixel for N levels.
+     */
+    BT_STATUS_NUC_MAP_STORAGE_MISMATCH = 816,
 } bt_status;
 
 /**
@@ -1735,6 +1752,29 @@ typedef struct {
      */
     uint64_t pixels;
 } bt_spatial_stats;
+
+/**
+ * What `bt_nuc_multi_point` found.
+ */
+typedef struct {
+    /**
+     * Levels used, N.
+     */
+    uint32_t levels;
+    /**
+     * Pixels that received maps (not flagged bad).
+     */
+    uint64_t good_pixels;
+    /**
+     * Pixels flagged 16 (levels not strictly increasing) by this call.
+     */
+    uint64_t order_flagged;
+    /**
+     * <S_k>, the array means of the levels over the good pixels (counts); entries
+     * past `levels` are 0.
+     */
+    double level_means[16];
+} bt_multi_point_report;
 
 #ifdef __cplusplus
 extern "C" {
@@ -3778,6 +3818,143 @@ bt_status bt_drift_step_sakuma_hattori(const bt_drift_model *model,
                                        double fpa_k,
                                        double internal_k,
                                        bt_drift_step *out);
+
+/**
+ * Floats of multi-point map storage for `levels` flat-field levels over `pixels`
+ * pixels: (3 N - 4) x pixels (N - 1 gain planes, N - 1 offset planes, N - 2 breakpoint
+ * planes, one float per pixel each).
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+ * `BT_STATUS_NUC_LEVEL_COUNT` (levels outside 2..16), `BT_STATUS_NUC_FRAME_EMPTY` (no
+ * pixels), `BT_STATUS_NUC_MAP_STORAGE_MISMATCH` (the size overflows). On error `out`
+ * is untouched.
+ *
+ * # Safety
+ * `out` null or valid for writing a size_t.
+ */
+bt_status bt_nuc_multi_point_map_len(size_t levels, size_t pixels, size_t *out);
+
+/**
+ * Multi-point (piecewise-linear) NUC maps from `n_levels` averaged flat-field stacks
+ * (`levels`, in order of increasing radiance, 2 to 16): per pixel and segment k,
+ * G_k = (<S_k+1> - <S_k>) / (S_k+1 - S_k) and O_k = <S_k> - G_k S_k, with the pixel's
+ * interior levels as breakpoints; written into `maps` (`bt_nuc_multi_point_map_len`
+ * floats). `bad` (`bad_len` bytes, nonzero = bad) is read and updated: a pixel not yet
+ * flagged whose levels do not increase strictly gets flag 16 and is counted in
+ * `order_flagged` (it is replaced by its neighbours in the conversion). With two levels
+ * the maps are `bt_nuc_two_point`'s gain followed by its offset, bit for bit.
+ *
+ * Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER` (misaligned, impossible
+ * length, overlapping buffers), `BT_STATUS_NUC_LEVEL_COUNT`, `BT_STATUS_NUC_STACK_EMPTY`,
+ * `BT_STATUS_NUC_FRAME_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`,
+ * `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`, `BT_STATUS_NON_FINITE`,
+ * `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (at least half of the pixels not already flagged
+ * have levels that do not increase: levels out of order or two at one radiance),
+ * `BT_STATUS_NUC_NO_GOOD_PIXELS` (every pixel flagged beforehand),
+ * `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's map does not fit a float). On
+ * error nothing is written.
+ *
+ * # Safety
+ * `levels` null or valid for reading `n_levels` views, each valid; `bad` null or valid
+ * for reads and writes of `bad_len` bytes; `maps` null or valid for writing `maps_len`
+ * floats; `out` null or valid for writing a `bt_multi_point_report`.
+ */
+bt_status bt_nuc_multi_point(const bt_stack_view *levels,
+                             size_t n_levels,
+                             uint8_t *bad,
+                             size_t bad_len,
+                             float *maps,
+                             size_t maps_len,
+                             bt_multi_point_report *out);
+
+/**
+ * Converts a raw frame of counts to object temperature in K in one pass through
+ * multi-point maps (`maps`, `maps_len` floats as `bt_nuc_multi_point` writes them for
+ * `levels` levels): per pixel the segment of its raw counts (extrapolated with the end
+ * segments outside the calibrated span), then as `bt_frame_convert_counts_corrected`
+ * (drift step, bad-pixel replacement, scene, table). With two levels, the two-point
+ * conversion bit for bit. The maps are checked on every call (gains finite and positive,
+ * offsets finite, breakpoints finite and non-decreasing at good pixels).
+ *
+ * Errors: those of `bt_frame_convert_counts_corrected`, `BT_STATUS_NUC_LEVEL_COUNT`,
+ * `BT_STATUS_NUC_FRAME_EMPTY` (len 0), `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`. On error
+ * neither `kelvin` nor `summary` is written.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts_corrected`; `maps` null or valid for reading `maps_len`
+ * floats.
+ */
+bt_status bt_frame_convert_counts_multi_point(const bt_frame_converter *converter,
+                                              const bt_frame_row *table,
+                                              size_t table_rows,
+                                              const float *maps,
+                                              size_t maps_len,
+                                              size_t levels,
+                                              const uint8_t *bad,
+                                              size_t width,
+                                              const bt_drift_step *step,
+                                              const uint16_t *counts,
+                                              float *kelvin,
+                                              size_t len,
+                                              bt_corrected_summary *summary);
+
+/**
+ * As `bt_frame_convert_counts_corrected` with a per-pixel emissivity map (`emissivity`,
+ * `len` floats), applied in the same pass: each pixel's corrected counts (after the
+ * drift step) go through the emissivity-map form of `bt_frame_convert_counts`,
+ * L = (x - K) / (tw ta e) + Lr. A replaced bad pixel takes its neighbours' corrected
+ * counts and its own emissivity; an emissivity outside (0, 1] gives NaN, counted as
+ * `emissivity_invalid`. With the identity step, the same as correcting first and
+ * converting with `bt_frame_convert_counts` and the same map.
+ *
+ * Errors: those of `bt_frame_convert_counts_corrected`,
+ * `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE` (the curve had no signal at the reflected
+ * temperature). On error neither `kelvin` nor `summary` is written.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts_corrected`; `emissivity` null or valid for reading `len`
+ * floats.
+ */
+bt_status bt_frame_convert_counts_corrected_emissivity(const bt_frame_converter *converter,
+                                                       const bt_frame_row *table,
+                                                       size_t table_rows,
+                                                       const float *gain,
+                                                       const float *offset,
+                                                       const uint8_t *bad,
+                                                       size_t width,
+                                                       const bt_drift_step *step,
+                                                       const uint16_t *counts,
+                                                       const float *emissivity,
+                                                       float *kelvin,
+                                                       size_t len,
+                                                       bt_corrected_summary *summary);
+
+/**
+ * As `bt_frame_convert_counts_multi_point` with a per-pixel emissivity map, applied in
+ * the same pass as `bt_frame_convert_counts_corrected_emissivity` describes.
+ *
+ * Errors: those of `bt_frame_convert_counts_multi_point`,
+ * `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE`. On error neither `kelvin` nor `summary`
+ * is written.
+ *
+ * # Safety
+ * As `bt_frame_convert_counts_multi_point`; `emissivity` null or valid for reading `len`
+ * floats.
+ */
+bt_status bt_frame_convert_counts_multi_point_emissivity(const bt_frame_converter *converter,
+                                                         const bt_frame_row *table,
+                                                         size_t table_rows,
+                                                         const float *maps,
+                                                         size_t maps_len,
+                                                         size_t levels,
+                                                         const uint8_t *bad,
+                                                         size_t width,
+                                                         const bt_drift_step *step,
+                                                         const uint16_t *counts,
+                                                         const float *emissivity,
+                                                         float *kelvin,
+                                                         size_t len,
+                                                         bt_corrected_summary *summary);
 
 #ifdef __cplusplus
 }  // extern "C"

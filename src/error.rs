@@ -300,6 +300,14 @@ pub enum Error {
     DriftIllConditioned,
     /// A figure-of-merit input that is out of its domain (a non-positive responsivity, a negative variance, fewer than two good pixels).
     MeritInputInvalid,
+
+    // ---- frame: multi-point non-uniformity correction ----------------------------------------
+    /// Multi-point NUC with fewer than 2 or more than [`crate::frame::MAX_NUC_LEVELS`] flat-field levels.
+    NucLevelCount,
+    /// Multi-point NUC levels that do not increase for at least half of the pixels not flagged bad (levels out of order, or two at one radiance), or array means that tie.
+    NucLevelsNotIncreasing,
+    /// Multi-point map storage that does not hold (3 N - 4) floats per pixel for N levels.
+    NucMapStorageMismatch,
 }
 
 impl Error {
@@ -488,6 +496,9 @@ impl Error {
             Error::DriftTooFewPoints => "drift fit needs degree + 1 points and a degree of at most 2",
             Error::DriftPointInvalid => "drift point needs finite values, positive temperatures and a positive response",
             Error::DriftIllConditioned => "drift points' array temperatures are too close together for the fit",
+            Error::NucLevelCount => "multi-point NUC needs between 2 and 16 flat-field levels",
+            Error::NucLevelsNotIncreasing => "multi-point NUC levels must increase from level to level for most pixels",
+            Error::NucMapStorageMismatch => "multi-point map storage must hold 3 N - 4 floats per pixel for N levels",
             Error::MeritInputInvalid => "figure-of-merit input out of domain",
         }
     }

@@ -5,7 +5,8 @@
 
 use bandtemp::band::Band;
 use bandtemp::frame::{
-    two_point, Correction, CountsMap, FrameConverter, Rails, StackStats, TemperatureRange,
+    multi_point, multi_point_map_len, two_point, Correction, CountsMap, FrameConverter, Rails,
+    StackStats, TemperatureRange,
 };
 use bandtemp::planck::Detector;
 use bandtemp::scene::Scene;
@@ -60,6 +61,52 @@ proptest! {
             let scale = (f64::from(g[i]) * s).abs() + f64::from(o[i]).abs() + array.abs();
             prop_assert!((x - array).abs() <= 4.0 * f64::from(f32::EPSILON) * scale,
                 "pixel {}: {} vs {}", i, x, array);
+        }
+    }
+
+    /// The same for multi-point maps: S_p = a_p + b_p L with N = 2..8 levels at arbitrary
+    /// increasing radiances; every segment's map (not only the one the raw value picks)
+    /// maps the pixel onto the array's response <S_0> + (<S_N-1> - <S_0>)(L - L_0) /
+    /// (L_N-1 - L_0), which is linear because every pixel is (within 4 f32 ulps of the
+    /// largest term per map, as above).
+    #[test]
+    fn linear_pixels_are_exact_for_any_number_of_levels(
+        pixels in prop::collection::vec((0.0f64..20_000.0, 10.0f64..500.0), 2..30),
+        first in 5.0f64..40.0,
+        steps in prop::collection::vec(1.0f64..40.0, 1..8),
+        l in 0.0f64..200.0,
+    ) {
+        let mut levels = vec![first];
+        for d in &steps {
+            levels.push(levels[levels.len() - 1] + d);
+        }
+        let n = levels.len();
+        let np = pixels.len();
+        let means: Vec<Vec<f64>> = levels.iter()
+            .map(|&ll| pixels.iter().map(|&(a, b)| a + b * ll).collect()).collect();
+        let zeros = vec![0.0; np];
+        let stats: Vec<StackStats> = means.iter().map(|m| StackStats::new(m, &zeros, 1).unwrap()).collect();
+        let mut bad = vec![0u8; np];
+        let mut maps = vec![0.0f32; multi_point_map_len(n, np).unwrap()];
+        let r = multi_point(&stats, &mut bad, &mut maps).unwrap();
+        prop_assert_eq!(r.order_flagged, 0);
+        let (m0, m1) = (r.level_means[0], r.level_means[n - 1]);
+        let array = m0 + (m1 - m0) * (l - levels[0]) / (levels[n - 1] - levels[0]);
+        let segments = n - 1;
+        for (i, &(a, b)) in pixels.iter().enumerate() {
+            let s = a + b * l;
+            for k in 0..segments {
+                let g = f64::from(maps[k * np + i]);
+                let o = f64::from(maps[(segments + k) * np + i]);
+                let x = g * s + o;
+                let scale = (g * s).abs() + o.abs() + array.abs();
+                prop_assert!((x - array).abs() <= 4.0 * f64::from(f32::EPSILON) * scale,
+                    "pixel {} segment {}: {} vs {}", i, k, x, array);
+            }
+            for j in 1..segments {
+                let b_j = maps[(2 * segments + j - 1) * np + i];
+                prop_assert_eq!(b_j, (a + b * levels[j]) as f32);
+            }
         }
     }
 

@@ -156,6 +156,11 @@ pub use raw::{
     bt_nuc_shutter_target_band, bt_nuc_shutter_target_sakuma_hattori, bt_nuc_two_point,
     bt_object_from_net_signal_band, bt_spatial_stats, bt_stack_view, bt_two_point_report,
 };
+pub use raw::{
+    bt_frame_convert_counts_corrected_emissivity, bt_frame_convert_counts_multi_point,
+    bt_frame_convert_counts_multi_point_emissivity, bt_multi_point_report, bt_nuc_multi_point,
+    bt_nuc_multi_point_map_len, BT_NUC_MAX_LEVELS,
+};
 pub use scene::{
     bt_apparent_temperature, bt_object_temperature, bt_object_temperature_from_apparent, bt_scene,
     bt_sensor_radiance,

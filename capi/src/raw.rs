@@ -16,10 +16,10 @@ use super::frame::{
 use super::{bt_status, check_ptr, deliver, read_input, slice_from_c, slice_from_c_mut, Output};
 use bandtemp::band::SignalCurve;
 use bandtemp::frame::{
-    detect_bad_pixels, effective_exponent, net_signal, netd_k, object_from_net_signal,
-    shutter_refresh, shutter_target_counts, spatial_stats, two_point, BadPixelRules, Correction,
-    CountsMap, DriftModel, DriftPoint, DriftStep, FrameConverter, FrameStack, StackStats,
-    MAX_DRIFT_POINTS,
+    detect_bad_pixels, effective_exponent, multi_point, multi_point_map_len, net_signal, netd_k,
+    object_from_net_signal, shutter_refresh, shutter_target_counts, spatial_stats, two_point,
+    BadPixelRules, Correction, CountsMap, DriftModel, DriftPoint, DriftStep, FrameConverter,
+    FrameStack, StackStats, MAX_DRIFT_POINTS, MAX_NUC_LEVELS,
 };
 use bandtemp::{Error, Result};
 use core::mem::size_of;
@@ -687,6 +687,89 @@ pub unsafe extern "C" fn bt_drift_step_band(
     }
 }
 
+/// The non-uniformity maps of a fused conversion as C hands them over.
+#[derive(Clone, Copy)]
+enum Maps {
+    /// Two-point gain and offset, `len` floats each.
+    TwoPoint(*const f32, *const f32),
+    /// Multi-point maps: (pointer, floats, levels).
+    MultiPoint(*const f32, usize, usize),
+}
+
+/// Shared body of the fused conversions: reads and checks everything, then converts.
+///
+/// # Safety
+/// As `bt_frame_convert_counts_corrected`, with the maps valid for reading as `maps`
+/// says and `emissivity` null or valid for reading `len` floats.
+#[allow(clippy::too_many_arguments)]
+unsafe fn fused_from_c(
+    converter: *const bt_frame_converter,
+    table: *const bt_frame_row,
+    table_rows: usize,
+    maps: Maps,
+    bad: *const u8,
+    width: usize,
+    step: *const bt_drift_step,
+    counts: *const u16,
+    emissivity: Option<*const f32>,
+    kelvin: *mut f32,
+    len: usize,
+    summary: *mut bt_corrected_summary,
+) -> bt_status {
+    // SAFETY: the caller's guarantees; `kelvin` checked disjoint from every input.
+    unsafe {
+        deliver(summary, || {
+            let frame = FrameConverter::from_parts(
+                read_state(converter)?,
+                rows_from_c(table, table_rows)?,
+            )?;
+            // Checked by `with_step` below, after the maps (the Rust API's order).
+            let step = if step.is_null() {
+                DriftStep::IDENTITY
+            } else {
+                let s = read_input(step)?;
+                DriftStep { a: s.a, b: s.b }
+            };
+            let b = slice_from_c(bad, len)?;
+            let n = slice_from_c(counts, len)?;
+            let e = match emissivity {
+                Some(e) => Some(slice_from_c(e, len)?),
+                None => None,
+            };
+            let (first, second) = match maps {
+                Maps::TwoPoint(g, o) => (slice_from_c(g, len)?, slice_from_c(o, len)?),
+                Maps::MultiPoint(m, m_len, _) => (slice_from_c(m, m_len)?, &[][..]),
+            };
+            if overlaps(kelvin, len, first.as_ptr(), first.len())
+                || overlaps(kelvin, len, second.as_ptr(), second.len())
+                || overlaps(kelvin, len, b.as_ptr(), len)
+                || overlaps(kelvin, len, n.as_ptr(), len)
+                || e.is_some_and(|e| overlaps(kelvin, len, e.as_ptr(), len))
+                || overlaps(kelvin, len, table, table_rows)
+                || overlaps(kelvin, len, converter, 1)
+                || overlaps(kelvin, len, summary, 1)
+            {
+                return Err(Error::InvalidBuffer);
+            }
+            let correction = match maps {
+                Maps::TwoPoint(..) => Correction::new(first, second, b, width)?,
+                Maps::MultiPoint(_, _, levels) => Correction::multi_point(first, levels, b, width)?,
+            }
+            .with_step(step)?;
+            let out = slice_from_c_mut(kelvin, len)?;
+            let s = match e {
+                None => frame.convert_counts_corrected(&correction, n, out)?,
+                Some(e) => frame.convert_counts_corrected_emissivity(&correction, n, e, out)?,
+            };
+            Ok(bt_corrected_summary {
+                frame: s.frame.into(),
+                bad_replaced: s.bad_replaced,
+                bad_unreplaced: s.bad_unreplaced,
+            })
+        })
+    }
+}
+
 /// Converts a raw frame of counts to object temperature in K in one pass: two-point maps
 /// (`gain`, `offset`), the drift step (`step`; NULL: none), bad-pixel replacement by the
 /// mean of the good 8-neighbours (`bad`, nonzero = bad), then the converter's scene and
@@ -718,43 +801,22 @@ pub unsafe extern "C" fn bt_frame_convert_counts_corrected(
     len: usize,
     summary: *mut bt_corrected_summary,
 ) -> bt_status {
-    // SAFETY: the caller's guarantees; `kelvin` checked disjoint from every input.
+    // SAFETY: the caller's guarantees are those of `fused_from_c`.
     unsafe {
-        deliver(summary, || {
-            let frame = FrameConverter::from_parts(
-                read_state(converter)?,
-                rows_from_c(table, table_rows)?,
-            )?;
-            // Checked by `with_step` below, after the maps (the Rust API's order).
-            let step = if step.is_null() {
-                DriftStep::IDENTITY
-            } else {
-                let s = read_input(step)?;
-                DriftStep { a: s.a, b: s.b }
-            };
-            let g = slice_from_c(gain, len)?;
-            let o = slice_from_c(offset, len)?;
-            let b = slice_from_c(bad, len)?;
-            let n = slice_from_c(counts, len)?;
-            if overlaps(kelvin, len, g.as_ptr(), len)
-                || overlaps(kelvin, len, o.as_ptr(), len)
-                || overlaps(kelvin, len, b.as_ptr(), len)
-                || overlaps(kelvin, len, n.as_ptr(), len)
-                || overlaps(kelvin, len, table, table_rows)
-                || overlaps(kelvin, len, converter, 1)
-                || overlaps(kelvin, len, summary, 1)
-            {
-                return Err(Error::InvalidBuffer);
-            }
-            let correction = Correction::new(g, o, b, width)?.with_step(step)?;
-            let out = slice_from_c_mut(kelvin, len)?;
-            let s = frame.convert_counts_corrected(&correction, n, out)?;
-            Ok(bt_corrected_summary {
-                frame: s.frame.into(),
-                bad_replaced: s.bad_replaced,
-                bad_unreplaced: s.bad_unreplaced,
-            })
-        })
+        fused_from_c(
+            converter,
+            table,
+            table_rows,
+            Maps::TwoPoint(gain, offset),
+            bad,
+            width,
+            step,
+            counts,
+            None,
+            kelvin,
+            len,
+            summary,
+        )
     }
 }
 
@@ -973,5 +1035,287 @@ pub unsafe extern "C" fn bt_drift_step_sakuma_hattori(
             let s = m.step(&curve, counts, fpa_k, internal_k)?;
             Ok(bt_drift_step { a: s.a, b: s.b })
         })
+    }
+}
+
+/// The most flat-field levels `bt_nuc_multi_point` accepts.
+pub const BT_NUC_MAX_LEVELS: usize = 16;
+const _: () = assert!(BT_NUC_MAX_LEVELS == MAX_NUC_LEVELS);
+
+/// One pixel of statistics: the placeholder that fills the unused levels of the
+/// fixed-size array of stacks `bt_nuc_multi_point` builds (no heap).
+const PLACEHOLDER: [f64; 1] = [0.0];
+
+/// What `bt_nuc_multi_point` found.
+#[repr(C)]
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct bt_multi_point_report {
+    /// Levels used, N.
+    pub levels: u32,
+    /// Pixels that received maps (not flagged bad).
+    pub good_pixels: u64,
+    /// Pixels flagged 16 (levels not strictly increasing) by this call.
+    pub order_flagged: u64,
+    /// <S_k>, the array means of the levels over the good pixels (counts); entries
+    /// past `levels` are 0.
+    pub level_means: [f64; 16],
+}
+
+impl Output for bt_multi_point_report {
+    fn finite(self) -> Result<Self> {
+        if self.level_means.iter().all(|m| m.is_finite()) {
+            Ok(self)
+        } else {
+            Err(Error::NonFinite)
+        }
+    }
+}
+
+/// Floats of multi-point map storage for `levels` flat-field levels over `pixels`
+/// pixels: (3 N - 4) x pixels (N - 1 gain planes, N - 1 offset planes, N - 2 breakpoint
+/// planes, one float per pixel each).
+///
+/// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
+/// `BT_STATUS_NUC_LEVEL_COUNT` (levels outside 2..16), `BT_STATUS_NUC_FRAME_EMPTY` (no
+/// pixels), `BT_STATUS_NUC_MAP_STORAGE_MISMATCH` (the size overflows). On error `out`
+/// is untouched.
+///
+/// # Safety
+/// `out` null or valid for writing a size_t.
+#[no_mangle]
+pub unsafe extern "C" fn bt_nuc_multi_point_map_len(
+    levels: usize,
+    pixels: usize,
+    out: *mut usize,
+) -> bt_status {
+    // SAFETY: the caller's guarantee.
+    unsafe { deliver(out, || multi_point_map_len(levels, pixels)) }
+}
+
+/// Multi-point (piecewise-linear) NUC maps from `n_levels` averaged flat-field stacks
+/// (`levels`, in order of increasing radiance, 2 to 16): per pixel and segment k,
+/// G_k = (<S_k+1> - <S_k>) / (S_k+1 - S_k) and O_k = <S_k> - G_k S_k, with the pixel's
+/// interior levels as breakpoints; written into `maps` (`bt_nuc_multi_point_map_len`
+/// floats). `bad` (`bad_len` bytes, nonzero = bad) is read and updated: a pixel not yet
+/// flagged whose levels do not increase strictly gets flag 16 and is counted in
+/// `order_flagged` (it is replaced by its neighbours in the conversion). With two levels
+/// the maps are `bt_nuc_two_point`'s gain followed by its offset, bit for bit.
+///
+/// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER` (misaligned, impossible
+/// length, overlapping buffers), `BT_STATUS_NUC_LEVEL_COUNT`, `BT_STATUS_NUC_STACK_EMPTY`,
+/// `BT_STATUS_NUC_FRAME_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`,
+/// `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`, `BT_STATUS_NON_FINITE`,
+/// `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (at least half of the pixels not already flagged
+/// have levels that do not increase: levels out of order or two at one radiance),
+/// `BT_STATUS_NUC_NO_GOOD_PIXELS` (every pixel flagged beforehand),
+/// `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's map does not fit a float). On
+/// error nothing is written.
+///
+/// # Safety
+/// `levels` null or valid for reading `n_levels` views, each valid; `bad` null or valid
+/// for reads and writes of `bad_len` bytes; `maps` null or valid for writing `maps_len`
+/// floats; `out` null or valid for writing a `bt_multi_point_report`.
+#[no_mangle]
+pub unsafe extern "C" fn bt_nuc_multi_point(
+    levels: *const bt_stack_view,
+    n_levels: usize,
+    bad: *mut u8,
+    bad_len: usize,
+    maps: *mut f32,
+    maps_len: usize,
+    out: *mut bt_multi_point_report,
+) -> bt_status {
+    // SAFETY: the caller's guarantees; written buffers are checked disjoint from all
+    // others before slices are formed.
+    unsafe {
+        deliver(out, || {
+            if !(2..=MAX_NUC_LEVELS).contains(&n_levels) {
+                return Err(Error::NucLevelCount);
+            }
+            let views = slice_from_c(levels, n_levels)?;
+            let placeholder = StackStats::new(&PLACEHOLDER, &PLACEHOLDER, 1)?;
+            let mut stats = [placeholder; MAX_NUC_LEVELS];
+            let mut reads = [(0usize, 0usize); 2 * MAX_NUC_LEVELS + 2];
+            for (k, view) in views.iter().enumerate() {
+                let (st, a, b) = read_view(view)?;
+                if let Some(s) = stats.get_mut(k) {
+                    *s = st;
+                }
+                if let Some(r) = reads.get_mut(2 * k) {
+                    *r = a;
+                }
+                if let Some(r) = reads.get_mut(2 * k + 1) {
+                    *r = b;
+                }
+            }
+            if let Some(r) = reads.get_mut(2 * MAX_NUC_LEVELS) {
+                *r = span(levels, n_levels);
+            }
+            if let Some(r) = reads.get_mut(2 * MAX_NUC_LEVELS + 1) {
+                *r = span(out, 1);
+            }
+            if any_overlap(&[span(bad, bad_len), span(maps, maps_len)], &reads) {
+                return Err(Error::InvalidBuffer);
+            }
+            let bad = slice_from_c_mut(bad, bad_len)?;
+            let maps = slice_from_c_mut(maps, maps_len)?;
+            let used = stats.get(..n_levels).ok_or(Error::NucLevelCount)?;
+            let r = multi_point(used, bad, maps)?;
+            Ok(bt_multi_point_report {
+                levels: u32::try_from(r.levels).map_err(|_| Error::NucLevelCount)?,
+                good_pixels: r.good_pixels,
+                order_flagged: r.order_flagged,
+                level_means: r.level_means,
+            })
+        })
+    }
+}
+
+/// Converts a raw frame of counts to object temperature in K in one pass through
+/// multi-point maps (`maps`, `maps_len` floats as `bt_nuc_multi_point` writes them for
+/// `levels` levels): per pixel the segment of its raw counts (extrapolated with the end
+/// segments outside the calibrated span), then as `bt_frame_convert_counts_corrected`
+/// (drift step, bad-pixel replacement, scene, table). With two levels, the two-point
+/// conversion bit for bit. The maps are checked on every call (gains finite and positive,
+/// offsets finite, breakpoints finite and non-decreasing at good pixels).
+///
+/// Errors: those of `bt_frame_convert_counts_corrected`, `BT_STATUS_NUC_LEVEL_COUNT`,
+/// `BT_STATUS_NUC_FRAME_EMPTY` (len 0), `BT_STATUS_NUC_MAP_STORAGE_MISMATCH`. On error
+/// neither `kelvin` nor `summary` is written.
+///
+/// # Safety
+/// As `bt_frame_convert_counts_corrected`; `maps` null or valid for reading `maps_len`
+/// floats.
+#[no_mangle]
+#[allow(clippy::too_many_arguments)]
+pub unsafe extern "C" fn bt_frame_convert_counts_multi_point(
+    converter: *const bt_frame_converter,
+    table: *const bt_frame_row,
+    table_rows: usize,
+    maps: *const f32,
+    maps_len: usize,
+    levels: usize,
+    bad: *const u8,
+    width: usize,
+    step: *const bt_drift_step,
+    counts: *const u16,
+    kelvin: *mut f32,
+    len: usize,
+    summary: *mut bt_corrected_summary,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `fused_from_c`.
+    unsafe {
+        fused_from_c(
+            converter,
+            table,
+            table_rows,
+            Maps::MultiPoint(maps, maps_len, levels),
+            bad,
+            width,
+            step,
+            counts,
+            None,
+            kelvin,
+            len,
+            summary,
+        )
+    }
+}
+
+/// As `bt_frame_convert_counts_corrected` with a per-pixel emissivity map (`emissivity`,
+/// `len` floats), applied in the same pass: each pixel's corrected counts (after the
+/// drift step) go through the emissivity-map form of `bt_frame_convert_counts`,
+/// L = (x - K) / (tw ta e) + Lr. A replaced bad pixel takes its neighbours' corrected
+/// counts and its own emissivity; an emissivity outside (0, 1] gives NaN, counted as
+/// `emissivity_invalid`. With the identity step, the same as correcting first and
+/// converting with `bt_frame_convert_counts` and the same map.
+///
+/// Errors: those of `bt_frame_convert_counts_corrected`,
+/// `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE` (the curve had no signal at the reflected
+/// temperature). On error neither `kelvin` nor `summary` is written.
+///
+/// # Safety
+/// As `bt_frame_convert_counts_corrected`; `emissivity` null or valid for reading `len`
+/// floats.
+#[no_mangle]
+#[allow(clippy::too_many_arguments)]
+pub unsafe extern "C" fn bt_frame_convert_counts_corrected_emissivity(
+    converter: *const bt_frame_converter,
+    table: *const bt_frame_row,
+    table_rows: usize,
+    gain: *const f32,
+    offset: *const f32,
+    bad: *const u8,
+    width: usize,
+    step: *const bt_drift_step,
+    counts: *const u16,
+    emissivity: *const f32,
+    kelvin: *mut f32,
+    len: usize,
+    summary: *mut bt_corrected_summary,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `fused_from_c`.
+    unsafe {
+        fused_from_c(
+            converter,
+            table,
+            table_rows,
+            Maps::TwoPoint(gain, offset),
+            bad,
+            width,
+            step,
+            counts,
+            Some(emissivity),
+            kelvin,
+            len,
+            summary,
+        )
+    }
+}
+
+/// As `bt_frame_convert_counts_multi_point` with a per-pixel emissivity map, applied in
+/// the same pass as `bt_frame_convert_counts_corrected_emissivity` describes.
+///
+/// Errors: those of `bt_frame_convert_counts_multi_point`,
+/// `BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE`. On error neither `kelvin` nor `summary`
+/// is written.
+///
+/// # Safety
+/// As `bt_frame_convert_counts_multi_point`; `emissivity` null or valid for reading `len`
+/// floats.
+#[no_mangle]
+#[allow(clippy::too_many_arguments)]
+pub unsafe extern "C" fn bt_frame_convert_counts_multi_point_emissivity(
+    converter: *const bt_frame_converter,
+    table: *const bt_frame_row,
+    table_rows: usize,
+    maps: *const f32,
+    maps_len: usize,
+    levels: usize,
+    bad: *const u8,
+    width: usize,
+    step: *const bt_drift_step,
+    counts: *const u16,
+    emissivity: *const f32,
+    kelvin: *mut f32,
+    len: usize,
+    summary: *mut bt_corrected_summary,
+) -> bt_status {
+    // SAFETY: the caller's guarantees are those of `fused_from_c`.
+    unsafe {
+        fused_from_c(
+            converter,
+            table,
+            table_rows,
+            Maps::MultiPoint(maps, maps_len, levels),
+            bad,
+            width,
+            step,
+            counts,
+            Some(emissivity),
+            kelvin,
+            len,
+            summary,
+        )
     }
 }

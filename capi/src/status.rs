@@ -295,6 +295,14 @@ pub enum bt_status {
     DriftIllConditioned = 809,
     /// A figure-of-merit input that is out of its domain (a non-positive responsivity, a negative variance, fewer than two good pixels).
     MeritInputInvalid = 810,
+
+    // 814: multi-point non-uniformity correction
+    /// Multi-point NUC with fewer than 2 or more than 16 flat-field levels.
+    NucLevelCount = 814,
+    /// Multi-point NUC levels that do not increase for at least half of the pixels not flagged bad (levels out of order, or two at one radiance), or array means that tie.
+    NucLevelsNotIncreasing = 815,
+    /// Multi-point map storage that does not hold (3 N - 4) floats per pixel for N levels.
+    NucMapStorageMismatch = 816,
 }
 
 /// Writes the one mapping between `Error` and `bt_status` (both directions' matches are
@@ -463,6 +471,9 @@ status_table!(
     DriftPointInvalid,
     DriftIllConditioned,
     MeritInputInvalid,
+    NucLevelCount,
+    NucLevelsNotIncreasing,
+    NucMapStorageMismatch,
 );
 
 impl bt_status {

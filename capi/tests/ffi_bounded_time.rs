@@ -785,6 +785,145 @@ fn frame_conversion_calls_are_bounded() {
     watch.finish("frame conversion");
 }
 
+/// Multi-point non-uniformity correction: map sizes on hostile counts, map builds from up
+/// to 16 levels with hostile level values, and the fused multi-point conversions (with and
+/// without an emissivity map) over frames up to a million pixels, with valid maps and with
+/// maps holding hostile values (refused by the per-call check, which reads them all).
+#[test]
+fn multi_point_calls_are_bounded() {
+    let mut watch = Watch::new();
+    let (converter, table) = ordinary_converter();
+    let rows = table.len();
+    let mut len = 0usize;
+    for levels in [0, 1, 2, 3, 16, 17, usize::MAX] {
+        for pixels in [0, 1, 1_000_000, usize::MAX] {
+            watch.call(
+                || format!("bt_nuc_multi_point_map_len({levels}, {pixels})"),
+                0,
+                || unsafe { bt_nuc_multi_point_map_len(levels, pixels, &mut len) },
+            );
+        }
+    }
+    // Map builds: levels whose means increase by 1000 counts per level, a pixel pattern of
+    // +-37 counts, and hostile values planted (NaN, a level out of order, 1e300).
+    let hostile = [f64::NAN, f64::INFINITY, -1.0, 1e300, 5e-324];
+    for (levels, pixels) in [(2usize, 3072usize), (4, 65_536), (16, 65_536)] {
+        for plant in [None, Some(0usize), Some(1), Some(2), Some(3), Some(4)] {
+            let means: Vec<Vec<f64>> = (0..levels)
+                .map(|k| {
+                    (0..pixels)
+                        .map(|p| {
+                            let v = 1000.0 * (k as f64 + 1.0) + 37.0 * ((p * 7) % 5) as f64;
+                            match plant {
+                                Some(h) if p % 97 == 3 && k == levels / 2 => hostile[h],
+                                _ => v,
+                            }
+                        })
+                        .collect()
+                })
+                .collect();
+            let zeros = vec![0.0f64; pixels];
+            let views: Vec<bt_stack_view> = means
+                .iter()
+                .map(|m| bt_stack_view {
+                    mean: m.as_ptr(),
+                    m2: zeros.as_ptr(),
+                    len: pixels,
+                    frames: 4,
+                })
+                .collect();
+            let mut bad = vec![0u8; pixels];
+            let mut maps = vec![0.0f32; (3 * levels - 4) * pixels];
+            let mut report: bt_multi_point_report = unsafe { core::mem::zeroed() };
+            watch.call(
+                || format!("bt_nuc_multi_point({levels} levels, {pixels} px, plant {plant:?})"),
+                levels * pixels,
+                || unsafe {
+                    bt_nuc_multi_point(
+                        views.as_ptr(),
+                        levels,
+                        bad.as_mut_ptr(),
+                        pixels,
+                        maps.as_mut_ptr(),
+                        maps.len(),
+                        &mut report,
+                    )
+                },
+            );
+        }
+    }
+    // Fused conversions: four-level maps (gains 1, offsets 0, breakpoints 20000 and
+    // 40000) over frames up to a million pixels, valid and with hostile map values.
+    let n_big = 1_000_000;
+    let levels = 4;
+    let counts: Vec<u16> = (0..n_big).map(|i| (i * 7919 % 65536) as u16).collect();
+    let hostile_f32 = [f32::NAN, f32::INFINITY, -1.0, 0.0, 1e-45, 1e38, 0.5, 0.95];
+    let emissivity: Vec<f32> = (0..n_big)
+        .map(|i| hostile_f32[(i / 3) % hostile_f32.len()])
+        .collect();
+    let bad: Vec<u8> = (0..n_big).map(|i| u8::from(i % 1009 == 0)).collect();
+    let mut kelvin = vec![0.0f32; n_big];
+    let mut summary: bt_corrected_summary = unsafe { core::mem::zeroed() };
+    let step = bt_drift_step { a: 1.0, b: 0.0 };
+    for n in [1usize, 3072, n_big] {
+        let mut maps = vec![0.0f32; (3 * levels - 4) * n];
+        maps[..3 * n].fill(1.0);
+        maps[6 * n..7 * n].fill(20_000.0);
+        maps[7 * n..].fill(40_000.0);
+        for poison in [None, Some(f32::NAN), Some(-1.0), Some(f32::INFINITY)] {
+            let mut m = maps.clone();
+            if let Some(v) = poison {
+                let at = m.len() - 1;
+                m[at] = v; // the last pixel's last breakpoint (or gain for 1 px)
+            }
+            for map in [false, true] {
+                let width = if n == n_big { 1000 } else { n.min(64) };
+                watch.call(
+                    || format!("bt_frame_convert_counts_multi_point({n} px, poison {poison:?}, map {map})"),
+                    n,
+                    || unsafe {
+                        if map {
+                            bt_frame_convert_counts_multi_point_emissivity(
+                                &converter,
+                                table.as_ptr(),
+                                rows,
+                                m.as_ptr(),
+                                m.len(),
+                                levels,
+                                bad.as_ptr(),
+                                width,
+                                &step,
+                                counts.as_ptr(),
+                                emissivity.as_ptr(),
+                                kelvin.as_mut_ptr(),
+                                n,
+                                &mut summary,
+                            )
+                        } else {
+                            bt_frame_convert_counts_multi_point(
+                                &converter,
+                                table.as_ptr(),
+                                rows,
+                                m.as_ptr(),
+                                m.len(),
+                                levels,
+                                bad.as_ptr(),
+                                width,
+                                &step,
+                                counts.as_ptr(),
+                                kelvin.as_mut_ptr(),
+                                n,
+                                &mut summary,
+                            )
+                        }
+                    },
+                );
+            }
+        }
+    }
+    watch.finish("multi-point NUC");
+}
+
 /// The frame-table constructors on hostile ranges and tolerances: unservable ranges are
 /// refused up front (cheap bounds on rows per octave, octaves and storage before any row
 /// is built), so no call searches for seconds (it once did: a 0.9-1.1 um band from 300 K

@@ -5,8 +5,8 @@
 
 use bandtemp::band::Band;
 use bandtemp::frame::{
-    effective_exponent, net_signal, netd_k, Correction, CountsMap, DriftStep, FrameConverter,
-    Rails, TableRow, TemperatureRange,
+    effective_exponent, multi_point, net_signal, netd_k, Correction, CountsMap, DriftStep,
+    FrameConverter, Rails, StackStats, TableRow, TemperatureRange,
 };
 use bandtemp::planck::Detector;
 use bandtemp::scene::Scene;
@@ -155,8 +155,9 @@ proptest! {
         }
     }
 
-    /// Arbitrary map bits, bad maps, widths and steps: the fused export either refuses
-    /// with a status (output untouched) or agrees bit for bit with the Rust API.
+    /// Arbitrary map bits, bad maps, widths, steps and emissivity maps (or none): the
+    /// fused two-point exports either refuse with a status (output untouched) or agree bit
+    /// for bit with the Rust API.
     #[test]
     fn fused_conversion_agrees_with_rust(
         gain in prop::collection::vec(any_f32(), 24),
@@ -166,6 +167,7 @@ proptest! {
         width in 0usize..30,
         a in any_f32(),
         b in any_f32(),
+        emissivity in prop::option::of(prop::collection::vec(any_f32(), 24)),
     ) {
         let band = rust_band();
         let scene = Scene::new(0.9, 293.15).unwrap();
@@ -184,19 +186,29 @@ proptest! {
         let mut summary = sentinel_summary;
         // SAFETY: every buffer holds 24 values; rows and converter as built above.
         let s = unsafe {
-            bt_frame_convert_counts_corrected(&c_conv, rows.as_ptr().cast(), rows.len(),
-                gain.as_ptr(), offset.as_ptr(), bad.as_ptr(), width, &step,
-                counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary)
+            match &emissivity {
+                None => bt_frame_convert_counts_corrected(&c_conv, rows.as_ptr().cast(),
+                    rows.len(), gain.as_ptr(), offset.as_ptr(), bad.as_ptr(), width, &step,
+                    counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary),
+                Some(e) => bt_frame_convert_counts_corrected_emissivity(&c_conv,
+                    rows.as_ptr().cast(), rows.len(), gain.as_ptr(), offset.as_ptr(),
+                    bad.as_ptr(), width, &step, counts.as_ptr(), e.as_ptr(),
+                    kelvin.as_mut_ptr(), 24, &mut summary),
+            }
         };
         let mut expected = vec![-1.0f32; 24];
         let r = Correction::new(&gain, &offset, &bad, width)
             .and_then(|c| c.with_step(DriftStep { a, b }))
-            .and_then(|c| conv.convert_counts_corrected(&c, &counts, &mut expected));
+            .and_then(|c| match &emissivity {
+                None => conv.convert_counts_corrected(&c, &counts, &mut expected),
+                Some(e) => conv.convert_counts_corrected_emissivity(&c, &counts, e, &mut expected),
+            });
         prop_assert_eq!(s, status_of(&r));
         match r {
             Ok(rs) => {
                 prop_assert_eq!(summary.bad_replaced, rs.bad_replaced);
                 prop_assert_eq!(summary.frame.converted, rs.frame.converted);
+                prop_assert_eq!(summary.frame.emissivity_invalid, rs.frame.emissivity_invalid);
                 let f = summary.frame;
                 prop_assert_eq!(f.pixels, f.converted + f.dead + f.saturated + f.emissivity_invalid
                     + f.non_finite + f.below_background + f.below_range + f.above_range);
@@ -207,6 +219,146 @@ proptest! {
             Err(_) => {
                 prop_assert_eq!(summary, sentinel_summary);
                 prop_assert!(kelvin.iter().all(|&k| k == -1.0));
+            }
+        }
+    }
+
+    /// Arbitrary multi-point map bits (breakpoints included), level counts, map lengths,
+    /// widths, steps and emissivity maps (or none): the fused multi-point export either refuses with a status
+    /// (output untouched) or agrees bit for bit with the Rust API.
+    #[test]
+    fn fused_multi_point_agrees_with_rust(
+        maps in prop::collection::vec(any_f32(), 5 * 24 + 2),
+        maps_len in prop_oneof![4 => Just(5 * 24usize), 1 => 0usize..5 * 24 + 2],
+        levels in prop_oneof![4 => Just(3usize), 1 => 0usize..6],
+        bad in prop::collection::vec(prop_oneof![4 => Just(0u8), 1 => any::<u8>()], 24),
+        counts in prop::collection::vec(any::<u16>(), 24),
+        width in prop_oneof![3 => Just(6usize), 1 => 0usize..30],
+        a in any_f32(),
+        b in any_f32(),
+        emissivity in prop::option::of(prop::collection::vec(any_f32(), 24)),
+    ) {
+        let band = rust_band();
+        let scene = Scene::new(0.9, 293.15).unwrap();
+        let counts_map = CountsMap::linear(0.002, -2.0).unwrap();
+        let mut storage = vec![[0.0f32; 4]; 128];
+        let conv = FrameConverter::new(&band, &scene, counts_map, Rails::default(),
+            TemperatureRange::new(250.0, 1500.0).unwrap(), 1e-3, &mut storage).unwrap();
+        let rows: Vec<TableRow> = conv.table().rows().to_vec();
+        let mut c_conv = bt_frame_converter { opaque: [0; 32] };
+        // SAFETY: the state fits the converter's bytes (the capi crate asserts it).
+        unsafe { core::ptr::write(core::ptr::addr_of_mut!(c_conv).cast(), conv.state()) };
+        let step = bt_drift_step { a, b };
+        let mut kelvin = vec![-1.0f32; 24];
+        let sentinel_summary = bt_corrected_summary { bad_replaced: 99, ..Default::default() };
+        let mut summary = sentinel_summary;
+        // SAFETY: every buffer holds what its length says; rows and converter as above.
+        let s = unsafe {
+            match &emissivity {
+                None => bt_frame_convert_counts_multi_point(&c_conv, rows.as_ptr().cast(),
+                    rows.len(), maps.as_ptr(), maps_len, levels, bad.as_ptr(), width, &step,
+                    counts.as_ptr(), kelvin.as_mut_ptr(), 24, &mut summary),
+                Some(e) => bt_frame_convert_counts_multi_point_emissivity(&c_conv,
+                    rows.as_ptr().cast(), rows.len(), maps.as_ptr(), maps_len, levels,
+                    bad.as_ptr(), width, &step, counts.as_ptr(), e.as_ptr(),
+                    kelvin.as_mut_ptr(), 24, &mut summary),
+            }
+        };
+        let mut expected = vec![-1.0f32; 24];
+        let r = Correction::multi_point(&maps[..maps_len], levels, &bad, width)
+            .and_then(|c| c.with_step(DriftStep { a, b }))
+            .and_then(|c| match &emissivity {
+                None => conv.convert_counts_corrected(&c, &counts, &mut expected),
+                Some(e) => conv.convert_counts_corrected_emissivity(&c, &counts, e, &mut expected),
+            });
+        prop_assert_eq!(s, status_of(&r));
+        match r {
+            Ok(rs) => {
+                prop_assert_eq!(summary.bad_replaced, rs.bad_replaced);
+                prop_assert_eq!(summary.bad_unreplaced, rs.bad_unreplaced);
+                prop_assert_eq!(summary.frame.converted, rs.frame.converted);
+                prop_assert_eq!(summary.frame.emissivity_invalid, rs.frame.emissivity_invalid);
+                let f = summary.frame;
+                prop_assert_eq!(f.pixels, f.converted + f.dead + f.saturated + f.emissivity_invalid
+                    + f.non_finite + f.below_background + f.below_range + f.above_range);
+                for (x, y) in kelvin.iter().zip(&expected) {
+                    prop_assert_eq!(x.to_bits(), y.to_bits());
+                }
+                prop_assert_eq!(kelvin.iter().filter(|k| k.is_nan()).count() as u64,
+                    f.pixels - f.converted);
+            }
+            Err(_) => {
+                prop_assert_eq!(summary, sentinel_summary);
+                prop_assert!(kelvin.iter().all(|&k| k == -1.0));
+            }
+        }
+    }
+
+    /// Arbitrary level means (bits), frame counts and level counts: the map build either
+    /// refuses (maps, bad map and report untouched) or agrees bit for bit with the Rust
+    /// API, with finite maps and every flagged pixel counted.
+    #[test]
+    fn multi_point_build_agrees_with_rust(
+        means in prop::collection::vec(
+            prop_oneof![3 => 0.0f64..60_000.0, 1 => any_f64()], 4 * 8),
+        levels in prop_oneof![4 => Just(4usize), 1 => 0usize..5],
+        frames in prop_oneof![4 => Just(2u32), 1 => 0u32..3],
+        bad in prop::collection::vec(prop_oneof![4 => Just(0u8), 1 => any::<u8>()], 8),
+    ) {
+        // Levels sorted per pixel most of the time: each level's means in increasing
+        // order of the level for most pixels, arbitrary for the rest.
+        let mut level_means: Vec<Vec<f64>> = means.chunks(8).map(<[f64]>::to_vec).collect();
+        for p in 0..6 {
+            let mut col: Vec<f64> = level_means.iter().map(|l| l[p]).collect();
+            col.sort_by(f64::total_cmp);
+            for (l, v) in level_means.iter_mut().zip(col) {
+                l[p] = v;
+            }
+        }
+        let zeros = [0.0f64; 8];
+        let views: Vec<bt_stack_view> = level_means.iter().map(|m| bt_stack_view {
+            mean: m.as_ptr(), m2: zeros.as_ptr(), len: 8, frames,
+        }).collect();
+        let n = levels.min(4);
+        let len = 8 * (3 * levels.max(2) - 4);
+        let mut c_maps = vec![-3.0f32; len];
+        let mut c_bad = bad.clone();
+        let sentinel = bt_multi_point_report {
+            levels: 77, good_pixels: 77, order_flagged: 77, level_means: [SENTINEL; 16],
+        };
+        let mut report = sentinel;
+        // SAFETY: `levels` <= 4 views, each valid.
+        let s = unsafe {
+            bt_nuc_multi_point(views.as_ptr(), levels, c_bad.as_mut_ptr(), 8,
+                c_maps.as_mut_ptr(), len, &mut report)
+        };
+        let stats: Vec<StackStats> = level_means.iter().take(n)
+            .map(|m| StackStats::new(m, &zeros, frames)).collect::<Result<_, _>>()
+            .unwrap_or_default();
+        let mut maps = vec![-3.0f32; len];
+        let mut rust_bad = bad.clone();
+        let r = if levels < 2 {
+            Err(Error::NucLevelCount)
+        } else if stats.len() < n {
+            Err(Error::NucStackEmpty)
+        } else {
+            multi_point(&stats, &mut rust_bad, &mut maps)
+        };
+        prop_assert_eq!(s, status_of(&r));
+        match r {
+            Ok(rr) => {
+                prop_assert_eq!(report.good_pixels, rr.good_pixels);
+                prop_assert_eq!(report.order_flagged, rr.order_flagged);
+                prop_assert_eq!(&c_bad, &rust_bad);
+                prop_assert!(c_maps.iter().zip(&maps).all(|(x, y)| x.to_bits() == y.to_bits()));
+                prop_assert!(c_maps.iter().all(|v| v.is_finite()));
+                let flagged = c_bad.iter().zip(&bad).filter(|(&a, &b)| a != b).count() as u64;
+                prop_assert_eq!(flagged, rr.order_flagged);
+            }
+            Err(_) => {
+                prop_assert_eq!(report, sentinel);
+                prop_assert_eq!(&c_bad, &bad);
+                prop_assert!(c_maps.iter().all(|&v| v == -3.0));
             }
         }
     }

@@ -131,6 +131,9 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::DriftPointInvalid, 808),
     (bt_status::DriftIllConditioned, 809),
     (bt_status::MeritInputInvalid, 810),
+    (bt_status::NucLevelCount, 814),
+    (bt_status::NucLevelsNotIncreasing, 815),
+    (bt_status::NucMapStorageMismatch, 816),
 ];
 
 fn message(raw: c_int) -> &'static str {

@@ -9,7 +9,8 @@
  * FW_LEVEL selects how much of the library the image uses, for the flash budget:
  *   1  bt_version, band radiance and its inversion
  *   2  + the measurement equation (sensor radiance and the scene inverse)
- *   3  + a Sakuma-Hattori conversion and whole-frame conversion (the full example) */
+ *   3  + a Sakuma-Hattori conversion, whole-frame conversion and the raw-frame stage
+ *        (non-uniformity maps, bad-pixel replacement, fused conversion; the full example) */
 #include <stddef.h>
 #include <stdint.h>
 
@@ -164,6 +165,136 @@ static void print_summary(const bt_frame_summary *s) {
     fw_line_u64("  above_range", s->above_range);
 }
 
+/* The raw-frame stage on a tiny invented 8x6 array: each pixel reads raw counts
+ * n = (x - offset_p) / gain_p of the array's corrected counts x, plus a small quadratic
+ * term (x - 20000)^2 / 2^21 that two-point maps leave and three-level maps mostly remove;
+ * pixel 19 is stuck. Three flat-field stacks (4 frames each, +-1 count of invented noise)
+ * give multi-point maps (the stuck pixel is flagged 16: its levels do not increase) and,
+ * from the outer two, two-point maps; a raw frame then goes through each fused
+ * conversion, and through the emissivity-map path. Integer arithmetic only, so the
+ * invented counts are the same on every target. */
+#define RAW_W 8
+#define RAW_H 6
+#define RAW_PIXELS (RAW_W * RAW_H)
+#define RAW_LEVELS 3
+#define RAW_STUCK 19
+
+static double raw_mean[RAW_LEVELS][RAW_PIXELS];
+static double raw_m2[RAW_LEVELS][RAW_PIXELS];
+static uint16_t raw_frame[RAW_PIXELS];
+static float raw_maps[(3 * RAW_LEVELS - 4) * RAW_PIXELS];
+static float raw_gain[RAW_PIXELS], raw_offset[RAW_PIXELS];
+static float raw_emissivity[RAW_PIXELS];
+static float raw_kelvin[RAW_PIXELS];
+static uint8_t raw_bad[RAW_PIXELS];
+
+/* Raw counts of pixel p for corrected counts x: gain 1 + (p % 5 - 2) / 64, offset
+ * 150 (p % 7 - 3), the quadratic term, rounded; the stuck pixel reads 7000. */
+static uint16_t raw_counts(int p, int32_t x, int noise) {
+    int32_t d = x - 20000, q = (int32_t)(((int64_t)d * d) >> 21);
+    int32_t num = 64 * (x + q - 150 * (p % 7 - 3));
+    int32_t den = 64 + (p % 5 - 2);
+    if (p == RAW_STUCK) return 7000;
+    return (uint16_t)((num + den / 2) / den + noise);
+}
+
+static void print_raw(const char *name, const bt_corrected_summary *s) {
+    int i, j;
+    fw_line_str("raw frame", name);
+    print_summary(&s->frame);
+    fw_line_u64("  bad_replaced", s->bad_replaced);
+    fw_line_u64("  bad_unreplaced", s->bad_unreplaced);
+    for (i = 0; i < RAW_PIXELS; i += 8) {
+        fw_puts("  px");
+        for (j = i; j < i + 8; j++) {
+            uint32_t bits;
+            __builtin_memcpy(&bits, &raw_kelvin[j], sizeof bits);
+            fw_puts(" ");
+            fw_put_hex(bits, 8);
+        }
+        fw_puts("\n");
+    }
+}
+
+static void raw_frame_stage(size_t rows) {
+    static const int32_t levels_x[RAW_LEVELS] = {14000, 22000, 34000};
+    static const int noise[4] = {-1, 1, 0, 0};
+    bt_stack_view views[RAW_LEVELS];
+    uint32_t frames[RAW_LEVELS] = {0, 0, 0};
+    bt_multi_point_report report;
+    bt_two_point_report two;
+    bt_corrected_summary summary;
+    const bt_drift_step step = {1.0f, 0.0f};
+    size_t map_len = 0;
+    int k, f, p;
+
+    for (k = 0; k < RAW_LEVELS; k++) {
+        for (f = 0; f < 4; f++) {
+            for (p = 0; p < RAW_PIXELS; p++) raw_frame[p] = raw_counts(p, levels_x[k], noise[(f + p) % 4]);
+            expect("bt_frame_stack_add_counts",
+                   bt_frame_stack_add_counts(raw_mean[k], raw_m2[k], RAW_PIXELS, &frames[k],
+                                             raw_frame, RAW_PIXELS),
+                   BT_STATUS_OK);
+        }
+        views[k].mean = raw_mean[k];
+        views[k].m2 = raw_m2[k];
+        views[k].len = RAW_PIXELS;
+        views[k].frames = frames[k];
+    }
+    expect("bt_nuc_multi_point_map_len",
+           bt_nuc_multi_point_map_len(RAW_LEVELS, RAW_PIXELS, &map_len), BT_STATUS_OK);
+    fw_line_u64("multi-point map floats", map_len);
+    expect("bt_nuc_multi_point",
+           bt_nuc_multi_point(views, RAW_LEVELS, raw_bad, RAW_PIXELS, raw_maps, map_len, &report),
+           BT_STATUS_OK);
+    fw_line_u64("  good_pixels", report.good_pixels);
+    fw_line_u64("  order_flagged", report.order_flagged);
+    fw_line_u64("  stuck pixel flags", raw_bad[RAW_STUCK]);
+    for (k = 0; k < RAW_LEVELS; k++) fw_line_f64("  level_mean", report.level_means[k]);
+    fw_line_f32("  gain[0] segment 0", raw_maps[0]);
+    fw_line_f32("  gain[0] segment 1", raw_maps[RAW_PIXELS]);
+    fw_line_f32("  breakpoint[0]", raw_maps[4 * RAW_PIXELS]);
+    /* Two-point maps from the outer levels, the stuck pixel already flagged. */
+    expect("bt_nuc_two_point",
+           bt_nuc_two_point(&views[0], &views[2], raw_bad, RAW_PIXELS, raw_gain, raw_offset,
+                            RAW_PIXELS, &two),
+           BT_STATUS_OK);
+    fw_line_f64("  two-point mean_low", two.mean_low);
+    fw_line_f64("  two-point mean_high", two.mean_high);
+
+    /* A raw frame: corrected counts 16000 + 400 per pixel, an emissivity map of 0.92 with
+     * a patch of 0.8 in the first row and one invalid value (0). */
+    for (p = 0; p < RAW_PIXELS; p++) {
+        raw_frame[p] = raw_counts(p, 16000 + 400 * p, 0);
+        raw_emissivity[p] = p < RAW_W / 2 ? 0.8f : 0.92f;
+    }
+    raw_emissivity[RAW_W + 3] = 0.0f;
+    expect("bt_frame_convert_counts_corrected",
+           bt_frame_convert_counts_corrected(&converter, table, rows, raw_gain, raw_offset,
+                                             raw_bad, RAW_W, &step, raw_frame, raw_kelvin,
+                                             RAW_PIXELS, &summary),
+           BT_STATUS_OK);
+    print_raw("two-point", &summary);
+    expect("bt_frame_convert_counts_multi_point",
+           bt_frame_convert_counts_multi_point(&converter, table, rows, raw_maps, map_len,
+                                               RAW_LEVELS, raw_bad, RAW_W, &step, raw_frame,
+                                               raw_kelvin, RAW_PIXELS, &summary),
+           BT_STATUS_OK);
+    print_raw("multi-point", &summary);
+    expect("bt_frame_convert_counts_multi_point_emissivity",
+           bt_frame_convert_counts_multi_point_emissivity(
+               &converter, table, rows, raw_maps, map_len, RAW_LEVELS, raw_bad, RAW_W, NULL,
+               raw_frame, raw_emissivity, raw_kelvin, RAW_PIXELS, &summary),
+           BT_STATUS_OK);
+    print_raw("multi-point, emissivity map", &summary);
+    expect("bt_frame_convert_counts_corrected_emissivity",
+           bt_frame_convert_counts_corrected_emissivity(
+               &converter, table, rows, raw_gain, raw_offset, raw_bad, RAW_W, NULL, raw_frame,
+               raw_emissivity, raw_kelvin, RAW_PIXELS, &summary),
+           BT_STATUS_OK);
+    print_raw("two-point, emissivity map", &summary);
+}
+
 static void frame_conversion(void) {
     size_t rows = 0;
     bt_frame_geometry geometry;
@@ -202,6 +333,8 @@ static void frame_conversion(void) {
            BT_STATUS_OK);
     print_summary(&summary);
     print_frame("emissivity map");
+
+    raw_frame_stage(rows);
 }
 #endif
 

@@ -34,6 +34,9 @@ pub const BAD_GAIN: u8 = 2;
 pub const BAD_OFFSET: u8 = 4;
 /// Flag: temporal noise above `noise_factor` times the median.
 pub const BAD_NOISY: u8 = 8;
+/// Flag: the pixel's multi-point flat-field levels do not increase strictly (set by
+/// [`crate::frame::multi_point`]).
+pub const BAD_ORDER: u8 = 16;
 /// Flag: set by the caller (known bad from elsewhere); never set by detection.
 pub const BAD_USER: u8 = 128;
 

@@ -52,9 +52,10 @@
 //! | stage                                   | file           | items                                  |
 //! |-----------------------------------------|----------------|----------------------------------------|
 //! | two-point NUC maps, shutter refresh     | `nonuniformity.rs` | [`FrameStack`], [`two_point`], [`shutter_refresh`], [`Correction`] |
+//! | multi-point (piecewise-linear) NUC maps | `multipoint.rs` | [`multi_point`], [`multi_point_map_len`], [`Correction::multi_point`] |
 //! | bad-pixel map and replacement           | `bad_pixels.rs` | [`detect_bad_pixels`], [`BadPixelRules`] |
 //! | array-temperature drift, self-emission  | `drift.rs`     | [`DriftModel`], [`DriftStep`], [`net_signal`] |
-//! | fused raw counts -> kelvin              | `nonuniformity.rs` | [`FrameConverter::convert_counts_corrected`] |
+//! | fused raw counts -> kelvin              | `nonuniformity.rs` | [`FrameConverter::convert_counts_corrected`], [`FrameConverter::convert_counts_corrected_emissivity`] |
 //! | declared inputs                         | `params.rs`    | [`TemperatureRange`], [`CountsMap`], [`Rails`] |
 //! | counts or S -> object signal L          | `pixel_map.rs` | [`PixelMap`]                           |
 //! | L -> row and position -> T (per pixel)  | `lookup.rs`    | row index from the f32 bits, Horner    |
@@ -174,6 +175,7 @@ pub(crate) mod fingerprint;
 mod kernel;
 mod lookup;
 mod merit;
+mod multipoint;
 mod nonuniformity;
 #[cfg(feature = "std")]
 mod parallel;
@@ -183,8 +185,8 @@ mod summary;
 mod table;
 
 pub use bad_pixels::{
-    detect_bad_pixels, BadPixelReport, BadPixelRules, BAD_GAIN, BAD_NOISY, BAD_OFFSET, BAD_STUCK,
-    BAD_USER,
+    detect_bad_pixels, BadPixelReport, BadPixelRules, BAD_GAIN, BAD_NOISY, BAD_OFFSET, BAD_ORDER,
+    BAD_STUCK, BAD_USER,
 };
 pub use build::PROBES;
 pub use converter::{ConverterState, FrameConverter};
@@ -193,6 +195,7 @@ pub use drift::{
     MAX_DRIFT_POINTS,
 };
 pub use merit::{dsnu_counts, fpn_k, netd_k, prnu, spatial_stats, SpatialStats};
+pub use multipoint::{multi_point, multi_point_map_len, MultiPointReport, MAX_NUC_LEVELS};
 pub use nonuniformity::{
     shutter_refresh, shutter_target_counts, two_point, CorrectedSummary, Correction, DriftStep,
     FrameStack, StackStats, TwoPointReport,

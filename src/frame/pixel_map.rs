@@ -103,6 +103,17 @@ impl PixelMap {
         )
     }
 
+    /// The emissivity-map counts coefficients (k_int, k_rem, k_scale), for the fused
+    /// corrected conversion (`nonuniformity.rs`); NaN unless `map_ready`.
+    pub(super) fn counts_k_coefficients(&self) -> (f32, f32, f32) {
+        (self.counts_k_int, self.counts_k_rem, self.counts_k_scale)
+    }
+
+    /// Lr, curve units; NaN unless `map_ready`.
+    pub(super) fn reflected(&self) -> f32 {
+        self.reflected_signal
+    }
+
     /// Object signal L of a pixel with `counts` and emissivity `e`, curve units.
     #[inline(always)]
     pub(super) fn object_counts_e(&self, counts: f32, e: f32) -> f32 {

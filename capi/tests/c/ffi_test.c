@@ -3314,6 +3314,335 @@ static void test_raw_frames(void) {
     }
 }
 
+/* Multi-point NUC: three flat-field stacks of the same invented pixels (x = 9000, 11000,
+ * 13000), maps, the per-pixel order rule (the stuck pixel 5 is flagged 16), two levels
+ * against two-point bit for bit, the fused conversion, and hostile input. */
+static void test_multi_point(void) {
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    static const double xs[3] = {9000.0, 11000.0, 13000.0};
+    double means[3][RAW_N], m2s[3][RAW_N];
+    uint32_t frames[3] = {0, 0, 0};
+    uint16_t frame[RAW_N];
+    float maps[5 * RAW_N], maps_copy[5 * RAW_N], two[2 * RAW_N], gain[RAW_N], offset[RAW_N];
+    float kelvin[RAW_N];
+    uint8_t bad[RAW_N], bad_copy[RAW_N];
+    bt_stack_view views[3], reversed[3], broken[3];
+    bt_multi_point_report report, report_sentinel;
+    bt_two_point_report two_report;
+    bt_drift_step step = {1.0f, 0.0f}, bad_step = {-1.0f, 0.0f};
+    bt_corrected_summary cs, cs_sentinel;
+    bt_scene scene = {1.0, 293.15, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    bt_rails rails = {0, 65535};
+    bt_frame_converter conv;
+    size_t p, k, len = 0;
+    int f;
+    const int noise[4] = {-1, 1, 0, 0};
+
+    for (k = 0; k < 3; k++) {
+        for (f = 0; f < 4; f++) {
+            for (p = 0; p < RAW_N; p++) frame[p] = raw_counts(p, xs[k], noise[(f + k) % 4]);
+            CHECK(bt_frame_stack_add_counts(means[k], m2s[k], RAW_N, &frames[k], frame, RAW_N) ==
+                  BT_STATUS_OK);
+        }
+        views[k].mean = means[k]; views[k].m2 = m2s[k]; views[k].len = RAW_N;
+        views[k].frames = frames[k];
+    }
+
+    /* Storage size. */
+    CHECK(bt_nuc_multi_point_map_len(3, RAW_N, &len) == BT_STATUS_OK && len == 5 * RAW_N);
+    len = 77;
+    CHECK(bt_nuc_multi_point_map_len(1, RAW_N, &len) == BT_STATUS_NUC_LEVEL_COUNT && len == 77);
+    CHECK(bt_nuc_multi_point_map_len(BT_NUC_MAX_LEVELS + 1, RAW_N, &len) ==
+          BT_STATUS_NUC_LEVEL_COUNT);
+    CHECK(bt_nuc_multi_point_map_len(3, 0, &len) == BT_STATUS_NUC_FRAME_EMPTY);
+    CHECK(bt_nuc_multi_point_map_len(16, SIZE_MAX, &len) == BT_STATUS_NUC_MAP_STORAGE_MISMATCH);
+    CHECK(bt_nuc_multi_point_map_len(3, RAW_N, NULL) == BT_STATUS_NULL_POINTER);
+    CHECK(bt_nuc_multi_point_map_len(3, RAW_N, (size_t *)misaligned(&len)) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(len == 77);
+
+    /* Hostile map builds: nothing written. */
+    memset(bad, 0, sizeof bad);
+    for (p = 0; p < 5 * RAW_N; p++) maps[p] = -7.0f;
+    memcpy(maps_copy, maps, sizeof maps);
+    memset(&report_sentinel, 0x5a, sizeof report_sentinel);
+    report = report_sentinel;
+    CHECK(bt_nuc_multi_point(views, 1, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NUC_LEVEL_COUNT);
+    CHECK(bt_nuc_multi_point(views, BT_NUC_MAX_LEVELS + 1, bad, RAW_N, maps, 5 * RAW_N,
+                             &report) == BT_STATUS_NUC_LEVEL_COUNT);
+    CHECK(bt_nuc_multi_point(NULL, 3, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_nuc_multi_point(views, 3, NULL, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, NULL, 5 * RAW_N, &report) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, maps, 5 * RAW_N, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, maps, 5 * RAW_N - 1, &report) ==
+          BT_STATUS_NUC_MAP_STORAGE_MISMATCH);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N - 1, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_FRAME_LENGTH_MISMATCH);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, maps, SIZE_MAX, &report) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, (float *)misaligned(maps), 5 * RAW_N - 1,
+                             &report) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_nuc_multi_point(views, 3, (uint8_t *)(void *)maps, RAW_N, maps, 5 * RAW_N,
+                             &report) == BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, (float *)(void *)means[1], 5 * RAW_N,
+                             &report) == BT_STATUS_INVALID_BUFFER);
+    reversed[0] = views[2]; reversed[1] = views[1]; reversed[2] = views[0];
+    CHECK(bt_nuc_multi_point(reversed, 3, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NUC_LEVELS_NOT_INCREASING);
+    broken[0] = views[0]; broken[1] = views[1]; broken[2] = views[1];
+    CHECK(bt_nuc_multi_point(broken, 3, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NUC_LEVELS_NOT_INCREASING);
+    broken[2] = views[2]; broken[1].frames = 0;
+    CHECK(bt_nuc_multi_point(broken, 3, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NUC_STACK_EMPTY);
+    broken[1] = views[1]; broken[1].m2 = NULL;
+    CHECK(bt_nuc_multi_point(broken, 3, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+          BT_STATUS_NULL_POINTER);
+    {
+        uint8_t all[RAW_N];
+        memset(all, 128, sizeof all);
+        CHECK(bt_nuc_multi_point(views, 3, all, RAW_N, maps, 5 * RAW_N, &report) ==
+              BT_STATUS_NUC_NO_GOOD_PIXELS);
+    }
+    CHECK(memcmp(maps, maps_copy, sizeof maps) == 0);
+    for (p = 0; p < RAW_N; p++) CHECK(bad[p] == 0);
+    CHECK(memcmp(&report, &report_sentinel, sizeof report) == 0);
+
+    /* The build: pixel 5 (stuck) is flagged 16 and counted; means, gains and breakpoints
+     * against the formulas written out here. */
+    CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, maps, 5 * RAW_N, &report) == BT_STATUS_OK);
+    CHECK(report.levels == 3 && report.order_flagged == 1 && report.good_pixels == RAW_N - 1);
+    CHECK(bad[5] == 16);
+    for (p = 0; p < RAW_N; p++) CHECK(p == 5 || bad[p] == 0);
+    for (p = 0; p < 5 * RAW_N; p++) CHECK(isfinite(maps[p]));
+    {
+        double m[3] = {0.0, 0.0, 0.0};
+        for (k = 0; k < 3; k++) {
+            for (p = 0; p < RAW_N; p++) if (p != 5) m[k] += means[k][p];
+            m[k] /= RAW_N - 1;
+            CHECK(fabs(report.level_means[k] - m[k]) < 1e-9 * m[k]);
+        }
+        CHECK(report.level_means[3] == 0.0);
+        for (p = 0; p < RAW_N; p++) {
+            if (p == 5) continue;
+            for (k = 0; k < 2; k++) {
+                double g = (m[k + 1] - m[k]) / (means[k + 1][p] - means[k][p]);
+                CHECK(fabs(maps[k * RAW_N + p] - g) < 1e-6);
+                CHECK(fabs(maps[(2 + k) * RAW_N + p] - (m[k] - g * means[k][p])) < 1e-2);
+            }
+            CHECK(maps[4 * RAW_N + p] == (float)means[1][p]);
+        }
+    }
+
+    /* Two levels: bt_nuc_two_point's maps, bit for bit (pixel 5 now flagged). */
+    CHECK(bt_nuc_two_point(&views[0], &views[2], bad, RAW_N, gain, offset, RAW_N, &two_report) ==
+          BT_STATUS_OK);
+    broken[0] = views[0]; broken[1] = views[2];
+    CHECK(bt_nuc_multi_point(broken, 2, bad, RAW_N, two, 2 * RAW_N, &report) == BT_STATUS_OK);
+    CHECK(memcmp(two, gain, sizeof gain) == 0 && memcmp(two + RAW_N, offset, sizeof offset) == 0);
+    CHECK(report.level_means[0] == two_report.mean_low &&
+          report.level_means[1] == two_report.mean_high);
+
+    /* Fused conversion: a converter sending the lowest level's array mean to the band
+     * radiance of 293.15 K and the highest's to 333.15 K (the array's response is linear
+     * in x, as every pixel's is); flat fields at x = 10000 and 12000 read the temperature
+     * of the radiance a quarter and three quarters of the way (0.02 K for the rounding of
+     * the raw counts), the flagged pixel replaced. */
+    {
+        double l1, l2v, g, o, t_ref = SENTINEL;
+        static const double fractions[2] = {0.25, 0.75};
+        CHECK(bt_band_radiance(&band, 293.15, &l1) == BT_STATUS_OK);
+        CHECK(bt_band_radiance(&band, 333.15, &l2v) == BT_STATUS_OK);
+        CHECK(bt_nuc_multi_point(views, 3, bad, RAW_N, maps, 5 * RAW_N, &report) ==
+              BT_STATUS_OK);
+        CHECK(report.order_flagged == 0); /* pixel 5 already flagged */
+        g = (l2v - l1) / (report.level_means[2] - report.level_means[0]);
+        o = l1 - g * report.level_means[0];
+        CHECK(bt_frame_converter_new_band(&band, &scene, g, o, &rails, 250.0, 500.0, 1e-3,
+                                          frame_table, FRAME_ROWS, &conv) == BT_STATUS_OK);
+        for (k = 0; k < 2; k++) {
+            for (p = 0; p < RAW_N; p++) frame[p] = raw_counts(p, 9000.0 + 4000.0 * fractions[k], 0);
+            CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps,
+                                                      5 * RAW_N, 3, bad, RAW_W, &step, frame,
+                                                      kelvin, RAW_N, &cs) == BT_STATUS_OK);
+            CHECK(bt_band_temperature(&band, l1 + fractions[k] * (l2v - l1), &t_ref) ==
+                  BT_STATUS_OK);
+            CHECK(cs.bad_replaced == 1 && cs.frame.converted == RAW_N);
+            for (p = 0; p < RAW_N; p++) CHECK(fabs(kelvin[p] - t_ref) < 0.02);
+        }
+        /* Hostile: nothing written. */
+        for (p = 0; p < RAW_N; p++) kelvin[p] = -1.0f;
+        memset(&cs_sentinel, 0x5a, sizeof cs_sentinel);
+        cs = cs_sentinel;
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  3, bad, 0, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NUC_GEOMETRY_INVALID);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  3, bad, 5, &step, frame, kelvin, RAW_N, &cs) ==
+              BT_STATUS_NUC_GEOMETRY_INVALID);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  4, bad, RAW_W, &step, frame, kelvin, RAW_N,
+                                                  &cs) == BT_STATUS_NUC_MAP_STORAGE_MISMATCH);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  1, bad, RAW_W, &step, frame, kelvin, RAW_N,
+                                                  &cs) == BT_STATUS_NUC_LEVEL_COUNT);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  (size_t)-1, bad, RAW_W, &step, frame, kelvin,
+                                                  RAW_N, &cs) == BT_STATUS_NUC_LEVEL_COUNT);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, NULL, 5 * RAW_N,
+                                                  3, bad, RAW_W, &step, frame, kelvin, RAW_N,
+                                                  &cs) == BT_STATUS_NULL_POINTER);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  3, bad, RAW_W, &bad_step, frame, kelvin, RAW_N,
+                                                  &cs) == BT_STATUS_NUC_MAP_INVALID);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  3, bad, RAW_W, &step, frame, maps, RAW_N,
+                                                  &cs) == BT_STATUS_INVALID_BUFFER);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps, 5 * RAW_N,
+                                                  3, bad, RAW_W, &step, frame, kelvin, SIZE_MAX,
+                                                  &cs) == BT_STATUS_INVALID_BUFFER);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS,
+                                                  (const float *)misaligned(maps), 5 * RAW_N - 1,
+                                                  3, bad, RAW_W, &step, frame, kelvin, RAW_N,
+                                                  &cs) == BT_STATUS_INVALID_BUFFER);
+        memcpy(maps_copy, maps, sizeof maps);
+        maps_copy[4 * RAW_N + 2] = NAN; /* a good pixel's breakpoint */
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps_copy,
+                                                  5 * RAW_N, 3, bad, RAW_W, &step, frame, kelvin,
+                                                  RAW_N, &cs) == BT_STATUS_NUC_MAP_INVALID);
+        maps_copy[4 * RAW_N + 2] = maps[4 * RAW_N + 2];
+        maps_copy[RAW_N + 3] = 0.0f; /* a good pixel's gain, segment 1 */
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps_copy,
+                                                  5 * RAW_N, 3, bad, RAW_W, &step, frame, kelvin,
+                                                  RAW_N, &cs) == BT_STATUS_NUC_MAP_INVALID);
+        maps_copy[RAW_N + 3] = maps[RAW_N + 3];
+        maps_copy[4 * RAW_N + 5] = NAN; /* the flagged pixel's breakpoint: never read */
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps_copy,
+                                                  5 * RAW_N, 3, bad, RAW_W, NULL, frame, kelvin,
+                                                  RAW_N, NULL) == BT_STATUS_NULL_POINTER);
+        for (p = 0; p < RAW_N; p++) CHECK(kelvin[p] == -1.0f);
+        CHECK(memcmp(&cs, &cs_sentinel, sizeof cs) == 0);
+        CHECK(bt_frame_convert_counts_multi_point(&conv, frame_table, FRAME_ROWS, maps_copy,
+                                                  5 * RAW_N, 3, bad, RAW_W, NULL, frame, kelvin,
+                                                  RAW_N, &cs) == BT_STATUS_OK);
+        CHECK(cs.frame.converted == RAW_N);
+    }
+    (void)bad_copy;
+}
+
+/* The fused emissivity-map path against correcting first and converting with the plain
+ * emissivity-map conversion: with maps that leave every count whole (identity gains,
+ * offsets of whole counts), and a bad pixel in a flat patch (its neighbours' mean is the
+ * patch's count), the results agree bit for bit, invalid emissivities included. */
+static bt_frame_row sh_table[1024];
+
+static void test_fused_emissivity(void) {
+    bt_band band = rectangular(8.0, 14.0, BT_DETECTOR_ENERGY);
+    bt_scene scene = {0.9, 300.0, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+    bt_rails rails = {0, 65535};
+    bt_frame_converter conv, sh_conv;
+    bt_frame_summary plain;
+    bt_corrected_summary cs, cs_sentinel;
+    bt_drift_step step = {1.0f, 0.0f};
+    uint16_t raw[RAW_N], corrected[RAW_N];
+    float gain[RAW_N], offset[RAW_N], maps[5 * RAW_N], em[RAW_N], fused[RAW_N], expected[RAW_N];
+    uint8_t bad[RAW_N];
+    size_t p;
+    const bt_sakuma_hattori sh = {10.0, -3000.0, 1e7};
+    bt_scene cold = {1.0, 250.0, 1.0, 293.15, 1.0, 0.0, 293.15, 293.15};
+
+    CHECK(bt_frame_converter_new_band(&band, &scene, 0.002, -2.0, &rails, 250.0, 600.0, 1e-3,
+                                      frame_table, FRAME_ROWS, &conv) == BT_STATUS_OK);
+    /* Pixel p: offset (p % 3) * 100 counts, gain 1; corrected counts 20000 + 900 p, except
+     * a flat patch of 22000 around the bad pixel 5 (row 1, column 1 of a 4-wide frame). */
+    memset(bad, 0, sizeof bad);
+    bad[5] = 1;
+    for (p = 0; p < RAW_N; p++) {
+        size_t r = p / RAW_W, c = p % RAW_W;
+        int near5 = r <= 2 && c <= 2;
+        corrected[p] = (uint16_t)(near5 ? 22000 : 20000 + 900 * p);
+        gain[p] = 1.0f;
+        offset[p] = (float)((p % 3) * 100);
+        raw[p] = (uint16_t)(corrected[p] - (p % 3) * 100);
+        em[p] = 0.2f + 0.07f * (float)p;
+    }
+    raw[5] = 1234; /* whatever a bad pixel reads */
+    em[2] = 0.0f;
+    em[7] = NAN;
+    em[9] = 1.5f;
+    CHECK(bt_frame_convert_counts(&conv, frame_table, FRAME_ROWS, corrected, RAW_N, em, RAW_N,
+                                  expected, RAW_N, &plain) == BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw, em,
+                                                       fused, RAW_N, &cs) == BT_STATUS_OK);
+    CHECK(memcmp(fused, expected, sizeof fused) == 0);
+    CHECK(memcmp(&cs.frame, &plain, sizeof plain) == 0);
+    CHECK(cs.bad_replaced == 1 && plain.emissivity_invalid == 3 && plain.converted > 6);
+    /* The same maps as three-level multi-point maps (every segment the same). */
+    for (p = 0; p < RAW_N; p++) {
+        maps[p] = maps[RAW_N + p] = 1.0f;
+        maps[2 * RAW_N + p] = maps[3 * RAW_N + p] = offset[p];
+        maps[4 * RAW_N + p] = 21000.0f;
+    }
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 3, bad, RAW_W, NULL, raw, em,
+                                                         fused, RAW_N, &cs) == BT_STATUS_OK);
+    CHECK(memcmp(fused, expected, sizeof fused) == 0);
+    CHECK(memcmp(&cs.frame, &plain, sizeof plain) == 0);
+
+    /* Hostile: nothing written. */
+    for (p = 0; p < RAW_N; p++) fused[p] = -1.0f;
+    memset(&cs_sentinel, 0x5a, sizeof cs_sentinel);
+    cs = cs_sentinel;
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw, NULL,
+                                                       fused, RAW_N, &cs) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw, fused,
+                                                       fused, RAW_N, &cs) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, RAW_W, &step, raw,
+                                                       (const float *)misaligned(em), fused,
+                                                       RAW_N - 1, &cs) ==
+          BT_STATUS_INVALID_BUFFER);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&conv, frame_table, FRAME_ROWS, gain,
+                                                       offset, bad, 5, &step, raw, em, fused,
+                                                       RAW_N, &cs) ==
+          BT_STATUS_NUC_GEOMETRY_INVALID);
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 3, bad, RAW_W, NULL, raw,
+                                                         NULL, fused, RAW_N, &cs) ==
+          BT_STATUS_NULL_POINTER);
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 2, bad, RAW_W, NULL, raw, em,
+                                                         fused, RAW_N, &cs) ==
+          BT_STATUS_NUC_MAP_STORAGE_MISMATCH);
+    CHECK(bt_frame_convert_counts_multi_point_emissivity(&conv, frame_table, FRAME_ROWS, maps,
+                                                         5 * RAW_N, 3, bad, RAW_W, NULL, raw, em,
+                                                         fused, RAW_N, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    /* A curve without a signal at the reflected temperature (an invented Sakuma-Hattori
+     * curve undefined below 300 K, surroundings at 250 K): no emissivity map. */
+    CHECK(bt_frame_converter_new_sakuma_hattori(&sh, &cold, 100.0, &rails, 400.0, 1200.0, 0.01,
+                                                sh_table, 1024, &sh_conv) == BT_STATUS_OK);
+    CHECK(bt_frame_convert_counts_corrected_emissivity(&sh_conv, sh_table, 1024, gain, offset,
+                                                       bad, RAW_W, &step, raw, em, fused, RAW_N,
+                                                       &cs) ==
+          BT_STATUS_FRAME_EMISSIVITY_MAP_UNAVAILABLE);
+    CHECK(bt_frame_convert_counts_corrected(&sh_conv, sh_table, 1024, gain, offset, bad, RAW_W,
+                                            &step, raw, fused, RAW_N, NULL) ==
+          BT_STATUS_NULL_POINTER);
+    for (p = 0; p < RAW_N; p++) CHECK(fused[p] == -1.0f);
+    CHECK(memcmp(&cs, &cs_sentinel, sizeof cs) == 0);
+}
+
 int main(void) {
     test_version_and_status();
     test_planck();
@@ -3340,6 +3669,8 @@ int main(void) {
     test_verify();
     test_optics();
     test_raw_frames();
+    test_multi_point();
+    test_fused_emissivity();
     printf("%lu passed, %lu failed\n", passed, failed);
     return failed == 0 ? 0 : 1;
 }

@@ -24,7 +24,10 @@ Loads the cdylib with ctypes and compares, for seeded random cases,
   the band radiance and the curve's inverse in mpmath, and the calibration uncertainty
   (bt_verify_uncertainty_sakuma_hattori) with the Jacobian by mpmath.diff;
 - optics and materials: Fresnel directional emissivity (mpmath complex), hemispherical
-  emissivity (scipy quad), Airy encircled energy (scipy.special) and MTF (numpy).
+  emissivity (scipy quad), Airy encircled energy (scipy.special) and MTF (numpy);
+- multi-point NUC maps (bt_nuc_multi_point): each pixel's corrected counts from the maps
+  against numpy's piecewise-linear interpolation (np.interp) of the pixel's levels onto
+  the array means (np.mean over the good pixels), extrapolated with the end segments.
 
 Usage:
     cargo build --release --lib
@@ -517,6 +520,101 @@ def check_rest(lib, rng, tally):
         tally.ratio("monte carlo mean vs estimate (error / bound)", abs(out.mean_k - t) / bound)
 
 
+# ---- multi-point non-uniformity correction -------------------------------------------------
+
+
+class StackView(ctypes.Structure):
+    _fields_ = [
+        ("mean", ctypes.POINTER(ctypes.c_double)),
+        ("m2", ctypes.POINTER(ctypes.c_double)),
+        ("len", ctypes.c_size_t),
+        ("frames", ctypes.c_uint32),
+    ]
+
+
+class MultiPointReport(ctypes.Structure):
+    _fields_ = [
+        ("levels", ctypes.c_uint32),
+        ("good_pixels", ctypes.c_uint64),
+        ("order_flagged", ctypes.c_uint64),
+        ("level_means", ctypes.c_double * 16),
+    ]
+
+
+def multi_point_checks(lib, rng, tally):
+    """Multi-point maps against numpy: the corrected counts G_k n + O_k of every good pixel
+    (segment from the pixel's breakpoints in the maps) against np.interp of the pixel's
+    levels onto the array means, outside the span the end segments' lines; the array means
+    against np.mean; pixels whose levels do not increase flagged 16 and counted."""
+    TOL.update({
+        # f32 maps: 2^-24 relative on G and O and on the breakpoints, a few roundings:
+        # relative to |G n| + |O| + |x| (the largest term of the sum).
+        "multi-point corrected counts vs np.interp": 4.0 * 2.0 ** -24,
+        "multi-point level means vs np.mean": 1e-14,
+    })
+    lib.bt_nuc_multi_point.argtypes = [
+        ctypes.POINTER(StackView), ctypes.c_size_t, ctypes.POINTER(ctypes.c_uint8),
+        ctypes.c_size_t, ctypes.POINTER(ctypes.c_float), ctypes.c_size_t,
+        ctypes.POINTER(MultiPointReport),
+    ]
+    lib.bt_nuc_multi_point.restype = ctypes.c_int
+    for case in range(20):
+        n_levels = int(rng.integers(2, 7))
+        pixels = int(rng.integers(4, 60))
+        # Array counts of the levels, increasing; pixels with their own gain, offset and a
+        # quadratic term (monotone over the range); a few pixels whose levels do not increase.
+        xs = np.sort(rng.uniform(5_000.0, 50_000.0, n_levels))
+        while np.any(np.diff(xs) < 100.0):
+            xs = np.sort(rng.uniform(5_000.0, 50_000.0, n_levels))
+        g = rng.uniform(0.8, 1.2, pixels)
+        o = rng.uniform(-500.0, 500.0, pixels)
+        c = rng.uniform(-2e-6, 2e-6, pixels)
+        levels = np.array([(x - o) / g + c * (x - 20_000.0) ** 2 for x in xs])  # [level][pixel]
+        broken = rng.choice(pixels, size=min(2, pixels - 2), replace=False) if case % 3 == 0 else []
+        for p in broken:
+            levels[-1][p] = levels[0][p] - 1.0
+        zeros = np.zeros(pixels)
+        keep = [doubles(list(row)) for row in levels] + [doubles(list(zeros))]
+        views = (StackView * n_levels)(*[
+            StackView(keep[k], keep[-1], pixels, 1) for k in range(n_levels)
+        ])
+        bad = (ctypes.c_uint8 * pixels)()
+        maps = (ctypes.c_float * ((3 * n_levels - 4) * pixels))()
+        report = MultiPointReport()
+        status = lib.bt_nuc_multi_point(views, n_levels, bad, pixels, maps, len(maps), ctypes.byref(report))
+        if status != 0:
+            raise RuntimeError(f"bt_nuc_multi_point: status {status}")
+        increasing = np.all(np.diff(levels, axis=0) > 0.0, axis=0)
+        good = np.flatnonzero(increasing)
+        if report.order_flagged != pixels - len(good) or report.good_pixels != len(good):
+            tally.failed += 1
+            print(f"FAIL multi-point: flagged {report.order_flagged}, good {report.good_pixels}")
+        for p in range(pixels):
+            if (bad[p] == 16) == bool(increasing[p]):
+                tally.failed += 1
+                print(f"FAIL multi-point: pixel {p} flag {bad[p]}")
+        means = levels[:, good].mean(axis=1)
+        for k in range(n_levels):
+            tally.rel("multi-point level means vs np.mean", report.level_means[k], means[k])
+        seg = n_levels - 1
+        for p in good:
+            s_p = levels[:, p]
+            for n in rng.uniform(s_p[0] - 2_000.0, s_p[-1] + 2_000.0, 8):
+                k = 0
+                for j in range(1, seg):
+                    if n >= float(maps[(2 * seg + j - 1) * pixels + p]):
+                        k = j
+                gk, ok = float(maps[k * pixels + p]), float(maps[(seg + k) * pixels + p])
+                x = gk * n + ok
+                if s_p[0] <= n <= s_p[-1]:
+                    want = np.interp(n, s_p, means)
+                else:
+                    e = 0 if n < s_p[0] else seg - 1
+                    want = means[e] + (means[e + 1] - means[e]) * (n - s_p[e]) / (s_p[e + 1] - s_p[e])
+                scale = abs(gk * n) + abs(ok) + abs(want)
+                tally.ratio("multi-point corrected counts vs np.interp", abs(x - want) / scale)
+
+
 # ---- optics and materials ------------------------------------------------------------------
 
 
@@ -737,6 +835,7 @@ def main():
             tally.rel("verify uncertainty vs mpmath", got, mp.sqrt(var))
 
     optics_checks(lib, rng, tally)
+    multi_point_checks(lib, rng, tally)
 
     # Self-emission: effective exponent and net signal, 40 cases over LWIR and MWIR bands.
     for case in range(40):
