@@ -393,12 +393,17 @@ impl<'a> Band<'a> {
             }
             Some(response) => {
                 let (i, d, d2) = self.response_panels(t, response);
-                (
-                    i,
-                    d,
-                    d2,
-                    MIN_RESOLVED_TABULATED_INTEGRAL * self.response_max.max(1e-7),
-                )
+                let mut floor = MIN_RESOLVED_TABULATED_INTEGRAL * self.response_max.max(1e-7);
+                if i < floor {
+                    // The floor guards what the walk drops beyond x = X_INTEGRAND_ZERO: only
+                    // the response at wavelengths below c2/(X_INTEGRAND_ZERO T) can be
+                    // dropped, so only it sets the floor (a response rising to 1e284 at the
+                    // band's long end made an integral of 7 "unresolved" at 1000 K).
+                    let cut_um = C2_UMK / (X_INTEGRAND_ZERO * t);
+                    floor = MIN_RESOLVED_TABULATED_INTEGRAL
+                        * self.response_max_below(response, cut_um).max(1e-7);
+                }
+                (i, d, d2, floor)
             }
         };
         let scale = scale_or_overflow(self.detector, t)?;
@@ -596,6 +601,24 @@ impl<'a> Band<'a> {
             }
         }
         (sum, sum_derivative, sum_second)
+    }
+
+    /// The response's largest value over the part of the band below `cut_um` (its nodes
+    /// there and its values at the part's ends); 0 where the band lies wholly above.
+    fn response_max_below(&self, response: SpectralTable<'_>, cut_um: f64) -> f64 {
+        let upper_um = self.hi_um.min(cut_um);
+        if !(upper_um > self.lo_um) {
+            return 0.0;
+        }
+        let inner = response
+            .wavelengths_um
+            .iter()
+            .zip(response.values)
+            .filter(|&(&w, _)| w > self.lo_um && w < upper_um)
+            .fold(0.0, |max, (_, &v)| f64::max(max, v));
+        inner
+            .max(response.value_at(self.lo_um))
+            .max(response.value_at(upper_um))
     }
 
     /// Temperature whose band radiance equals `radiance`, K.

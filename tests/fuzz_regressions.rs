@@ -578,3 +578,43 @@ fn segment_from_the_smallest_doubles_has_a_finite_width() {
         assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
     }
 }
+
+/// A response rising to 1.4e284 at the band's long end (found by the CI fuzz run): the
+/// floor below which an integral counts as unresolved scaled with that value, although the
+/// quadrature only ever drops short wavelengths, so the band's radiance at 1000 K (an
+/// integral of 7) was an underflow and a 292 K target did not invert. The floor now scales
+/// with the response below c2/(710 T) only.
+#[test]
+fn a_huge_long_wave_response_does_not_set_the_floor() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        0.203_470_347_172_152_5,
+        0.544_813_985_485_332_3,
+        5.0,
+        12.483_203_129_989_94,
+        1.374_176_326_506_607_8e284,
+    ];
+    let r = [
+        0.280_903_334_096_284_43,
+        0.0,
+        0.192_187_380_788_891_44,
+        0.825_055_313_954_375_5,
+        1.373_813_285_269_186_4e284,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(
+        0.698_710_703_332_939_5,
+        1.373_813_285_269_186_4e284,
+        Detector::Energy,
+        table,
+    )
+    .unwrap();
+    let mut previous = 0.0;
+    for t in [100.0, 291.585_838_436_227_7, 1000.0, 1e4] {
+        let l = band.radiance(t).unwrap();
+        assert!(l > previous, "L({t}) = {l:e} after {previous:e}");
+        previous = l;
+        let back = band.temperature(l).unwrap();
+        assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
+    }
+}
