@@ -226,6 +226,9 @@ pub enum Error {
     VerifyNoPoints,
     /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
     VerifyCovarianceInvalid,
+    /// A coverage check over more than `verify::MAX_COVERAGE_POINTS` points (its scan is
+    /// quadratic in the point count; the limit bounds its time).
+    VerifyTooManyPoints,
     // ---- optics and materials ---------------------------------------------------------------
     /// A distance-to-spot ratio, IFOV, pixel pitch, focal length, f-number, wavelength or distance that is not positive.
     OpticsGeometryInvalid,
@@ -459,6 +462,9 @@ impl Error {
             Error::VerifyNoPoints => "verification needs at least one calibration point",
             Error::VerifyCovarianceInvalid => {
                 "covariance must be finite and symmetric with non-negative variances"
+            }
+            Error::VerifyTooManyPoints => {
+                "a coverage check accepts at most 1024 points (MAX_COVERAGE_POINTS)"
             }
             // optics and materials
             Error::OpticsGeometryInvalid => "optical geometry values must be positive",

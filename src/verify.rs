@@ -48,6 +48,10 @@ use crate::frame::{CountsMap, FrameTable};
 pub const MAX_SAMPLES: usize = 1_000_000;
 /// Most check points per table row in [`frame_table`].
 pub const MAX_POINTS_PER_ROW: usize = 4096;
+
+/// The most points [`coverage`] accepts: its scan is quadratic in the point count, and a
+/// calibration has tens of points.
+pub const MAX_COVERAGE_POINTS: usize = 1024;
 /// The sample count the command-line checker uses over a range (the crate's
 /// [`crate::calibration::BAND_CHECK_POINTS`]).
 pub const DEFAULT_SAMPLES: usize = 2001;
@@ -303,15 +307,20 @@ impl CoverageReport {
 /// (the size of the extrapolation, K), and the largest gap between neighbouring points
 /// inside the range (points outside the range count as its ends). Exact arithmetic on the
 /// inputs (differences of doubles). O(n^2) in the number of points without storage
-/// (calibrations have tens of points).
+/// (calibrations have tens of points), so at most [`MAX_COVERAGE_POINTS`] (about 4 ms on
+/// a desktop core at the limit).
 ///
 /// # Errors
 /// [`Error::VerifyRangeInvalid`], [`Error::VerifyNoPoints`] for no points,
+/// [`Error::VerifyTooManyPoints`] for more than [`MAX_COVERAGE_POINTS`],
 /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`].
 pub fn coverage(temperatures_k: &[f64], lo_k: f64, hi_k: f64) -> Result<CoverageReport> {
     check_range(lo_k, hi_k)?;
     if temperatures_k.is_empty() {
         return Err(Error::VerifyNoPoints);
+    }
+    if temperatures_k.len() > MAX_COVERAGE_POINTS {
+        return Err(Error::VerifyTooManyPoints);
     }
     let (mut t_min_k, mut t_max_k) = (f64::INFINITY, 0.0f64);
     let mut points_in_range = 0;
@@ -689,6 +698,20 @@ fn grid(lo_k: f64, hi_k: f64, i: usize, count: usize) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn coverage_point_limit() {
+        let mut t = [0.0; MAX_COVERAGE_POINTS + 1];
+        for (i, t_k) in t.iter_mut().enumerate() {
+            *t_k = 300.0 + i as f64;
+        }
+        let report = coverage(&t[..MAX_COVERAGE_POINTS], 250.0, 1200.0).unwrap();
+        assert_eq!(report.points, MAX_COVERAGE_POINTS);
+        // Points 1 K apart from 300 K: 50 K of extrapolation below, gaps of 1 K.
+        assert_eq!(report.extrapolated_below_k, 50.0);
+        assert_eq!(report.largest_gap_k, 1.0);
+        assert_eq!(coverage(&t, 250.0, 1200.0), Err(Error::VerifyTooManyPoints));
+    }
 
     #[test]
     fn grid_ends_are_exact() {

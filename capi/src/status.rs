@@ -223,6 +223,8 @@ pub enum bt_status {
     VerifyNoPoints = 1002,
     /// A parameter covariance with a non-finite entry, a negative variance or an asymmetry.
     VerifyCovarianceInvalid = 1003,
+    /// A coverage check over more than 1024 points (`bt_verify_coverage`).
+    VerifyTooManyPoints = 1004,
 
     // 900: optics and materials
     /// A distance-to-spot ratio, IFOV, pixel pitch, focal length, f-number, wavelength or distance that is not positive.
@@ -438,6 +440,7 @@ status_table!(
     VerifySampleCountInvalid,
     VerifyNoPoints,
     VerifyCovarianceInvalid,
+    VerifyTooManyPoints,
     OpticsGeometryInvalid,
     TargetSizeNotPositive,
     FractionOutOfRange,

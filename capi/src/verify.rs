@@ -471,10 +471,12 @@ pub unsafe extern "C" fn bt_verify_round_trip_band(
 
 /// Coverage of [lo_k, hi_k] by `n` >= 1 blackbody points at `t_k` (any order): the
 /// extrapolation below the coldest and above the hottest point, and the largest gap
-/// between neighbouring points inside the range, K. O(n^2) without storage.
+/// between neighbouring points inside the range, K. O(n^2) without storage, so n is at
+/// most 1024.
 ///
 /// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
-/// `BT_STATUS_VERIFY_NO_POINTS`, `BT_STATUS_NON_FINITE`,
+/// `BT_STATUS_VERIFY_NO_POINTS`, `BT_STATUS_VERIFY_TOO_MANY_POINTS` for n > 1024,
+/// `BT_STATUS_NON_FINITE`,
 /// `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_VERIFY_RANGE_INVALID`.
 ///
 /// # Safety

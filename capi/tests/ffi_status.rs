@@ -98,6 +98,7 @@ const PINNED: &[(bt_status, c_int)] = &[
     (bt_status::VerifySampleCountInvalid, 1001),
     (bt_status::VerifyNoPoints, 1002),
     (bt_status::VerifyCovarianceInvalid, 1003),
+    (bt_status::VerifyTooManyPoints, 1004),
     (bt_status::OpticsGeometryInvalid, 900),
     (bt_status::TargetSizeNotPositive, 901),
     (bt_status::FractionOutOfRange, 902),

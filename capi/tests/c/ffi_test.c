@@ -2495,6 +2495,16 @@ static void test_verify(void) {
           coverage.gap_hi_k == 480.0);
     EXPECT_REPORT(BT_STATUS_VERIFY_NO_POINTS, coverage,
                   bt_verify_coverage(NULL, 0, 290.0, 480.0, &coverage));
+    /* At most 1024 points: 1025 are refused. */
+    {
+        static double many_points[1025];
+        for (int i = 0; i < 1025; ++i) many_points[i] = 300.0 + i;
+        EXPECT_REPORT(BT_STATUS_OK, coverage,
+                      bt_verify_coverage(many_points, 1024, 290.0, 480.0, &coverage));
+        CHECK(coverage.points == 1024);
+        EXPECT_REPORT(BT_STATUS_VERIFY_TOO_MANY_POINTS, coverage,
+                      bt_verify_coverage(many_points, 1025, 290.0, 480.0, &coverage));
+    }
     EXPECT_REPORT(BT_STATUS_NULL_POINTER, coverage,
                   bt_verify_coverage(NULL, 4, 290.0, 480.0, &coverage));
     EXPECT_REPORT(BT_STATUS_VERIFY_RANGE_INVALID, coverage,
