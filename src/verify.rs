@@ -702,8 +702,10 @@ mod tests {
     #[test]
     fn coverage_point_limit() {
         let mut t = [0.0; MAX_COVERAGE_POINTS + 1];
-        for (i, t_k) in t.iter_mut().enumerate() {
-            *t_k = 300.0 + i as f64;
+        let mut next_k = 300.0;
+        for t_k in &mut t {
+            *t_k = next_k;
+            next_k += 1.0;
         }
         let report = coverage(&t[..MAX_COVERAGE_POINTS], 250.0, 1200.0).unwrap();
         assert_eq!(report.points, MAX_COVERAGE_POINTS);
