@@ -397,7 +397,7 @@ fn verify_seeds() {
         // Diagonal covariance (standard uncertainties 1e-3 scale).
         e.f64(1.0).f64(1.0).f64(1.0);
         if flags & 128 == 128 {
-            e.u8(50).u8(100).u8(128).len(3, 7);
+            e.u8(50).u8(100).u8(255).len(3, 7);
         }
         write("verify", name, &e);
     }

@@ -3,7 +3,7 @@
 //! against the band model, round trips of band and Sakuma-Hattori curves, the uncertainty
 //! of a calibration from a covariance of any content, and frame tables (built here, or
 //! with rows altered) against exact inversion. Counts stay small (at most 64 points or
-//! samples; tables of at most 256 rows and 256 samples) so that each call stays well
+//! samples; tables of at most 62 rows and 64 samples) so that each call stays well
 //! inside the per-call limit (`bt_verify_coverage` is O(n^2)).
 //!
 //! Oracles: errors leave the report untouched; a success is finite (every report field
@@ -305,9 +305,12 @@ fuzz_target!(|data: &[u8]| {
             bt_frame_table_rows_band(the_band.ptr(), t_lo, t_hi, tol_k, rows.ptr())
         }
     };
-    // Each sample of the check is one exact inversion of the curve (tens of us for a
-    // tabulated band): at most 256 rows and 256 samples keep the call near 20 ms.
-    if s != bt_status::Ok || rows.value > 256 {
+    // Each sample of the check is one exact inversion of the curve, and a tabulated band
+    // can cost 220 us per inversion (a photon table from 1e-9 um walks ~700 one-unit
+    // panels of c2/(lambda T) per evaluation: the tabulated quadrature's known cost, see
+    // `bandtemp_fuzz::band`). The check takes rows x points per row + 2 samples, so at
+    // most 62 rows and 64 samples keep the call near 15 ms.
+    if s != bt_status::Ok || rows.value > 62 {
         return;
     }
     let mut table = vec![
@@ -368,10 +371,10 @@ fuzz_target!(|data: &[u8]| {
         }
     }
     // Valid counts stay small (see above); the invalid ones are refused before any
-    // work (a valid 4096 per row over 256 rows is 1e6 exact inversions, a
+    // work (a valid 4096 per row over 62 rows is 2.5e5 exact inversions, a
     // cost the call documents as proportional to rows x points per row, not a defect).
     let points_per_row = if flags & 1024 == 0 {
-        (1 + d.len(7)).min((256 / table.len().max(1)).max(1))
+        (1 + d.len(7)).min((62 / table.len().max(1)).max(1))
     } else {
         [0, 4097, usize::MAX, 1_000_001 / table.len().max(1) + 4097][d.len(3)]
     };
