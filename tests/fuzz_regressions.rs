@@ -618,3 +618,97 @@ fn a_huge_long_wave_response_does_not_set_the_floor() {
         assert!((back - t).abs() <= 1e-9 * t, "T {t} -> {back}");
     }
 }
+
+/// Two-point maps from stacks whose means reach the end of the double range (found by the
+/// `raw_frame` fuzz target): one good pixel's low mean of -1.79e308 made the array mean
+/// -9e307, the gain (<S_H> - <S_L>) / (S_H - S_L) ~ 2e304 did not fit an f32, and
+/// `two_point` returned Ok with an infinite gain and offset written into the maps (which
+/// every conversion then refuses). Multi-point maps of the same two levels already
+/// refused; now both return `FrameCoefficientOverflow` and leave the maps untouched.
+#[test]
+fn two_point_maps_that_do_not_fit_an_f32_are_refused() {
+    use bandtemp::frame::{multi_point, two_point, StackStats};
+    let low = [7706.0, -1.79e308];
+    let high = [11889.0, 9857.0];
+    let m2 = [0.0, 0.0];
+    let lo = StackStats::new(&low, &m2, 1).unwrap();
+    let hi = StackStats::new(&high, &m2, 1).unwrap();
+    let (mut gain, mut offset) = ([7.0f32; 2], [7.0f32; 2]);
+    let r = two_point(&lo, &hi, None, &mut gain, &mut offset);
+    assert_eq!(r, Err(Error::FrameCoefficientOverflow));
+    assert_eq!(
+        (gain, offset),
+        ([7.0; 2], [7.0; 2]),
+        "maps written on error"
+    );
+    let mut bad = [0u8; 2];
+    let mut maps = [7.0f32; 4];
+    let r = multi_point(&[lo, hi], &mut bad, &mut maps);
+    assert_eq!(r.map(|_| ()), Err(Error::FrameCoefficientOverflow));
+    assert_eq!(maps, [7.0; 4]);
+}
+
+/// A shutter refresh to a target of 4.07e297 counts (found by the `raw_frame` fuzz
+/// target): the new offset (target - b) / a - G n_sh does not fit an f32, and
+/// `shutter_refresh` returned Ok with an infinite offset written at a good pixel (a NaN
+/// gain wrote NaN the same way). Now `FrameCoefficientOverflow`, offsets untouched.
+#[test]
+fn shutter_refresh_offsets_that_do_not_fit_an_f32_are_refused() {
+    use bandtemp::frame::{shutter_refresh, DriftStep, StackStats};
+    let mean = [1150.0, 1200.0];
+    let m2 = [0.0, 0.0];
+    let shutter = StackStats::new(&mean, &m2, 1).unwrap();
+    let mut offset = [7.0f32; 2];
+    let r = shutter_refresh(
+        &shutter,
+        &[1.0, 1.0],
+        None,
+        4.066_459_222_251_246e297,
+        DriftStep::IDENTITY,
+        &mut offset,
+    );
+    assert_eq!(r, Err(Error::FrameCoefficientOverflow));
+    assert_eq!(offset, [7.0; 2]);
+    let r = shutter_refresh(
+        &shutter,
+        &[1.0, f32::NAN],
+        None,
+        3000.0,
+        DriftStep::IDENTITY,
+        &mut offset,
+    );
+    assert_eq!(r, Err(Error::FrameCoefficientOverflow));
+    assert_eq!(offset, [7.0; 2]);
+    // A bad pixel's gain is not read: the refresh succeeds and leaves its offset alone.
+    let r = shutter_refresh(
+        &shutter,
+        &[1.0, f32::NAN],
+        Some(&[0, 1]),
+        3000.0,
+        DriftStep::IDENTITY,
+        &mut offset,
+    );
+    assert_eq!(r, Ok(()));
+    assert_eq!(offset, [1850.0, 7.0]);
+}
+
+/// Spatial statistics of a stack whose stored sums of squared deviations were altered to
+/// a negative value (found by the `raw_frame` fuzz target): the temporal variance came
+/// out Ok at -4e302 counts^2. A stack's m2 is never negative, and the stack update
+/// already refuses one; now `spatial_stats` does too, at good pixels.
+#[test]
+fn spatial_stats_of_a_negative_stored_m2_is_refused() {
+    use bandtemp::frame::{spatial_stats, StackStats};
+    let mean = [4800.0, 4810.0, 4830.0];
+    let m2 = [4.0, -1.99e303, 9.0];
+    let stack = StackStats::new(&mean, &m2, 5).unwrap();
+    assert_eq!(
+        spatial_stats(&stack, None, None),
+        Err(Error::MeritInputInvalid)
+    );
+    // Flagged bad, the pixel is not read.
+    let s = spatial_stats(&stack, Some(&[0, 1, 0]), None).unwrap();
+    assert!(s.temporal_variance >= 0.0, "{s:?}");
+    // (4 + 9) / 4 frames-1 / 2 pixels, exact in binary.
+    assert_eq!(s.temporal_variance, 1.625);
+}

@@ -371,8 +371,10 @@ pub unsafe extern "C" fn bt_frame_stack_add_signal(
 /// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
 /// `BT_STATUS_NUC_STACK_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`,
 /// `BT_STATUS_NUC_NO_GOOD_PIXELS`, `BT_STATUS_NUC_LEVELS_NOT_DISTINCT` (a good pixel
-/// does not respond: flag it bad first), `BT_STATUS_NON_FINITE`. On error nothing is
-/// written.
+/// does not respond: flag it bad first; also array means that tie after rounding),
+/// `BT_STATUS_NON_FINITE`, `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's gain
+/// or offset does not fit a float as a finite value, or the gain rounds to 0). On error
+/// nothing is written.
 ///
 /// # Safety
 /// `low`, `high` null or valid views; `bad` null or valid for reading `bad_len` bytes;
@@ -499,8 +501,9 @@ unsafe fn read_step(step: *const bt_drift_step) -> Result<DriftStep> {
 ///
 /// Errors: `BT_STATUS_NULL_POINTER`, `BT_STATUS_INVALID_BUFFER`,
 /// `BT_STATUS_NUC_STACK_EMPTY`, `BT_STATUS_FRAME_LENGTH_MISMATCH`, `BT_STATUS_NON_FINITE`,
-/// `BT_STATUS_NUC_MAP_INVALID` (a step with a <= 0 or non-finite). On error `offset` is
-/// untouched.
+/// `BT_STATUS_NUC_MAP_INVALID` (a step with a <= 0 or non-finite),
+/// `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's new offset is not a finite
+/// float). On error `offset` is untouched.
 ///
 /// # Safety
 /// `shutter` null or a valid view; `gain` null or valid for reading `maps_len` floats;
@@ -831,7 +834,7 @@ pub unsafe extern "C" fn bt_frame_convert_counts_corrected(
 /// Errors: `BT_STATUS_NULL_POINTER` (one map given without the other),
 /// `BT_STATUS_INVALID_BUFFER`, `BT_STATUS_NUC_STACK_EMPTY` (fewer than two frames),
 /// `BT_STATUS_FRAME_LENGTH_MISMATCH`, `BT_STATUS_MERIT_INPUT_INVALID` (fewer than two
-/// good pixels), `BT_STATUS_NON_FINITE`.
+/// good pixels, or a negative stored m2 at a good pixel), `BT_STATUS_NON_FINITE`.
 ///
 /// # Safety
 /// `stack` null or a valid view; `bad` null or valid for reading `len` bytes; `gain`,
@@ -1108,8 +1111,8 @@ pub unsafe extern "C" fn bt_nuc_multi_point_map_len(
 /// `BT_STATUS_NUC_LEVELS_NOT_INCREASING` (at least half of the pixels not already flagged
 /// have levels that do not increase: levels out of order or two at one radiance),
 /// `BT_STATUS_NUC_NO_GOOD_PIXELS` (every pixel flagged beforehand),
-/// `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's map does not fit a float). On
-/// error nothing is written.
+/// `BT_STATUS_FRAME_COEFFICIENT_OVERFLOW` (a good pixel's map does not fit a float, or a
+/// gain rounds to 0). On error nothing is written.
 ///
 /// # Safety
 /// `levels` null or valid for reading `n_levels` views, each valid; `bad` null or valid

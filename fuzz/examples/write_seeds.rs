@@ -317,4 +317,88 @@ fn main() {
     }
     e.f64(0.6).f64(3.0).f64(1.0).f64(0.5).f64(0.12).u8(2);
     write("monte_carlo", "pieces", &e);
+
+    raw_frame_seeds();
+    verify_seeds();
+}
+
+/// raw_frame: small arrays (4x3, 8x8, 16x16) of plausible pixels, two to four physical
+/// levels of two or three frames each, clean or partly flagged bad-pixel maps, with bad-
+/// pixel detection and the fused conversions switched on (the 8-14 um band or a
+/// Sakuma-Hattori curve, an invented 8-14 um camera).
+fn raw_frame_seeds() {
+    // (name, flags, width, height, levels, frames per level, bad-map mode)
+    let cases: [(&str, u32, usize, usize, usize, u8, u8); 5] = [
+        ("two-point-4x3", 1 | 4096, 4, 3, 2, 2, 1),
+        ("multi-point-8x8", 1 | 4096 | 32, 8, 8, 4, 3, 1),
+        ("flagged-16x16", 1 | 4096, 16, 16, 3, 2, 2),
+        ("sakuma-hattori-8x8", 4096 | 256 | 32768, 8, 8, 2, 2, 1),
+        ("no-bad-map-4x3", 0, 4, 3, 2, 3, 0),
+    ];
+    for (name, flags, w, h, levels, frames, bad_mode) in cases {
+        let n = w * h;
+        let mut e = Enc::new();
+        e.u32(flags)
+            .len(w - 1, 15)
+            .len(h - 1, 15)
+            .len(levels - 2, 3);
+        for p in 0..n {
+            // Response spread +-10 %, offsets 100..900 counts (invented).
+            e.u8(u8::try_from(96 + (p * 37) % 64).unwrap_or(128));
+        }
+        for p in 0..n {
+            e.u8(u8::try_from((p * 53) % 100).unwrap_or(0));
+        }
+        for k in 0..levels {
+            e.u8(0).u8(frames - 1).u8(u8::try_from(10 * k).unwrap_or(0));
+            for f in 0..usize::from(frames) {
+                for p in 0..n {
+                    e.u8(u8::try_from((p * 7 + f * 3 + k) % 16).unwrap_or(0));
+                }
+            }
+        }
+        e.u8(bad_mode);
+        if bad_mode == 2 {
+            for p in 0..n {
+                e.u8(if p % 29 == 5 { 200 } else { 0 });
+            }
+        }
+        if flags & 1 == 1 {
+            // Rules 5 sigma, noise factor 3, stuck fraction 0.2 (common practice).
+            e.u8(128).u8(64).u8(102);
+        }
+        write("raw_frame", name, &e);
+    }
+}
+
+/// verify: calibration points and ranges of the test suite's kind (invented values), an
+/// 8-14 um Sakuma-Hattori curve, and frame tables built over the 8-14 um band and the
+/// curve.
+fn verify_seeds() {
+    let cases: [(&str, u16, &[f64]); 4] = [
+        ("points-300-600", 0, &[300.0, 350.0, 400.0, 500.0, 600.0]),
+        ("points-outside", 1, &[250.0, 273.15, 320.0, 900.0, 1200.0]),
+        ("table-band", 128, &[300.0, 400.0]),
+        ("table-sakuma-hattori", 128 | 256, &[310.0, 350.0, 390.0]),
+    ];
+    for (name, flags, points) in cases {
+        let mut e = Enc::new();
+        e.u16(flags).len(points.len(), 64);
+        for &t in points {
+            e.f64(t);
+        }
+        if flags & 1 == 0 {
+            e.u8(20).u8(40);
+        } else {
+            e.f64(300.0).f64(1000.0);
+        }
+        // Curve a = 10 um, b = 0 um K, c = 1e4.6 (invented), 16 samples.
+        e.u8(128).u8(128).u8(128).len(16, 64);
+        // Diagonal covariance (standard uncertainties 1e-3 scale).
+        e.f64(1.0).f64(1.0).f64(1.0);
+        if flags & 128 == 128 {
+            e.u8(50).u8(100).u8(255).len(3, 7);
+        }
+        write("verify", name, &e);
+    }
 }

@@ -479,6 +479,21 @@ unsafe impl Plain for bandtemp_capi::bt_frame_summary {}
 unsafe impl Plain for bandtemp_capi::bt_frame_row {}
 unsafe impl Plain for bandtemp_capi::bt_budget {}
 unsafe impl Plain for bandtemp_capi::bt_contribution {}
+unsafe impl Plain for u8 {}
+unsafe impl Plain for u32 {}
+unsafe impl Plain for bandtemp_capi::bt_two_point_report {}
+unsafe impl Plain for bandtemp_capi::bt_bad_pixel_report {}
+unsafe impl Plain for bandtemp_capi::bt_multi_point_report {}
+unsafe impl Plain for bandtemp_capi::bt_spatial_stats {}
+unsafe impl Plain for bandtemp_capi::bt_corrected_summary {}
+unsafe impl Plain for bandtemp_capi::bt_drift_model {}
+unsafe impl Plain for bandtemp_capi::bt_drift_step {}
+unsafe impl Plain for bandtemp_capi::bt_verify_residuals_report {}
+unsafe impl Plain for bandtemp_capi::bt_verify_curve_report {}
+unsafe impl Plain for bandtemp_capi::bt_verify_round_trip_report {}
+unsafe impl Plain for bandtemp_capi::bt_verify_coverage_report {}
+unsafe impl Plain for bandtemp_capi::bt_verify_table_report {}
+unsafe impl Plain for bandtemp_capi::bt_verify_uncertainty_report {}
 
 /// An out value filled with a poison byte pattern before a call, to check afterwards that
 /// an error left it untouched.

@@ -47,7 +47,8 @@ pub struct SpatialStats {
 ///
 /// # Errors
 /// [`Error::NucStackEmpty`] for fewer than two frames, [`Error::FrameLengthMismatch`],
-/// [`Error::MeritInputInvalid`] for fewer than two good pixels, [`Error::NonFinite`].
+/// [`Error::MeritInputInvalid`] for fewer than two good pixels or a negative stored sum of
+/// squared deviations at a good pixel, [`Error::NonFinite`].
 pub fn spatial_stats(
     stack: &StackStats<'_>,
     bad: Option<&[u8]>,
@@ -61,6 +62,17 @@ pub fn spatial_stats(
     }
     if stack.frames < 2 {
         return Err(Error::NucStackEmpty);
+    }
+    // A stored sum of squared deviations below 0 at a good pixel is not a stack's (the
+    // stack update refuses it the same way): it would give a negative temporal variance.
+    let good = |p: usize| bad.and_then(|b| b.get(p)).is_none_or(|&f| f == 0);
+    if stack
+        .m2
+        .iter()
+        .enumerate()
+        .any(|(p, &m2)| good(p) && m2 < 0.0)
+    {
+        return Err(Error::MeritInputInvalid);
     }
     let frames = f64::from(stack.frames);
     let pixel = |p: usize| -> Option<(f64, f64)> {

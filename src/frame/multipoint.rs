@@ -106,8 +106,8 @@ pub struct MultiPointReport {
 /// the good pixels tie after rounding;
 /// [`Error::NucNoGoodPixels`] if every pixel was flagged bad beforehand;
 /// [`Error::FrameCoefficientOverflow`] if a good pixel's map does not fit an f32 (a
-/// response far below an f32's range). On error `bad` and `maps` are
-/// untouched.
+/// response far below an f32's range, or a gain that rounds to 0). On error `bad` and
+/// `maps` are untouched.
 pub fn multi_point(
     levels: &[StackStats<'_>],
     bad: &mut [u8],
@@ -181,7 +181,7 @@ pub fn multi_point(
             for k in 0..n - 1 {
                 let (g, o, b) = segment_map(&level_means, value(k, p), value(k + 1, p), k);
                 let fits = |v: f32| v.is_finite();
-                if !(fits(g) && fits(o) && fits(super::to_f32(value(k, p))) && fits(b)) {
+                if !(fits(g) && g > 0.0 && fits(o) && fits(super::to_f32(value(k, p))) && fits(b)) {
                     return Err(Error::FrameCoefficientOverflow);
                 }
             }

@@ -241,8 +241,11 @@ pub struct TwoPointReport {
 /// # Errors
 /// [`Error::FrameLengthMismatch`] unless every buffer has the stacks' length;
 /// [`Error::NucNoGoodPixels`]; [`Error::NucLevelsNotDistinct`] if a good pixel's high
-/// mean is not above its low mean (flag it bad first: [`crate::frame::detect_bad_pixels`]);
-/// [`Error::NonFinite`]. On error the maps are untouched.
+/// mean is not above its low mean (flag it bad first: [`crate::frame::detect_bad_pixels`])
+/// or the array means tie after rounding; [`Error::NonFinite`] (also for array means that
+/// overflow); [`Error::FrameCoefficientOverflow`] if a good pixel's gain or offset does
+/// not fit an f32 as a finite value (the gain also nonzero). On error the maps are
+/// untouched.
 pub fn two_point(
     low: &StackStats<'_>,
     high: &StackStats<'_>,
@@ -280,6 +283,26 @@ pub fn two_point(
     #[allow(clippy::cast_precision_loss)]
     let count = good as f64;
     let (mean_low, mean_high) = (sum_low / count, sum_high / count);
+    if !(mean_low.is_finite() && mean_high.is_finite()) {
+        return Err(Error::NonFinite);
+    }
+    // Every good pixel's h > l, so the sums keep that order, but rounding can tie them;
+    // a tie would give every pixel a gain of 0.
+    if !(mean_high > mean_low) {
+        return Err(Error::NucLevelsNotDistinct);
+    }
+    // Every good pixel's maps must fit an f32 before anything is written (a mean of
+    // -9e307 or a response of 1e-300 counts per level would give an infinite gain or
+    // offset, or a gain that rounds to 0).
+    for (p, (&l, &h)) in low.mean.iter().zip(high.mean).enumerate() {
+        if is_good(p) {
+            let gp = (mean_high - mean_low) / (h - l);
+            let (g, o) = (super::to_f32(gp), super::to_f32(mean_low - gp * l));
+            if !(g.is_finite() && g > 0.0 && o.is_finite()) {
+                return Err(Error::FrameCoefficientOverflow);
+            }
+        }
+    }
     for (p, ((g, o), (&l, &h))) in gain
         .iter_mut()
         .zip(offset.iter_mut())
@@ -318,7 +341,9 @@ pub fn two_point(
 /// # Errors
 /// [`Error::FrameLengthMismatch`]; [`Error::NonFinite`] for a non-finite target or a
 /// non-finite shutter mean at a good pixel; [`Error::NucMapInvalid`] for an invalid drift
-/// step. On error `offset` is untouched.
+/// step; [`Error::FrameCoefficientOverflow`] if a good pixel's new offset is not a finite
+/// f32 (a target or a gain out of an f32's range, a gain that is not finite). On error
+/// `offset` is untouched.
 pub fn shutter_refresh(
     shutter: &StackStats<'_>,
     gain: &[f32],
@@ -340,9 +365,20 @@ pub fn shutter_refresh(
         return Err(Error::NonFinite);
     }
     let base = (target_counts - f64::from(step.b)) / f64::from(step.a);
+    let new_offset = |g: f32, m: f64| super::to_f32(base - f64::from(g) * m);
+    // Every good pixel's new offset must fit an f32 before anything is written (a target
+    // of 4e297 counts, or a gain that is not finite, would write inf or NaN).
+    let fits = gain
+        .iter()
+        .zip(shutter.mean)
+        .enumerate()
+        .all(|(p, (&g, &m))| !is_good(p) || new_offset(g, m).is_finite());
+    if !fits {
+        return Err(Error::FrameCoefficientOverflow);
+    }
     for (p, ((o, &g), &m)) in offset.iter_mut().zip(gain).zip(shutter.mean).enumerate() {
         if is_good(p) {
-            *o = super::to_f32(base - f64::from(g) * m);
+            *o = new_offset(g, m);
         }
     }
     Ok(())
