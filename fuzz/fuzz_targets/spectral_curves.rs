@@ -172,11 +172,15 @@ fn curve(d: &mut Dec<'_>) -> RawCurve {
     }
 }
 
-/// dS_c/dT of the curve at T, closed form: with x = c2/(A T + B),
-/// S_c = C/(e^x - 1) (Planck) or C e^-x (Wien), dS_c/dT = S_c x A/(A T + B) times
-/// e^x/(e^x - 1) (Planck) or 1 (Wien).
-fn curve_slope(c: &RawCurve, t: f64) -> f64 {
-    let den = c.a_um * t + c.b_umk;
+/// S_c and its logarithmic slope g = d ln S_c / d ln T at T, closed form: with
+/// x = c2/(A T + B), S_c = C/(e^x - 1) (Planck) or C e^-x (Wien), and
+/// g = x (A T/(A T + B)) times e^x/(e^x - 1) (Planck) or 1 (Wien). A change dS of the
+/// signal moves T by T dS / (S_c g). Kept in this form because dS_c/dT itself overflows
+/// for extreme curves (A = 1e308 at T = 1e-300 gives 1e334 per K, which as infinity made
+/// the tolerance 0).
+fn curve_log_slope(c: &RawCurve, t: f64) -> (f64, f64) {
+    let at = c.a_um * t;
+    let den = at + c.b_umk;
     let x = C2_UMK / den;
     let sc = if c.form == 0 {
         c.c / x.exp_m1()
@@ -188,7 +192,7 @@ fn curve_slope(c: &RawCurve, t: f64) -> f64 {
     } else {
         1.0
     };
-    sc * x * c.a_um / den * factor
+    (sc, x * (at / den) * factor)
 }
 
 fn curves(d: &mut Dec<'_>) {
@@ -225,10 +229,10 @@ fn curves(d: &mut Dec<'_>) {
             // inverse's S - offset exposes: 8 eps (|S| + |offset|) / (dS_c/dT) in T. The
             // inverse's c2/ln(..) - B loses 8 ulp of |A T| + |B|, divided by A; and the
             // result itself rounds to 8 ulp of T.
-            let slope = curve_slope(&cv, t);
+            let (sc, g) = curve_log_slope(&cv, t);
             let tol = 8.0 * eps * t
                 + 8.0 * eps * (cv.a_um * t).abs().max(cv.b_umk.abs()) * 2.0 / cv.a_um.abs()
-                + nan_to_inf(8.0 * eps * (s.abs() + cv.offset.abs()) / slope);
+                + nan_to_inf(t * (8.0 * eps * (s.abs() + cv.offset.abs()) / sc) / g);
             let err = (back - t).abs();
             oracle(back.is_finite() && err <= tol, || {
                 format!(
@@ -262,10 +266,12 @@ fn curves(d: &mut Dec<'_>) {
             // plus S's 1e-12 relative error (the weighted sum of five curve values and the
             // subtraction of the background; the offset enters S once and is subtracted
             // again, so |S| + |offset| is the magnitude that error scales with) over the
-            // object term's slope G dS_c/dT, G = tw ta e.
+            // object term's slope G dS_c/dT = G S_c g_l / T, G = tw ta e, g_l the
+            // logarithmic slope (see `curve_log_slope`).
             let g = sc.window_transmittance * sc.atm_transmittance * sc.emissivity;
-            let slope = curve_slope(&cv, t);
-            let tol = 1e-9 * t + nan_to_inf(1e-12 * (s.abs() + cv.offset.abs()) / (g * slope));
+            let (sc, gl) = curve_log_slope(&cv, t);
+            let tol =
+                1e-9 * t + nan_to_inf(t * (1e-12 * (s.abs() + cv.offset.abs()) / (g * sc)) / gl);
             let err = (back - t).abs();
             oracle(err <= tol, || {
                 format!(
