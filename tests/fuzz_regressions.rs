@@ -824,3 +824,19 @@ fn wien_ratio_with_subnormal_emissivity_ratio_round_trips() {
     let back = m.temperature(r, kappa).unwrap();
     assert!((back - t).abs() <= 1e-12 * t, "{t} -> {back}");
 }
+
+/// A band one ulp wide at 1 um (0.9999999999999999-1 um) in a spectral scene: the
+/// weighted quadrature took each segment's width in x as the difference of its two x
+/// values, which are one ulp apart, so its integral came out a factor 2.3 off at 522 K and
+/// 0 at 720 K, and the spectral round trip missed T by 3.2 uK at 522 K. The width now
+/// comes from the wavelengths. Reference: the band's own radiance (its rectangular path,
+/// checked against the reference vectors of `tests/data`), to 1e-13 relative.
+#[test]
+fn one_ulp_wide_band_in_the_weighted_quadrature() {
+    let b = Band::rectangular(0.999_999_999_999_999_9, 1.0, Detector::Energy).unwrap();
+    for t in [267.75, 316.33, 522.103_999_004_713_7, 720.12, 3000.0] {
+        let l = b.radiance(t).unwrap();
+        let (w, _) = b.weighted_radiance_and_derivative(t, &[], |_| 1.0).unwrap();
+        assert!((w - l).abs() <= 1e-13 * l, "T {t}: {w:e} vs {l:e}");
+    }
+}
