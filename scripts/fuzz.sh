@@ -21,7 +21,8 @@
 set -euo pipefail
 cd "$(dirname "$0")/../fuzz"
 
-ALL_TARGETS="planck_band scene calibration frame ratio air budget monte_carlo raw_frame verify"
+ALL_TARGETS="planck_band scene calibration frame ratio air budget monte_carlo raw_frame verify
+    optics_materials spectral_curves"
 TARGETS="${TARGETS:-$ALL_TARGETS}"
 TOOLCHAIN="${BT_FUZZ_TOOLCHAIN:-+nightly}"
 TRIPLE="$(rustc -vV | sed -n 's/^host: //p')"

@@ -712,3 +712,225 @@ fn spatial_stats_of_a_negative_stored_m2_is_refused() {
     // (4 + 9) / 4 frames-1 / 2 pixels, exact in binary.
     assert_eq!(s.temporal_variance, 1.625);
 }
+
+/// Normal emissivity of a dielectric with n = 1 + eps, k = 0: 4n / ((n + 1)^2 + k^2) came
+/// out 1 + 2 eps (n + 1 rounds down to 2, the quotient is then n), an emissivity above 1.
+/// The exact value is 1 - (eps / (2 + eps))^2, within 1e-32 of 1, so the correctly rounded
+/// result is 1.0 (closed form, evaluated by hand). Near n = 1 every value must stay in
+/// [0, 1]; n = 2 gives 8/9 (closed form).
+#[test]
+fn normal_emissivity_near_index_one_is_not_above_one() {
+    use bandtemp::emissivity::OpticalConstants;
+    let eps = f64::EPSILON;
+    let m = OpticalConstants::new(1.0 + eps, 0.0).unwrap();
+    assert_eq!(m.normal(), 1.0);
+    for n in [
+        1.0 - eps / 2.0,
+        1.0,
+        1.0 + eps,
+        1.0 + 2.0 * eps,
+        1.0 + 3.0 * eps,
+        1.5,
+    ] {
+        for k in [0.0, 1e-300, 1e-9, 0.5] {
+            let e = OpticalConstants::new(n, k).unwrap().normal();
+            assert!((0.0..=1.0).contains(&e), "n {n:e} k {k:e}: e {e:e}");
+            let d = OpticalConstants::new(n, k)
+                .unwrap()
+                .directional(0.0)
+                .unwrap();
+            assert!(d.unpolarised <= 1.0, "n {n:e} k {k:e}: {d:?}");
+        }
+    }
+    let e2 = OpticalConstants::new(2.0, 0.0).unwrap().normal();
+    assert!((e2 - 8.0 / 9.0).abs() <= 2.0 * eps, "{e2:e}");
+}
+
+/// Airy encircled energy at a radius far inside the core (v = pi r / (lambda N) near
+/// 1e-23): 1 - J0^2 - J1^2 cancelled to -v^2/4 = -2.3e-47, a negative fraction. Now the
+/// small-v series; reference values are mpmath (`1 - besselj(0,v)**2 - besselj(1,v)**2`
+/// at 120 digits, which the cancellation at v = 1e-23 needs; v from the f64 radius, wavelength 0.1 um and f-number 300), checked to
+/// 1e-13 relative on both sides of the switch at v = 1/4.
+#[test]
+fn airy_encircled_energy_at_tiny_radius_is_not_negative() {
+    use bandtemp::optics::diffraction::airy_encircled_energy;
+    let cases = [
+        (9.249_643_008_374_909e-23, 2.345_563_459_869_190_5e-47),
+        (0.000_954_929_658_551_372_2, 2.499_999_996_875_000_6e-9),
+        (0.954_929_658_551_372_1, 0.002_496_877_169_189_738_4),
+        (2.386_369_216_719_879, 0.015_491_154_490_220_808),
+        (2.388_279_076_036_981_4, 0.015_515_766_399_041_021),
+    ];
+    for (r, want) in cases {
+        let ee = airy_encircled_energy(r, 0.1, 300.0).unwrap();
+        assert!(
+            (ee - want).abs() <= 1e-13 * want,
+            "r {r:e}: {ee:e} vs mpmath {want:e}"
+        );
+    }
+    for r in [0.0, 5e-324, 1e-300, 1e-160, 1e-12] {
+        let ee = airy_encircled_energy(r, 0.1, 300.0).unwrap();
+        assert!((0.0..1.0).contains(&ee), "r {r:e}: {ee:e}");
+    }
+}
+
+/// Grey-temperature correction of the Wien ratio model with a subnormal grey temperature:
+/// 1/T_grey overflows to infinity and 1/inf = 0 came back as a temperature of 0 K. It is
+/// now `RatioOutOfRange` (the model and kappa of the fuzz input).
+#[test]
+fn wien_grey_correction_never_returns_zero_kelvin() {
+    use bandtemp::ratio::WienRatio;
+    let m = WienRatio::new(
+        0.207_984_498_837_927_94,
+        1.797_693_134_862_315_7e308,
+        2.2e-308,
+    )
+    .unwrap();
+    assert_eq!(
+        m.correct_grey(3.2284e-319, 10.0),
+        Err(Error::RatioOutOfRange)
+    );
+    let t = m.correct_grey(1000.0, 10.0).unwrap();
+    assert!(t.is_finite() && t > 0.0 && t < 1000.0, "{t:e}");
+}
+
+/// Footprint with an IFOV of 1e308 mrad: tan of a huge half-angle gave a negative
+/// footprint (-62.9 m at 14 m). An IFOV at or beyond pi rad has no footprint: now
+/// `OpticsGeometryInvalid`, also through the pixel rules of the target check. A physical
+/// IFOV still gives 2 D tan(IFOV/2) (here against the small-angle value D x IFOV, whose
+/// relative error is IFOV^2/12 = 4e-8 at 0.68 mrad: closed form).
+#[test]
+fn footprint_beyond_half_a_turn_is_an_error() {
+    use bandtemp::optics::{check_target, footprint_m, TargetRule};
+    for ifov in [1e308, 1000.0 * core::f64::consts::PI, 4000.0] {
+        assert_eq!(
+            footprint_m(14.0, ifov),
+            Err(Error::OpticsGeometryInvalid),
+            "{ifov:e}"
+        );
+        assert_eq!(
+            check_target(TargetRule::ThreeByThree, 0.1, 14.0, ifov).map(|c| c.minimum_m),
+            Err(Error::OpticsGeometryInvalid)
+        );
+    }
+    let f = footprint_m(10.0, 0.68).unwrap();
+    assert!((f - 0.0068).abs() <= 1e-7 * 0.0068, "{f:e}");
+    assert!(footprint_m(10.0, 3000.0).unwrap() > 0.0);
+}
+
+/// Limit and mean effective wavelengths of a photon band reaching 2.2e-308 um at
+/// T = 1.1e74 K: T^2 dL/dT overflowed and the limit wavelength came out 0 um (the mean
+/// one, whose S(T2)/S(T1) and T1 T2 could overflow alike, is checked in the same regime). At such temperatures the band holds the
+/// whole photon spectrum (the peak sits near 3670/T um, between the edges, and the tails
+/// outside are below 1e-100 of the total), so L is the total photon radiance,
+/// proportional to T^3 (the photon form of the Stefan-Boltzmann law): d ln L/dT = 3/T and
+/// lambda_T = c2/(3T), lambda_12 = c2 (1/T1 - 1/T2) / (3 ln(T2/T1)) (closed forms); now
+/// computed without intermediate overflow, to 1e-9 relative.
+#[test]
+fn effective_wavelengths_at_extreme_temperatures_do_not_collapse_to_zero() {
+    use bandtemp::calibration::{limit_effective_wavelength_um, mean_effective_wavelength_um};
+    use bandtemp::constants::C2_UMK;
+    let b = Band::rectangular(2.2e-308, 0.203_812_885_050_018_27, Detector::Photon).unwrap();
+    let t = 1.106_392_703_152_205_5e74;
+    let l = limit_effective_wavelength_um(&b, t).unwrap();
+    let want_l = C2_UMK / (3.0 * t);
+    assert!((l - want_l).abs() <= 1e-9 * want_l, "{l:e} vs {want_l:e}");
+    let (t1, t2) = (1e30, 1e70);
+    let want = C2_UMK * (1.0 / t1 - 1.0 / t2) / (3.0 * (t2 / t1).ln());
+    let m = mean_effective_wavelength_um(&b, t1, t2).unwrap();
+    assert!(
+        m > 0.0 && (m - want).abs() <= 1e-9 * want,
+        "{m:e} vs {want:e}"
+    );
+}
+
+/// Small-target fraction with a 300 um pitch at 5 um, F/1 (pitch 60 lambda N): the
+/// quadrature's work bound let it through at 7564 panel pairs (66 ms, over the C ABI's
+/// 50 ms per-call budget; the bound allowed up to 0.57 s). The bound now stops it with
+/// `OpticsGeometryInvalid`; pitch and image radius of 30 lambda N still evaluate, to a
+/// fraction in (0, 1].
+#[test]
+fn small_target_fraction_work_bound_fits_the_call_budget() {
+    use bandtemp::optics::diffraction::small_target_fraction;
+    assert_eq!(
+        small_target_fraction(1e-30, 300.0, 5.0, 0.999_999_999_999_999_9),
+        Err(Error::OpticsGeometryInvalid)
+    );
+    let f = small_target_fraction(300.0, 150.0, 5.0, 1.0).unwrap();
+    assert!(f > 0.0 && f <= 1.0, "{f:e}");
+}
+
+/// Spectral-scene sensor radiance of a 1e-9..0.1 um band with everything at 0.1 K: every
+/// term underflows and S = 0 came back as a success (then no temperature inverts it).
+/// Now `RadianceUnderflow`, as the grey scene's sensor signal does.
+#[test]
+fn spectral_sensor_signal_that_underflows_is_an_error() {
+    use bandtemp::scene::{Scene, SpectralScene};
+    let band = Band::rectangular(1e-9, 0.1, Detector::Energy).unwrap();
+    let scene = Scene::new(0.1, 1.0)
+        .unwrap()
+        .with_atmosphere(0.880_430_304_417_486_8, 0.1)
+        .unwrap()
+        .with_window(0.1, 0.1, 0.1, 0.1)
+        .unwrap();
+    let s = SpectralScene::new(band, scene).unwrap();
+    assert_eq!(s.sensor_signal(0.1), Err(Error::RadianceUnderflow));
+}
+
+/// Grey multi-wavelength fit on two wide bands (0.2-273 um energy, 1e-310-4.1 um photon)
+/// whose signals no temperature and emissivity explain: the fit ran all 60 Gauss-Newton
+/// iterations of (terms + 1) weighted band integrals each, 82 ms, before reporting
+/// non-convergence. The iteration bound is now 20 (a converging fit needs under 10); the
+/// outcome is the same named error.
+#[test]
+fn multiwavelength_fit_that_does_not_converge_stops_early() {
+    use bandtemp::multiwavelength::{fit, EmissivityModel, MAX_ITERATIONS};
+    const { assert!(MAX_ITERATIONS <= 20) };
+    let b1 = Band::rectangular(0.201_519_600_280_823_4, 273.15, Detector::Energy).unwrap();
+    let b2 = Band::rectangular(1e-310, 4.088_517_769_776_175, Detector::Photon).unwrap();
+    let r = fit(
+        &[b1, b2],
+        &[138_204.125_425_720_82, 3.810_281_458_474_072e24],
+        EmissivityModel::GREY,
+    );
+    assert_eq!(
+        r.map(|f| f.iterations),
+        Err(Error::MultiwavelengthNotConverged)
+    );
+}
+
+/// Wien-model signal ratio with a subnormal emissivity ratio (1.14e-314) and W = 0.001:
+/// kappa W = 1.1e-317 kept only a few significant bits, so R (itself normal, 1.4e-294)
+/// was 3e-8 off and the temperature back from it 9 uK off at 330 K. R now comes from
+/// logarithms when kappa W is not normal: the round trip holds to 1e-12 relative, and
+/// ln R agrees with the model's closed form ln kappa + ln W - c2/(lambda_R T) to 1e-13
+/// relative (the documented accuracy of that path).
+#[test]
+fn wien_ratio_with_subnormal_emissivity_ratio_round_trips() {
+    use bandtemp::constants::C2_UMK;
+    use bandtemp::ratio::WienRatio;
+    let m = WienRatio::new(1.369_728_300_331_119, 0.5, 0.001).unwrap();
+    let kappa = 1.143_424_169_5e-314;
+    let t = 329.848_908_459_613_4;
+    let r = m.ratio(t, kappa).unwrap();
+    let ln_r = kappa.ln() + 0.001_f64.ln() - C2_UMK / (m.equivalent_wavelength_um() * t);
+    assert!((r.ln() - ln_r).abs() <= 1e-13 * ln_r.abs(), "{r:e}");
+    let back = m.temperature(r, kappa).unwrap();
+    assert!((back - t).abs() <= 1e-12 * t, "{t} -> {back}");
+}
+
+/// A band one ulp wide at 1 um (0.9999999999999999-1 um) in a spectral scene: the
+/// weighted quadrature took each segment's width in x as the difference of its two x
+/// values, which are one ulp apart, so its integral came out a factor 2.3 off at 522 K and
+/// 0 at 720 K, and the spectral round trip missed T by 3.2 uK at 522 K. The width now
+/// comes from the wavelengths. Reference: the band's own radiance (its rectangular path,
+/// checked against the reference vectors of `tests/data`), to 1e-13 relative.
+#[test]
+fn one_ulp_wide_band_in_the_weighted_quadrature() {
+    let b = Band::rectangular(0.999_999_999_999_999_9, 1.0, Detector::Energy).unwrap();
+    for t in [267.75, 316.33, 522.103_999_004_713_7, 720.12, 3000.0] {
+        let l = b.radiance(t).unwrap();
+        let (w, _) = b.weighted_radiance_and_derivative(t, &[], |_| 1.0).unwrap();
+        assert!((w - l).abs() <= 1e-13 * l, "T {t}: {w:e} vs {l:e}");
+    }
+}

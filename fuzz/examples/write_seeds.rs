@@ -401,4 +401,172 @@ fn verify_seeds() {
         }
         write("verify", name, &e);
     }
+
+    // optics_materials (first byte: the group): invented, physical cases of each group.
+    let mut e = Enc::new();
+    // Optics: r 12 um, EE 0.838, 10 um at F/1, 10 m at D:S 50, 17 um pitch, 25 mm lens,
+    // 20 cy/mm, a 51 um image, the 3 x 3 rule.
+    e.u8(0)
+        .f64(12.0)
+        .f64(0.838)
+        .f64(10.0)
+        .f64(1.0)
+        .f64(10.0)
+        .f64(50.0);
+    e.f64(17.0)
+        .f64(25.0)
+        .f64(20.0)
+        .f64(51.0)
+        .u8(7)
+        .u32(1)
+        .bool(true);
+    write("optics_materials", "optics", &e);
+    let mut e = Enc::new();
+    // Optical constants of a dielectric (n 1.5) and a metal-like pair; Hagen-Rubens.
+    e.u8(1)
+        .f64(1.5)
+        .f64(0.0)
+        .f64(30.0)
+        .bool(false)
+        .f64(0.01)
+        .f64(1e-7)
+        .f64(10.0);
+    write("optics_materials", "dielectric", &e);
+    let mut e = Enc::new();
+    e.u8(1)
+        .f64(12.0)
+        .f64(40.0)
+        .f64(75.0)
+        .bool(false)
+        .f64(0.05)
+        .f64(2.5e-6)
+        .f64(4.0);
+    write("optics_materials", "metal", &e);
+    let mut e = Enc::new();
+    // Size of source: 8-14 um, SSE table 10..50 mm, reading 900 K.
+    e.u8(2);
+    enc_band(&mut e, 8.0, 14.0, 0, None);
+    e.len(3, 8)
+        .f64(10.0)
+        .f64(25.0)
+        .f64(50.0)
+        .f64(0.0)
+        .f64(0.004)
+        .f64(0.007)
+        .bool(true);
+    e.f64(900.0).f64(25.0).f64(10.0).f64(0.003);
+    write("optics_materials", "sse", &e);
+    let mut e = Enc::new();
+    // Multi-wavelength: three narrow bands, grey at 1400 K (e 0.4 each), two terms.
+    e.u8(3).len(3, 6);
+    for (lo, hi) in [(0.80, 0.82), (0.90, 0.92), (1.00, 1.02)] {
+        enc_band(&mut e, lo, hi, 0, None);
+    }
+    e.f64(1400.0).bool(true).f64(0.4).f64(0.4).f64(0.4);
+    e.bool(false).u32(2).f64(0.81).f64(0.91).f64(1.01);
+    write("optics_materials", "multiwavelength", &e);
+    for (group, name) in [(4u8, "site"), (5, "budget"), (6, "monte-carlo")] {
+        let mut e = Enc::new();
+        e.u8(group);
+        enc_band(&mut e, 8.0, 14.0, 0, None);
+        enc_scene(&mut e, [0.85, 295.0, 0.98, 293.0, 0.95, 0.01, 294.0, 296.0]);
+        if group == 6 {
+            e.f64(350.0).bool(true);
+            for _ in 0..11 {
+                e.f64(0.5);
+            }
+            e.u64(20_261_203).len(32, 48).bool(true);
+        } else {
+            // Reading from the scene at 350 K (group 4 also reads a spare signal), a
+            // coating of emissivity 0.95, then (budgets) four uncertainties, and a
+            // reflector of emissivity 0.1 (scaled by 0.2 on decoding) at 300 K.
+            e.f64(350.0).bool(true);
+            if group == 4 {
+                e.f64(1.0);
+            }
+            e.f64(0.95).bool(true);
+            if group == 5 {
+                e.f64(0.5).f64(0.2).f64(0.5).f64(0.3);
+            }
+            e.f64(0.5).f64(300.0);
+        }
+        write("optics_materials", name, &e);
+    }
+
+    // spectral_curves (first byte: the group).
+    let mut e = Enc::new();
+    // A spectral scene over 3-5 um: emissivity falling 0.9 -> 0.7, air 0.95 -> 0.9.
+    e.u8(0);
+    enc_band(&mut e, 3.0, 5.0, 0, None);
+    enc_scene(&mut e, [0.8, 295.0, 0.95, 293.0, 0.95, 0.01, 294.0, 296.0]);
+    e.len(3, 8)
+        .bool(true)
+        .f64(2.5)
+        .f64(4.0)
+        .f64(5.5)
+        .f64(0.9)
+        .f64(0.8)
+        .f64(0.7);
+    e.len(2, 8).bool(true).f64(2.5).f64(5.5).f64(0.95).f64(0.9);
+    e.f64(600.0).f64(1.0).f64(550.0);
+    write("spectral_curves", "spectral", &e);
+    for (form, name) in [(0u8, "curve-planck"), (4, "curve-wien")] {
+        let mut e = Enc::new();
+        // A curve near 3.9 um with an offset of 120 counts, in an invented scene.
+        e.u8(1)
+            .u8(form)
+            .f64(3.9)
+            .f64(0.0)
+            .f64(2.0e7)
+            .bool(false)
+            .f64(120.0);
+        enc_scene(&mut e, [0.9, 295.0, 0.98, 293.0, 0.96, 0.01, 294.0, 296.0]);
+        e.f64(700.0).f64(5.0e4);
+        write("spectral_curves", name, &e);
+    }
+    let mut e = Enc::new();
+    // Fits: five points from a Planck-form curve, then a fit to a 0.645-0.655 um band.
+    e.u8(2)
+        .u8(0)
+        .len(5, 8)
+        .u8(0)
+        .f64(0.65)
+        .f64(0.0)
+        .f64(1.0e9)
+        .bool(true)
+        .bool(true);
+    for t in [700.0, 850.0, 1000.0, 1200.0, 1400.0] {
+        e.f64(t);
+    }
+    e.bool(false);
+    for _ in 0..5 {
+        e.f64(1e-3);
+    }
+    enc_band(&mut e, 0.645, 0.655, 0, None);
+    e.f64(700.0).f64(1400.0);
+    write("spectral_curves", "fits", &e);
+    let mut e = Enc::new();
+    e.u8(3);
+    enc_band(&mut e, 8.0, 14.0, 0, None);
+    e.f64(300.0)
+        .f64(400.0)
+        .f64(350.0)
+        .f64(10.0)
+        .f64(10.5)
+        .f64(3.0);
+    write("spectral_curves", "effective", &e);
+    let mut e = Enc::new();
+    // A two-colour pyrometer: 10 nm bands at 0.65 and 0.90 um, 1100 K.
+    e.u8(4);
+    enc_band(&mut e, 0.645, 0.655, 0, None);
+    enc_band(&mut e, 0.895, 0.905, 0, None);
+    e.f64(0.65)
+        .f64(0.9)
+        .f64(1.0)
+        .bool(true)
+        .f64(1100.0)
+        .bool(true)
+        .f64(0.5)
+        .f64(1050.0);
+    write("spectral_curves", "wien", &e);
 }

@@ -494,6 +494,62 @@ unsafe impl Plain for bandtemp_capi::bt_verify_round_trip_report {}
 unsafe impl Plain for bandtemp_capi::bt_verify_coverage_report {}
 unsafe impl Plain for bandtemp_capi::bt_verify_table_report {}
 unsafe impl Plain for bandtemp_capi::bt_verify_uncertainty_report {}
+unsafe impl Plain for bandtemp_capi::bt_mtf {}
+unsafe impl Plain for bandtemp_capi::bt_sse_correction {}
+unsafe impl Plain for bandtemp_capi::bt_target_verdict {}
+unsafe impl Plain for bandtemp_capi::bt_directional_emissivity {}
+unsafe impl Plain for bandtemp_capi::bt_multiwavelength_result {}
+unsafe impl Plain for bandtemp_capi::bt_site_budget {}
+unsafe impl Plain for bandtemp_capi::bt_monte_carlo {}
+unsafe impl Plain for bandtemp_capi::bt_wien_ratio {}
+unsafe impl Plain for RawCurve {}
+unsafe impl Plain for RawCurveFit {}
+
+/// A `bt_curve` with its form as a plain integer, so that any value can be passed and a
+/// poisoned out value is a valid Rust value (the layout of `bt_curve`: a C enum is an
+/// `int`-sized field).
+#[repr(C)]
+#[derive(Clone, Copy, Debug)]
+pub struct RawCurve {
+    /// The form as an integer (0 Planck, 1 Wien).
+    pub form: u32,
+    /// A, um.
+    pub a_um: f64,
+    /// B, um K.
+    pub b_umk: f64,
+    /// C, signal units.
+    pub c: f64,
+    /// Dark offset, signal units.
+    pub offset: f64,
+}
+
+const _: () = assert!(size_of::<RawCurve>() == size_of::<bandtemp_capi::bt_curve>());
+const _: () = assert!(size_of::<bandtemp_capi::bt_curve_form>() == size_of::<u32>());
+
+impl RawCurve {
+    /// The struct to pass to the C ABI.
+    pub fn ptr(&self) -> *const bandtemp_capi::bt_curve {
+        (self as *const RawCurve).cast()
+    }
+}
+
+/// A `bt_curve_fit` over [`RawCurve`] (same layout).
+#[repr(C)]
+#[derive(Clone, Copy, Debug)]
+pub struct RawCurveFit {
+    /// The fitted curve.
+    pub curve: RawCurve,
+    /// Covariance of (A, B, C).
+    pub covariance: [[f64; 3]; 3],
+    /// Largest temperature residual, K.
+    pub max_residual_k: f64,
+    /// RMS temperature residual, K.
+    pub rms_residual_k: f64,
+    /// Iterations used.
+    pub iterations: u32,
+}
+
+const _: () = assert!(size_of::<RawCurveFit>() == size_of::<bandtemp_capi::bt_curve_fit>());
 
 /// An out value filled with a poison byte pattern before a call, to check afterwards that
 /// an error left it untouched.
@@ -547,6 +603,46 @@ pub fn bytes_of<T: Plain>(v: &T) -> &[u8] {
 pub fn slice_bytes<T: Plain>(v: &[T]) -> &[u8] {
     // SAFETY: as `bytes_of`.
     unsafe { core::slice::from_raw_parts(v.as_ptr().cast::<u8>(), core::mem::size_of_val(v)) }
+}
+
+/// One timed call with a poisoned out value: on error checks that the out value is
+/// untouched and returns `None`; on success returns the value for the caller's oracles.
+#[track_caller]
+pub fn checked<T: Plain>(
+    name: &str,
+    args: &dyn Fn() -> String,
+    call: impl FnOnce(*mut T) -> bandtemp_capi::bt_status,
+) -> Option<T> {
+    let mut out = Poisoned::<T>::new();
+    let s = timed(|| format!("{name}({})", args()), || call(out.ptr()));
+    if s == bandtemp_capi::bt_status::Ok {
+        Some(out.value)
+    } else {
+        oracle(out.untouched(), || {
+            format!("{name} wrote on {s:?}: {}", args())
+        });
+        None
+    }
+}
+
+/// As [`checked`] for a call with two out values (both untouched on error).
+#[track_caller]
+pub fn checked2<T: Plain, U: Plain>(
+    name: &str,
+    args: &dyn Fn() -> String,
+    call: impl FnOnce(*mut T, *mut U) -> bandtemp_capi::bt_status,
+) -> Option<(T, U)> {
+    let mut a = Poisoned::<T>::new();
+    let mut b = Poisoned::<U>::new();
+    let s = timed(|| format!("{name}({})", args()), || call(a.ptr(), b.ptr()));
+    if s == bandtemp_capi::bt_status::Ok {
+        Some((a.value, b.value))
+    } else {
+        oracle(a.untouched() && b.untouched(), || {
+            format!("{name} wrote on {s:?}: {}", args())
+        });
+        None
+    }
 }
 
 /// Panics (a finding) unless `cond`; the message names the call and its arguments.

@@ -138,7 +138,9 @@ pub fn limit_effective_wavelength_um<C: SignalCurve + ?Sized>(
 ) -> Result<f64> {
     let t = check_temperature_k(temperature_k)?;
     let (signal, slope) = curve.signal_and_derivative(t)?;
-    finite(C2_UMK * signal / (t * t * slope))
+    // c2 (S / S') / T / T: S/S' is of order T, so no intermediate overflows (T^2 S'
+    // overflowed to infinity for T near 1e74 and gave a wavelength of 0).
+    finite(C2_UMK * (signal / slope) / t / t)
 }
 
 /// Mean effective wavelength between `t1_k` and `t2_k`, um:
@@ -152,7 +154,8 @@ pub fn limit_effective_wavelength_um<C: SignalCurve + ?Sized>(
 ///
 /// # Errors
 /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`],
-/// [`Error::CalibrationDuplicateTemperature`] when T1 = T2, errors of `curve`.
+/// [`Error::CalibrationDuplicateTemperature`] when T1 = T2 (or so close, at temperatures so
+/// high, that 1/T1 - 1/T2 underflows), errors of `curve`.
 pub fn mean_effective_wavelength_um<C: SignalCurve + ?Sized>(
     curve: &C,
     t1_k: f64,
@@ -165,8 +168,22 @@ pub fn mean_effective_wavelength_um<C: SignalCurve + ?Sized>(
     }
     let s1 = curve.signal(t1)?;
     let s2 = curve.signal(t2)?;
-    // (1/T1 - 1/T2) = (T2 - T1)/(T1 T2), free of cancellation.
-    finite(C2_UMK * ((t2 - t1) / (t1 * t2)) / libm::log(s2 / s1))
+    // (1/T1 - 1/T2) = (T2 - T1)/T1/T2, free of cancellation, and divided in turn so that
+    // T1 T2 cannot overflow; ln(S2/S1) as the difference of logarithms when the quotient
+    // over- or underflows (S2/S1 = inf gave a wavelength of 0).
+    let q = s2 / s1;
+    let log_ratio = if q.is_normal() {
+        libm::log(q)
+    } else {
+        libm::log(s2) - libm::log(s1)
+    };
+    let lambda = finite(C2_UMK * ((t2 - t1) / t1 / t2) / log_ratio)?;
+    if lambda > 0.0 {
+        Ok(lambda)
+    } else {
+        // 1/T1 - 1/T2 underflowed: the two temperatures are one at double precision.
+        Err(Error::CalibrationDuplicateTemperature)
+    }
 }
 
 /// Sensitivity of the measured temperature to the effective wavelength, one-point

@@ -115,9 +115,14 @@ pub fn ifov_mrad(pitch_um: f64, focal_length_mm: f64) -> Result<f64> {
 /// Footprint of one pixel at `distance_m`: 2 D tan(IFOV/2), m (equal to D p / f).
 ///
 /// # Errors
-/// [`Error::NonFinite`], [`Error::OpticsGeometryInvalid`].
+/// [`Error::NonFinite`], [`Error::OpticsGeometryInvalid`] for a distance that is not
+/// positive or an IFOV outside (0, pi) rad (tan(IFOV/2) would be negative or undefined;
+/// [`ifov_mrad`] always gives less).
 pub fn footprint_m(distance_m: f64, ifov_mrad: f64) -> Result<f64> {
     let half = positive(ifov_mrad)? * 0.5e-3;
+    if half >= core::f64::consts::FRAC_PI_2 {
+        return Err(Error::OpticsGeometryInvalid);
+    }
     finite(2.0 * positive(distance_m)? * libm::tan(half))
 }
 

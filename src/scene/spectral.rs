@@ -161,9 +161,15 @@ impl<'a> SpectralScene<'a> {
     /// underflows counts as zero (S = B).
     ///
     /// # Errors
-    /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`].
+    /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`]; [`Error::RadianceUnderflow`]
+    /// when S itself is not a normal double (as [`Scene::sensor_signal`]: a band and scene
+    /// at 0.1 K gave S = 0).
     pub fn sensor_signal(&self, object_k: f64) -> Result<f64> {
-        Ok(self.object_signal(object_k)?.0 + self.background)
+        let signal = self.object_signal(object_k)?.0 + self.background;
+        if signal < f64::MIN_POSITIVE {
+            return Err(Error::RadianceUnderflow);
+        }
+        Ok(signal)
     }
 
     /// Apparent temperature for an object at `object_k`: the blackbody temperature whose
