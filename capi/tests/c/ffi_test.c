@@ -723,6 +723,20 @@ static void test_fits(void) {
           BT_STATUS_CALIBRATION_TOO_FEW_POINTS);
     CHECK(bt_sakuma_hattori_fit_points(t_k, signal, SIZE_MAX, &fit) ==
           BT_STATUS_INVALID_BUFFER);
+    {
+        /* More than 256 points (valid buffers) are refused up front: bounded time. */
+        static double many_t[257], many_s[257], many_u[257];
+        int i;
+        for (i = 0; i < 257; i++) {
+            many_t[i] = 300.0 + i;
+            many_s[i] = 1.0 + i;
+            many_u[i] = 0.01;
+        }
+        CHECK(bt_sakuma_hattori_fit_points(many_t, many_s, 257, &fit) ==
+              BT_STATUS_CALIBRATION_TOO_MANY_POINTS);
+        CHECK(bt_sakuma_hattori_fit_points_report(many_t, many_s, many_u, 257, &report) ==
+              BT_STATUS_CALIBRATION_TOO_MANY_POINTS);
+    }
     CHECK(bt_sakuma_hattori_fit_points_report(t_k, signal, signal_u, 6, NULL) ==
           BT_STATUS_NULL_POINTER);
     CHECK(sh_untouched(&fit));
