@@ -20,7 +20,9 @@ pub fn text(outcome: &Outcome) -> String {
         "{}: {}{serial}",
         outcome.source, outcome.instrument.name
     );
-    let _ = writeln!(out, "  calibration: {}", outcome.calibration);
+    if !outcome.calibration.is_empty() {
+        let _ = writeln!(out, "  calibration: {}", outcome.calibration);
+    }
     for check in &outcome.checks {
         let _ = writeln!(
             out,
