@@ -588,3 +588,48 @@ fn junit_report_is_well_formed_xml_with_one_failure_per_broken_check() {
         "testsuites 15 4 0 2 15 4"
     );
 }
+
+/// An invented InGaAs pyrometer (photon detector, 1.0-1.6 um) whose Wien-form curve is
+/// fitted to its points by the checker: the photon and Wien paths end to end.
+fn pyrometer_record(max_residual_k: f64) -> String {
+    use bandtemp::band::Band;
+    use bandtemp::planck::Detector;
+    let band = Band::rectangular(1.0, 1.6, Detector::Photon).unwrap();
+    // 50 000 counts above a 200-count dark level at 1500 K.
+    let gain = band.radiance(1500.0).unwrap() / 50_000.0;
+    let points: Vec<String> = [900.0, 1000.0, 1100.0, 1200.0, 1300.0, 1400.0, 1500.0]
+        .iter()
+        .map(|&t: &f64| {
+            let counts = (200.0 + band.radiance(t).unwrap() / gain).round();
+            format!("    {{ t_k = {t:.1}, signal = {counts:.1} }},")
+        })
+        .collect();
+    format!(
+        "version = 1\n\
+         [instrument]\nname = \"InGaAs pyrometer (invented)\"\n\
+         [band]\nlo_um = 1.0\nhi_um = 1.6\ndetector = \"photon\"\n\
+         [range]\nlo_k = 900.0\nhi_k = 1500.0\n\
+         [calibration]\nform = \"sakuma-hattori-wien\"\ndark_offset = 200.0\npoints = [\n{}\n]\n\
+         [counts]\ngain = {gain:e}\noffset = {:e}\n\
+         [frame]\nlo_k = 900.0\nhi_k = 1600.0\ntolerance_k = 0.01\n\
+         [tolerances]\nround_trip_k = 1e-6\nfit_max_residual_k = {max_residual_k}\n\
+         model_max_error_k = 0.5\nmax_extrapolation_k = 1.0\n",
+        points.join("\n"),
+        -200.0 * gain
+    )
+}
+
+#[test]
+fn a_photon_pyrometer_with_a_wien_curve_fitted_to_its_points() {
+    // Whole counts: 0.5 count of rounding at 6.4 counts per kelvin (900 K; 236 at 1500 K,
+    // the band's dL/dT over the gain) is up to 0.08 K at the cold end: 0.5 K passes.
+    let outcome = outcome_of(&pyrometer_record(0.5));
+    assert!(
+        outcome.calibration.contains("Wien form")
+            && outcome.calibration.contains("fitted to 7 points")
+    );
+    assert!(outcome.passed(), "{outcome:#?}");
+    // A millikelvin limit cannot be met by whole counts at 900 K.
+    let outcome = outcome_of(&pyrometer_record(0.001));
+    assert_eq!(status(&outcome, "fit_residuals"), Status::Fail);
+}
