@@ -31,10 +31,7 @@
 
 use crate::constants::{C1L_UM, C1P_UM, C2_UMK};
 use crate::error::{check_temperature_k, finite, Error, Result};
-use crate::planck::{
-    check_radiance, moment_integral, tail_bound, weighted_gauss_panel,
-    weighted_gauss_panel_offsets, Detector,
-};
+use crate::planck::{check_radiance, moment_integral, tail_bound, weighted_gauss_panel, Detector};
 
 /// Lowest temperature the inversion searches, in kelvin.
 pub const SOLVER_MIN_K: f64 = 0.1;
@@ -63,8 +60,8 @@ const X_INTEGRAND_ZERO: f64 = 710.0;
 const MIN_RESOLVED_INTEGRAL: f64 = 1e-295;
 
 /// As [`MIN_RESOLVED_INTEGRAL`] for a tabulated response, per unit of the response's
-/// largest value over the band (taken as at least 1e-7): the quadrature stops at [`X_INTEGRAND_ZERO`] =
-/// 710, dropping at most 710^3 e^-710 (1.6e-300) per unit response, below 2e-17 of this
+/// largest value over the band (taken as at least 1e-7): the quadrature stops at
+/// [`X_INTEGRAND_ZERO`] = 710, dropping at most 710^3 e^-710 (1.6e-300) per unit response, below 2e-17 of this
 /// limit; and with the floor, an integral of at least 1e-290 keeps the products
 /// response x integrand that carry it out of the subnormal range (a response of 2e-314
 /// came out 1e-6 off in T).
@@ -174,6 +171,22 @@ impl<'a> SpectralTable<'a> {
         v0 + s * (v1 - v0)
     }
 
+    /// The largest value over [`lo_um`, `hi_um`]: at the nodes inside and at both ends
+    /// (linear between nodes, so nowhere larger); 0 for an empty interval.
+    fn max_over(&self, lo_um: f64, hi_um: f64) -> f64 {
+        if !(hi_um > lo_um) {
+            return 0.0;
+        }
+        self.wavelengths_um
+            .iter()
+            .zip(self.values)
+            .filter(|&(&w, _)| w > lo_um && w < hi_um)
+            .fold(
+                self.value_at(lo_um).max(self.value_at(hi_um)),
+                |max, (_, &v)| max.max(v),
+            )
+    }
+
     /// The largest node strictly below `wavelength_um`, if any.
     fn node_below(&self, wavelength_um: f64) -> Option<f64> {
         let count = self.wavelengths_um.partition_point(|&w| w < wavelength_um);
@@ -279,11 +292,9 @@ impl<'a> Band<'a> {
         let mut moment_um2 = 0.0;
         let mut upper = b;
         let mut r_upper = response.value_at(b);
-        let mut response_max = r_upper;
         while upper > a {
             let lower = response.node_below(upper).map_or(a, |w| w.max(a));
             let r_lower = response.value_at(lower);
-            response_max = response_max.max(r_lower);
             let area = 0.5 * (r_lower + r_upper) * (upper - lower);
             width_um += area;
             moment_um2 += area * 0.5 * (lower + upper);
@@ -298,7 +309,7 @@ impl<'a> Band<'a> {
             hi_um: b,
             detector,
             response: Some(response),
-            response_max,
+            response_max: response.max_over(a, b),
             width_um,
             centroid_um: moment_um2 / width_um,
             x_edges_k: x_edges_k(a, b),
@@ -401,7 +412,9 @@ impl<'a> Band<'a> {
                     // band's long end made an integral of 7 "unresolved" at 1000 K).
                     let cut_um = C2_UMK / (X_INTEGRAND_ZERO * t);
                     floor = MIN_RESOLVED_TABULATED_INTEGRAL
-                        * self.response_max_below(response, cut_um).max(1e-7);
+                        * response
+                            .max_over(self.lo_um, self.hi_um.min(cut_um))
+                            .max(1e-7);
                 }
                 (i, d, d2, floor)
             }
@@ -439,14 +452,10 @@ impl<'a> Band<'a> {
     ) -> Result<(f64, f64)> {
         let t = check_temperature_k(temperature_k)?;
         let (integral, derivative_integral, _) = match self.response {
-            None => self.panels(t, tables, None, &weight, None),
-            Some(response) => self.panels(
-                t,
-                tables,
-                Some(response),
-                |lambda_um| response.value_at(lambda_um) * weight(lambda_um),
-                None,
-            ),
+            None => self.panels(t, tables, None, &weight),
+            Some(response) => self.panels(t, tables, Some(response), |lambda_um| {
+                response.value_at(lambda_um) * weight(lambda_um)
+            }),
         };
         let scale = scale_or_overflow(self.detector, t)?;
         finite(integral)?;
@@ -459,8 +468,8 @@ impl<'a> Band<'a> {
         Ok((radiance, derivative))
     }
 
-    /// Gauss-Legendre in x over panels. Walks the band from `hi_um` down (x rising), so the
-    /// Wien tail comes last and can be cut once `bound * tail(x)` is negligible.
+    /// Gauss-Legendre in x over panels. Walks the band from `hi_um` down (x rising), one
+    /// segment between the tables' nodes at a time ([`walk_segment`]).
     /// Returns (integral of w f_m dx, integral of w f_m x e^x/(e^x-1) dx, integral of
     /// w f_m k2 dx with the kernel k2 of the second ln-T derivative).
     fn panels<W: Fn(f64) -> f64>(
@@ -469,12 +478,9 @@ impl<'a> Band<'a> {
         tables: &[SpectralTable<'_>],
         extra: Option<SpectralTable<'_>>,
         weight: W,
-        bound: Option<f64>,
     ) -> (f64, f64, f64) {
         let m = self.detector.moment();
-        let mut sum = 0.0;
-        let mut sum_derivative = 0.0;
-        let mut sum_second = 0.0;
+        let mut sums = (0.0, 0.0, 0.0);
         let mut upper_um = self.hi_um;
         while upper_um > self.lo_um {
             let mut lower_um = self.lo_um;
@@ -494,28 +500,14 @@ impl<'a> Band<'a> {
                 // upper_um * t overflowed: so does the radiance.
                 return (f64::INFINITY, f64::INFINITY, f64::INFINITY);
             }
-            let mut offset = 0.0;
-            while offset < width_x {
-                let x = x_start + offset;
-                if x > X_INTEGRAND_ZERO {
-                    // Every remaining integrand value is exactly zero in double precision.
-                    return (sum, sum_derivative, sum_second);
-                }
-                if let Some(bound) = bound {
-                    if x > 4.0 && bound * tail_bound(m, x) <= 1e-18 * sum {
-                        return (sum, sum_derivative, sum_second);
-                    }
-                }
-                let step = 1.0_f64.min(x).min(width_x - offset);
-                let (s, d, d2) = weighted_gauss_panel(m, x, step, |xi| weight(C2_UMK / (xi * t)));
-                sum += s;
-                sum_derivative += d;
-                sum_second += d2;
-                offset += step;
+            if walk_segment(m, x_start, width_x, None, &mut sums, |xi, _| {
+                weight(C2_UMK / (xi * t))
+            }) {
+                break;
             }
             upper_um = lower_um;
         }
-        (sum, sum_derivative, sum_second)
+        sums
     }
 
     /// [`Band::panels`] for the band's own response alone, walking the table's segments
@@ -528,15 +520,13 @@ impl<'a> Band<'a> {
     /// differences of computed x values: its width in x is c2 (w1 - w0)/(w0 w1 T), and a
     /// node an offset o into the segment (in x, from its upper end x1 = c2/(w1 T)) lies
     /// w1 o/(x1 + o) below w1 and w0 (width - o)/(x1 + o) above w0. Subtracting x values
-    /// or wavelengths instead would lose log10(lambda/(w1 - w0)) digits on a narrow segment (a 1e-4 um segment at 1.5 um
-    /// gave 6e-12 relative radiance error; a 1e-10 um sliver, 1e-6).
+    /// or wavelengths instead would lose log10(lambda/(w1 - w0)) digits on a narrow segment
+    /// (a 1e-4 um segment at 1.5 um gave 6e-12 relative radiance error; a 1e-10 um sliver,
+    /// 1e-6).
     fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
         let m = self.detector.moment();
-        let bound = self.response_max;
         let c2_over_t = C2_UMK / t;
-        let mut sum = 0.0;
-        let mut sum_derivative = 0.0;
-        let mut sum_second = 0.0;
+        let mut sums = (0.0, 0.0, 0.0);
         let segments = response
             .wavelengths_um
             .windows(2)
@@ -584,46 +574,14 @@ impl<'a> Band<'a> {
             let width_x = c2_over_t * (((upper_um - lower_um) / upper_um) / lower_um);
             // p = p_sign o + p_start.
             let (p_sign, p_start) = if falls { (1.0, 0.0) } else { (-1.0, width_x) };
-            let mut offset = 0.0;
-            while offset < width_x {
-                let x = x_upper + offset;
-                if x > X_INTEGRAND_ZERO || (x > 4.0 && bound * tail_bound(m, x) <= 1e-18 * sum) {
-                    // Every remaining integrand value is zero in double precision, or
-                    // the rest of the band is below 1e-18 of the sum.
-                    return (sum, sum_derivative, sum_second);
-                }
-                let next = (offset + 1.0).min(offset + x).min(width_x);
-                let (s, d, d2) =
-                    weighted_gauss_panel_offsets(m, x, next - offset, |_, node_offset| {
-                        let o = offset + node_offset;
-                        let p = p_sign * o + p_start;
-                        r_edge + rise * (scale_per_span * (p / (x_upper + o)))
-                    });
-                sum += s;
-                sum_derivative += d;
-                sum_second += d2;
-                offset = next;
+            let bound = Some(self.response_max);
+            if walk_segment(m, x_upper, width_x, bound, &mut sums, |_, o| {
+                r_edge + rise * (scale_per_span * ((p_sign * o + p_start) / (x_upper + o)))
+            }) {
+                break;
             }
         }
-        (sum, sum_derivative, sum_second)
-    }
-
-    /// The response's largest value over the part of the band below `cut_um` (its nodes
-    /// there and its values at the part's ends); 0 where the band lies wholly above.
-    fn response_max_below(&self, response: SpectralTable<'_>, cut_um: f64) -> f64 {
-        let upper_um = self.hi_um.min(cut_um);
-        if !(upper_um > self.lo_um) {
-            return 0.0;
-        }
-        let inner = response
-            .wavelengths_um
-            .iter()
-            .zip(response.values)
-            .filter(|&(&w, _)| w > self.lo_um && w < upper_um)
-            .fold(0.0, |max, (_, &v)| f64::max(max, v));
-        inner
-            .max(response.value_at(self.lo_um))
-            .max(response.value_at(upper_um))
+        sums
     }
 
     /// Temperature whose band radiance equals `radiance`, K.
@@ -675,6 +633,42 @@ impl<'a> Band<'a> {
             1000.0
         }
     }
+}
+
+/// The panel walk over one table segment, shared by [`Band::panels`] and
+/// [`Band::response_panels`]: panels from x = `x_start` across `width_x`, each at most 1
+/// and at most its own start wide (see [`weighted_gauss_panel`]), adding the sums of
+/// f_m times `weight(t, o)` (t a node, o its offset from `x_start`, formed from the panel
+/// offsets so that no digits are lost to `t - x_start`) to `sums`. Returns true when the
+/// rest of the band adds nothing: past [`X_INTEGRAND_ZERO`], where every integrand value is
+/// exactly zero, or, given the response's largest value `bound`, once the Wien tail beyond
+/// is below 1e-18 of the sum.
+fn walk_segment<W: Fn(f64, f64) -> f64>(
+    m: u32,
+    x_start: f64,
+    width_x: f64,
+    bound: Option<f64>,
+    sums: &mut (f64, f64, f64),
+    weight: W,
+) -> bool {
+    let mut offset = 0.0;
+    while offset < width_x {
+        let x = x_start + offset;
+        if x > X_INTEGRAND_ZERO
+            || bound.is_some_and(|b| x > 4.0 && b * tail_bound(m, x) <= 1e-18 * sums.0)
+        {
+            return true;
+        }
+        let next = (offset + 1.0).min(offset + x).min(width_x);
+        let (s, d, d2) = weighted_gauss_panel(m, x, next - offset, |t, node_offset| {
+            weight(t, offset + node_offset)
+        });
+        sums.0 += s;
+        sums.1 += d;
+        sums.2 += d2;
+        offset = next;
+    }
+    false
 }
 
 /// Checks a radiance that is to be inverted: finite, positive, normal.

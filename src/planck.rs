@@ -470,19 +470,11 @@ fn gauss_panel(m: u32, a: f64, width: f64) -> (f64, f64, f64) {
 /// ~rho^-8 < 1e-17), 6 for s <= 0.15 (rho >= 28), 8 for s <= 0.4 (rho >= 11.9), else 12
 /// (rho >= 5.8, rho^-24 ~ 1e-18); the Planck poles at +-2 pi i need less (see
 /// [`gauss_panel`]).
-pub(crate) fn weighted_gauss_panel<W: Fn(f64) -> f64>(
-    m: u32,
-    a: f64,
-    width: f64,
-    weight: W,
-) -> (f64, f64, f64) {
-    weighted_gauss_panel_offsets(m, a, width, |t, _| weight(t))
-}
-
-/// As [`weighted_gauss_panel`], with the weight given each node t and its offset t - a
-/// from the panel's start, formed as width/2 -+ the node's half-width distance (exact to
-/// a rounding of that offset, where `t - a` itself would lose the digits a and t share).
-pub(crate) fn weighted_gauss_panel_offsets<W: Fn(f64, f64) -> f64>(
+///
+/// The weight is given each node t and its offset t - a from the panel's start, formed as
+/// width/2 -+ the node's half-width distance (exact to a rounding of that offset, where
+/// `t - a` itself would lose the digits a and t share).
+pub(crate) fn weighted_gauss_panel<W: Fn(f64, f64) -> f64>(
     m: u32,
     a: f64,
     width: f64,
