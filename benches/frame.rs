@@ -136,6 +136,33 @@ fn frame(c: &mut Criterion) {
             )
         });
     });
+    // The same frame as sensor signal (band radiance, W m^-2 sr^-1) in f32, through
+    // `convert_signal`: the input of a camera whose counts are already linearised.
+    let signal: Vec<f32> = s
+        .counts
+        .iter()
+        .map(|&n| (s.counts_map.gain() * f64::from(n) + s.counts_map.offset()) as f32)
+        .collect();
+    let converted = converter.convert_signal(&signal, None, &mut out).unwrap();
+    eprintln!("f32-signal summary: {converted:?}");
+    group.bench_function("table_signal_f32_uniform_scene", |b| {
+        b.iter(|| {
+            black_box(
+                converter
+                    .convert_signal(black_box(&signal), None, &mut out)
+                    .unwrap(),
+            )
+        });
+    });
+    group.bench_function("table_signal_f32_emissivity_map", |b| {
+        b.iter(|| {
+            black_box(
+                converter
+                    .convert_signal(black_box(&signal), Some(black_box(&s.emissivity)), &mut out)
+                    .unwrap(),
+            )
+        });
+    });
     // What every C call does before converting: re-wrap the stored state and rows, which
     // checks the geometry and recomputes the rows' fingerprint. Same frame, same run.
     let state = converter.state();

@@ -41,7 +41,7 @@ pub struct FrameConverter<'t> {
 
 #[inline(always)]
 fn valid_emissivity(e: f32) -> bool {
-    e > 0.0 && e <= 1.0
+    (e > 0.0) & (e <= 1.0)
 }
 
 impl<'t> FrameConverter<'t> {
@@ -222,7 +222,7 @@ impl<'t> FrameConverter<'t> {
                 #[inline(always)]
                 |n: u16, _| {
                     let x = f32::from(n);
-                    (x >= window_lo && x <= window_hi, map.object_counts(x))
+                    ((x >= window_lo) & (x <= window_hi), map.object_counts(x))
                 },
                 |n: u16, _| self.pixel_from_counts(n, None).1,
             ),
@@ -241,7 +241,7 @@ impl<'t> FrameConverter<'t> {
                         let x = f32::from(n);
                         let s = map.object_counts_e(x, e);
                         (
-                            x > dead && x < saturated && valid_emissivity(e) && lookup.in_range(s),
+                            (x > dead) & (x < saturated) & valid_emissivity(e) & lookup.in_range(s),
                             s,
                         )
                     },
@@ -286,7 +286,7 @@ impl<'t> FrameConverter<'t> {
                 #[inline(always)]
                 |s: f32, _| {
                     let l = map.object_signal(s);
-                    (s.is_finite() && lookup.in_range(l), l)
+                    (s.is_finite() & lookup.in_range(l), l)
                 },
                 |s: f32, _| self.pixel_from_signal(s, None).1,
             ),
@@ -303,10 +303,7 @@ impl<'t> FrameConverter<'t> {
                     #[inline(always)]
                     |s: f32, e: f32| {
                         let l = map.object_signal_e(s, e);
-                        (
-                            s.is_finite() && valid_emissivity(e) && lookup.in_range(l),
-                            l,
-                        )
+                        (s.is_finite() & valid_emissivity(e) & lookup.in_range(l), l)
                     },
                     |s: f32, e| self.pixel_from_signal(s, Some(e)).1,
                 );

@@ -10,7 +10,7 @@ use super::LANES;
 /// indices and positions (vectorisable), row loads (scalar gathers), Horner and the NaN
 /// select (vectorisable). Returns true if any pixel failed.
 #[inline(always)]
-fn chunk<I: Copy, S>(
+fn chunk<const WIDE: bool, I: Copy, S>(
     lookup: &Lookup<'_>,
     input: &[I; LANES],
     emissivity: &[f32; LANES],
@@ -21,12 +21,50 @@ where
     S: Fn(I, f32) -> (bool, f32),
 {
     let mut signal = [0.0f32; LANES];
-    let mut valid = [0u32; LANES];
+    // Validity as lane masks (all ones or zero), the form vector compares produce.
+    let mut valid = [0i32; LANES];
+    // Two passes over the same inlined closure, each keeping one of its results: the
+    // compiler vectorises each simple loop, where one loop producing both lost lanes to
+    // shuffles (callgrind: 25 instead of 22 instructions per pixel).
     for j in 0..LANES {
-        let (v, s) = signal_of(input[j], emissivity[j]);
-        valid[j] = u32::from(v);
-        signal[j] = s;
+        signal[j] = signal_of(input[j], emissivity[j]).1;
     }
+    for j in 0..LANES {
+        valid[j] = -i32::from(signal_of(input[j], emissivity[j]).0);
+    }
+    #[cfg(all(target_arch = "x86_64", target_feature = "sse2"))]
+    {
+        if WIDE {
+            // SAFETY: `WIDE` is true only inside `simd::with_avx2`, which `run` calls
+            // only after `simd::avx2()` found AVX2.
+            #[allow(unsafe_code)]
+            unsafe {
+                super::simd::lookup_chunk_avx2(lookup, &signal, &valid, out)
+            }
+        } else {
+            super::simd::lookup_chunk(lookup, &signal, &valid, out)
+        }
+    }
+    #[cfg(not(all(target_arch = "x86_64", target_feature = "sse2")))]
+    {
+        portable_lookup(lookup, &signal, &valid, out)
+    }
+}
+
+/// The portable lookup of a chunk (every target; x86-64 uses `simd.rs`, whose results
+/// equal these bit for bit): row indices and positions (vectorisable), row loads (scalar
+/// gathers), Horner and the NaN select (vectorisable). Returns true if any pixel failed.
+#[cfg_attr(
+    all(target_arch = "x86_64", target_feature = "sse2", not(test)),
+    allow(dead_code)
+)]
+#[inline(always)]
+pub(super) fn portable_lookup(
+    lookup: &Lookup<'_>,
+    signal: &[f32; LANES],
+    valid: &[i32; LANES],
+    out: &mut [f32; LANES],
+) -> bool {
     let mut index = [0u32; LANES];
     let mut t = [0.0f32; LANES];
     for j in 0..LANES {
@@ -52,19 +90,54 @@ where
         c2[j] = row[2];
         c3[j] = row[3];
     }
-    let mut good = 1u32;
+    let mut good = -1i32;
     for j in 0..LANES {
         let value = ((c3[j] * t[j] + c2[j]) * t[j] + c1[j]) * t[j] + c0[j];
-        out[j] = if valid[j] == 1 { value } else { f32::NAN };
+        out[j] = if valid[j] != 0 { value } else { f32::NAN };
         good &= valid[j];
     }
     good == 0
 }
 
 /// The batch loop: full chunks through [`chunk`], the tail and every failed pixel through
-/// the scalar path (`classify` gives the failed pixel's status).
+/// the scalar path (`classify` gives the failed pixel's status). On x86-64 processors with
+/// AVX2 the loop runs compiled for AVX2 (same bits; see `simd.rs`).
 #[inline(always)]
 pub(super) fn run<I: Copy, S, K>(
+    lookup: &Lookup<'_>,
+    input: &[I],
+    emissivity: Option<&[f32]>,
+    out: &mut [f32],
+    summary: &mut FrameSummary,
+    signal_of: S,
+    classify: K,
+) where
+    S: Fn(I, f32) -> (bool, f32),
+    K: Fn(I, f32) -> PixelStatus,
+{
+    #[cfg(all(target_arch = "x86_64", target_feature = "sse2"))]
+    if super::simd::avx2() {
+        // SAFETY: the processor supports AVX2 (just checked).
+        #[allow(unsafe_code)]
+        unsafe {
+            super::simd::with_avx2(
+                #[inline(always)]
+                || {
+                    run_with::<true, I, S, K>(
+                        lookup, input, emissivity, out, summary, signal_of, classify,
+                    );
+                },
+            );
+        }
+        return;
+    }
+    run_with::<false, I, S, K>(lookup, input, emissivity, out, summary, signal_of, classify);
+}
+
+/// [`run`] for one instruction set: `WIDE` selects the AVX2 lookup (x86-64 only, and only
+/// inside `simd::with_avx2`).
+#[inline(always)]
+pub(super) fn run_with<const WIDE: bool, I: Copy, S, K>(
     lookup: &Lookup<'_>,
     input: &[I],
     emissivity: Option<&[f32]>,
@@ -100,7 +173,7 @@ pub(super) fn run<I: Copy, S, K>(
                 ) else {
                     continue;
                 };
-                if chunk(lookup, xa, &ONES, ya, &signal_of) {
+                if chunk::<WIDE, I, S>(lookup, xa, &ONES, ya, &signal_of) {
                     tally(x, None, y);
                 }
             }
@@ -121,7 +194,7 @@ pub(super) fn run<I: Copy, S, K>(
                 ) else {
                     continue;
                 };
-                if chunk(lookup, xa, ea, ya, &signal_of) {
+                if chunk::<WIDE, I, S>(lookup, xa, ea, ya, &signal_of) {
                     tally(x, Some(e), y);
                 }
             }

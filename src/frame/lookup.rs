@@ -8,10 +8,10 @@ use super::table::{TableGeometry, TableRow};
 #[derive(Clone, Copy)]
 pub(super) struct Lookup<'a> {
     pub(super) rows: &'a [TableRow],
-    shift: u32,
-    first: u32,
+    pub(super) shift: u32,
+    pub(super) first: u32,
     last: u32,
-    mask: u32,
+    pub(super) mask: u32,
     pub(super) lo: f32,
     pub(super) hi: f32,
 }
@@ -45,6 +45,10 @@ impl<'a> Lookup<'a> {
     /// As [`Lookup::segment`] without the clamp, with a 32-bit row index (keeps SIMD lanes
     /// 32 bits wide). Exact for signals in range; for others the index is garbage that the
     /// row load bounds, and the pixel is discarded.
+    #[cfg_attr(
+        all(target_arch = "x86_64", target_feature = "sse2", not(test)),
+        allow(dead_code)
+    )]
     #[inline(always)]
     pub(super) fn segment_u32(&self, signal: f32) -> (u32, f32) {
         let bits = signal.to_bits();
@@ -62,7 +66,7 @@ impl<'a> Lookup<'a> {
 
     #[inline(always)]
     pub(super) fn in_range(&self, signal: f32) -> bool {
-        signal >= self.lo && signal <= self.hi
+        (signal >= self.lo) & (signal <= self.hi)
     }
 
     pub(super) fn temperature(&self, signal: f32) -> f32 {

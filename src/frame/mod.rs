@@ -60,6 +60,7 @@
 //! | counts or S -> object signal L          | `pixel_map.rs` | [`PixelMap`]                           |
 //! | L -> row and position -> T (per pixel)  | `lookup.rs`    | row index from the f32 bits, Horner    |
 //! | chunks of [`LANES`] pixels              | `kernel.rs`    | the vectorisable batch loop            |
+//! | the x86-64 lookup (SSE2; AVX2 detected) | `simd.rs`      | row loads, 4x4 transposes, Horner      |
 //! | status of a failed pixel, frame tally   | `summary.rs`   | [`PixelStatus`], [`FrameSummary`]      |
 //! | the converter, scalar reference path    | `converter.rs` | [`FrameConverter`], [`ConverterState`] |
 //!
@@ -67,8 +68,8 @@
 //! [`TableRow`]); their construction, check and error bound, `build.rs`; their
 //! fingerprint, `fingerprint.rs`. Later per-pixel stages (non-uniformity correction, bad
 //! pixels, drift) belong between `pixel_map.rs` and `lookup.rs`: they act on the counts or
-//! the object signal before the row index is taken; a target-specific vector kernel
-//! replaces `chunk` in `kernel.rs`. Checked on calibration frames, not per pixel: the
+//! the object signal before the row index is taken; a target-specific vector lookup
+//! hooks into `chunk` in `kernel.rs` as `simd.rs` does for x86-64. Checked on calibration frames, not per pixel: the
 //! figures of merit, `merit.rs` ([`spatial_stats`], [`netd_k`], [`fpn_k`], EMVA 1288).
 //!
 //! # The table variable, and why
@@ -150,22 +151,33 @@
 //!
 //! # Speed
 //!
-//! The batch loops work on chunks of [`LANES`] pixels held in fixed-size arrays, in
-//! passes the compiler vectorises on stable Rust (signal and validity, row index and
-//! position, row loads, Horner and the NaN select), with branch-free selects only; the
-//! same code is the portable scalar path on targets without SIMD, and no `unsafe` is
-//! used (each row load is bounded by a `min`, which compiles to a conditional move).
+//! The batch loops work on chunks of [`LANES`] pixels held in fixed-size arrays: the
+//! object signal and validity in passes the compiler vectorises (branch-free: validity
+//! tests combine with `&`, not `&&`), then the lookup. On x86-64 the lookup is explicit
+//! SIMD (`simd.rs`): each pixel's row is one 16-byte load, four rows are transposed in
+//! registers and evaluated together, four pixels per SSE2 register or, where the
+//! processor has AVX2 (detected once with `cpuid`), eight per AVX2 register with the whole
+//! batch loop compiled for AVX2. Elsewhere (Arm, RISC-V, ...) the portable lookup runs:
+//! the same passes in plain Rust, each row load bounded by a `min`. All paths compute the
+//! same operations in the same order, so the same bits (`simd.rs` tests every lane of
+//! random chunks against the portable path; the frame proptests compare every pixel with
+//! the scalar reference path). `simd.rs` is the only module of the core with `unsafe`.
 //! For a uniform scene, validity is a test of the counts against a window [n_lo, n_hi]
 //! worked out once per scene with the pixel path's own f32 arithmetic (L(n) is monotone
 //! in n), so the hot loop needs no signal clamps. Pixels that fail are classified in a
 //! second, scalar pass over the rare chunks that hold one.
 //!
 //! Measured (`benches/frame.rs`, 640x512 u16 frame, one core of a shared 2-core AMD EPYC
-//! VM, default x86-64 target, i.e. SSE2): see the crate README for the figures.
+//! VM, default x86-64 target with the AVX2 path chosen at run time): see the crate README
+//! for the figures.
 
 // The hot path is a handful of tiny functions that must inline into the chunk loop for it
 // to vectorise; `#[inline(always)]` says so where LLVM's heuristics might not.
 #![allow(clippy::inline_always)]
+// Pixel validity tests use `&` on booleans, not `&&`: both sides are cheap compares, and
+// without the short circuit the compiler keeps them as lane masks (callgrind: 9 instead of
+// 25 instructions per pixel on the AVX2 path).
+#![allow(clippy::needless_bitwise_bool)]
 
 mod bad_pixels;
 mod build;
@@ -181,6 +193,8 @@ mod nonuniformity;
 mod parallel;
 mod params;
 mod pixel_map;
+#[cfg(all(target_arch = "x86_64", target_feature = "sse2"))]
+mod simd;
 mod summary;
 mod table;
 
