@@ -240,10 +240,16 @@ impl<'t> FrameConverter<'t> {
                     |n: u16, e: f32| {
                         let x = f32::from(n);
                         let s = map.object_counts_e(x, e);
-                        (
-                            (x > dead) & (x < saturated) & valid_emissivity(e) & lookup.in_range(s),
-                            s,
-                        )
+                        // Lane masks on x86-64 (`&`: 11 instead of 38 instructions per
+                        // pixel), early exits elsewhere (`&&`: 109 instead of 123 on the
+                        // Cortex-M4F); callgrind and the firmware measurement.
+                        #[cfg(target_arch = "x86_64")]
+                        let ok =
+                            (x > dead) & (x < saturated) & valid_emissivity(e) & lookup.in_range(s);
+                        #[cfg(not(target_arch = "x86_64"))]
+                        let ok =
+                            x > dead && x < saturated && valid_emissivity(e) && lookup.in_range(s);
+                        (ok, s)
                     },
                     |n: u16, e| self.pixel_from_counts(n, Some(e)).1,
                 );

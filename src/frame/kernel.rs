@@ -23,14 +23,10 @@ where
     let mut signal = [0.0f32; LANES];
     // Validity as lane masks (all ones or zero), the form vector compares produce.
     let mut valid = [0i32; LANES];
-    // Two passes over the same inlined closure, each keeping one of its results: the
-    // compiler vectorises each simple loop, where one loop producing both lost lanes to
-    // shuffles (callgrind: 25 instead of 22 instructions per pixel).
     for j in 0..LANES {
-        signal[j] = signal_of(input[j], emissivity[j]).1;
-    }
-    for j in 0..LANES {
-        valid[j] = -i32::from(signal_of(input[j], emissivity[j]).0);
+        let (v, s) = signal_of(input[j], emissivity[j]);
+        valid[j] = -i32::from(v);
+        signal[j] = s;
     }
     #[cfg(all(target_arch = "x86_64", target_feature = "sse2"))]
     {
