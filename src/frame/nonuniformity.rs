@@ -966,9 +966,35 @@ impl FrameConverter<'_> {
         )
     }
 
-    /// The fused pass shared by the corrected conversions.
-    #[allow(clippy::too_many_lines)]
+    /// The fused pass shared by the corrected conversions: on x86-64 processors with AVX2
+    /// compiled for AVX2 as a whole (the correction passes too, not only the lookup; same
+    /// bits, see `simd.rs`).
     fn fused(
+        &self,
+        correction: &Correction<'_>,
+        counts: &[u16],
+        emissivity: Option<&[f32]>,
+        kelvin: &mut [f32],
+        stage: SceneStage,
+    ) -> Result<CorrectedSummary> {
+        #[cfg(all(target_arch = "x86_64", target_feature = "sse2"))]
+        if super::simd::avx2() {
+            // SAFETY: the processor supports AVX2 (just checked).
+            #[allow(unsafe_code)]
+            return unsafe {
+                super::simd::with_avx2(
+                    #[inline(always)]
+                    || self.fused_body(correction, counts, emissivity, kelvin, stage),
+                )
+            };
+        }
+        self.fused_body(correction, counts, emissivity, kelvin, stage)
+    }
+
+    /// [`FrameConverter::fused`] for one instruction set.
+    #[allow(clippy::too_many_lines)]
+    #[inline(always)]
+    fn fused_body(
         &self,
         correction: &Correction<'_>,
         counts: &[u16],
