@@ -583,6 +583,115 @@ fn gauss_sum<W: Fn(f64, f64) -> f64>(
     (half * sum, half * sum_derivative, half * sum_second)
 }
 
+/// A response linear in wavelength on one table segment, seen as a weight of x: at a node
+/// t an offset o (in x) into the segment, r = `edge` + `rise` `per_span` p/t with
+/// p = `sign` o + `start` (see `Band::response_panels`: `edge` the response at the
+/// segment's end nearest its smaller value, `rise` >= 0 the rise towards its larger value,
+/// `per_span` p/t the fraction of the segment between the node and that end, in 0..=1).
+#[derive(Clone, Copy)]
+pub(crate) struct LinearResponse {
+    pub(crate) edge: f64,
+    pub(crate) rise: f64,
+    pub(crate) per_span: f64,
+    pub(crate) sign: f64,
+    pub(crate) start: f64,
+}
+
+/// [`weighted_gauss_panel`] for a [`LinearResponse`], the panel starting `offset` into its
+/// segment: the same rules (picked by s = max(width, width/a), compared as width against
+/// the threshold times min(1, a) so that no division is needed), the same nodes and the
+/// same shared exponential as [`gauss_sum`], with the response folded into the Planck
+/// factors so that each node takes one division (1/(e^t - 1)) instead of two:
+/// r t^m/(e^t - 1) = `edge` P + `rise` ((`per_span` p) G) with G = t^(m-1)/(e^t - 1) and
+/// P = t G. Both terms are non-negative, P <= 1.43, (`per_span` p) G = fraction P <= P, so
+/// no intermediate product overflows unless the integral does (the Planck factors
+/// first, as in [`gauss_sum`]), and each node's value keeps the rounding error of that
+/// form: within a few ulp, with no cancellation.
+#[inline]
+pub(crate) fn linear_response_panel(
+    m: u32,
+    a: f64,
+    width: f64,
+    offset: f64,
+    response: &LinearResponse,
+) -> (f64, f64, f64) {
+    // s <= c exactly when width <= c min(1, a).
+    let unit = a.min(1.0);
+    if width <= 0.03 * unit {
+        linear_response_sum(m, a, width, offset, &GAUSS_LEGENDRE_4, response)
+    } else if width <= 0.15 * unit {
+        linear_response_sum(m, a, width, offset, &GAUSS_LEGENDRE_6, response)
+    } else if width <= 0.4 * unit {
+        linear_response_sum(m, a, width, offset, &GAUSS_LEGENDRE_8, response)
+    } else {
+        linear_response_sum(m, a, width, offset, &GAUSS_LEGENDRE_12, response)
+    }
+}
+
+/// The sums of [`gauss_sum`] for [`linear_response_panel`], over a rule of `N` node pairs
+/// (a fixed size, so that the node loop unrolls).
+#[inline(always)]
+#[allow(clippy::inline_always)]
+fn linear_response_sum<const N: usize>(
+    m: u32,
+    a: f64,
+    width: f64,
+    offset: f64,
+    rule: &[(f64, f64); N],
+    response: &LinearResponse,
+) -> (f64, f64, f64) {
+    let half = 0.5 * width;
+    let mid = a + half;
+    // The shared exponential of [`gauss_sum`] (same conditions, same error argument).
+    let shared = half <= 0.125 && a >= half && mid <= 700.0;
+    let e_mid = if !shared {
+        0.0
+    } else if mid >= 1.0 {
+        let q = exp_neg_core(mid);
+        (1.0 - q) / q
+    } else {
+        libm::expm1(mid)
+    };
+    let scale = e_mid + 1.0;
+    let mut sum = 0.0;
+    let mut sum_derivative = 0.0;
+    let mut sum_second = 0.0;
+    let mut node_value = |t: f64, node_offset: f64, e: f64, w: f64| {
+        let inv_e = 1.0 / e;
+        // t^(m-1) for m = 1, 2, 3.
+        let g = match m {
+            1 => inv_e,
+            2 => t * inv_e,
+            _ => t * t * inv_e,
+        };
+        let planck = g * t;
+        let p = response.sign * (offset + node_offset) + response.start;
+        let f = w * (response.edge * planck + response.rise * ((response.per_span * p) * g));
+        let d = f * (t * (1.0 + inv_e));
+        sum += f;
+        sum_derivative += d;
+        sum_second += d * (t * (1.0 + 2.0 * inv_e) - 1.0);
+    };
+    for &(node, w) in rule {
+        let d = half * node;
+        let (t_low, t_high) = (mid - d, mid + d);
+        let (e_low, e_high) = if shared {
+            let d2 = d * d;
+            let sinh = d * horner(&SINH_OVER_X, d2);
+            let cosh_m1 = d2 * horner(&COSH_M1_OVER_X2, d2);
+            (
+                e_mid + scale * (cosh_m1 - sinh),
+                e_mid + scale * (cosh_m1 + sinh),
+            )
+        } else {
+            (libm::expm1(t_low), libm::expm1(t_high))
+        };
+        node_value(t_low, half - d, e_low, w);
+        node_value(t_high, half + d, e_high, w);
+    }
+    (half * sum, half * sum_derivative, half * sum_second)
+}
+
 /// An upper bound of the tail integral G_m(x) for x > m + 1, from one exponential:
 /// t^m e^-t decays at least at rate 1 - m/x beyond x, so
 /// G_m(x) <= x^m e^-x / (1 - e^-x) * x / (x - m).
