@@ -537,6 +537,7 @@ impl<'a> Band<'a> {
     fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
         let m = self.detector.moment();
         let c2_over_t = C2_UMK / t;
+        let cut_um = c2_over_t / (2.0 * X_INTEGRAND_ZERO);
         let mut sums = (0.0, 0.0, 0.0);
         let segments = response
             .wavelengths_um
@@ -547,12 +548,12 @@ impl<'a> Band<'a> {
             let (&[w0, w1], &[v0, v1]) = (wavelengths, values) else {
                 continue;
             };
-            let upper_um = w1.min(self.hi_um);
+            let upper_um = smaller(w1, self.hi_um);
             // Wavelengths below c2/(2 X_INTEGRAND_ZERO T) contribute exactly zero (the walk
             // stops at x = X_INTEGRAND_ZERO); starting the segment there keeps its width in
             // x finite however small its lower end (1e-308 um gave an infinite width and an
             // infinite weight at 1000 K).
-            let lower_um = w0.max(self.lo_um).max(c2_over_t / (2.0 * X_INTEGRAND_ZERO));
+            let lower_um = larger(larger(w0, self.lo_um), cut_um);
             if w1 <= self.lo_um {
                 break;
             }
@@ -680,7 +681,7 @@ fn walk_segment<P: FnMut(f64, f64, f64) -> (f64, f64, f64)>(
         {
             return true;
         }
-        let next = (offset + 1.0).min(offset + x).min(width_x);
+        let next = smaller(smaller(offset + 1.0, offset + x), width_x);
         let (s, d, d2) = panel(x, next - offset, offset);
         sums.0 += s;
         sums.1 += d;
@@ -688,6 +689,27 @@ fn walk_segment<P: FnMut(f64, f64, f64) -> (f64, f64, f64)>(
         offset = next;
     }
     false
+}
+
+/// The smaller of two numbers, neither NaN (a plain comparison: `f64::min` adds the NaN
+/// handling that the quadrature's inner loops do not need).
+#[inline]
+fn smaller(a: f64, b: f64) -> f64 {
+    if b < a {
+        b
+    } else {
+        a
+    }
+}
+
+/// The larger of two numbers, neither NaN (see [`smaller`]).
+#[inline]
+fn larger(a: f64, b: f64) -> f64 {
+    if b > a {
+        b
+    } else {
+        a
+    }
 }
 
 /// Checks a radiance that is to be inverted: finite, positive, normal.
