@@ -667,10 +667,11 @@ fn linear_response_sum<const N: usize, const K: usize>(
     // lies half - d into the panel), so that a node near the segment's small end keeps
     // the digits of its small p.
     let p_centre = response.sign * (offset + half) + response.start;
-    let mut sum = 0.0;
-    let mut sum_derivative = 0.0;
-    let mut sum_second = 0.0;
-    let mut node_value = |t: f64, p: f64, e: f64, w: f64| {
+    // Sums kept per node of a pair (low, high): two independent chains of the same
+    // operations, which the compiler can run side by side.
+    let mut low = (0.0, 0.0, 0.0);
+    let mut high = (0.0, 0.0, 0.0);
+    let node_value = |sums: &mut (f64, f64, f64), t: f64, p: f64, e: f64, w: f64| {
         let inv_e = 1.0 / e;
         // G = t^(m-1)/(e^t - 1) for m = 1, 2, 3, and P = t G.
         let g = match m {
@@ -681,9 +682,9 @@ fn linear_response_sum<const N: usize, const K: usize>(
         let planck = g * t;
         let f = w * (response.edge * planck + response.rise * ((response.per_span * p) * g));
         let d = f * (t * (1.0 + inv_e));
-        sum += f;
-        sum_derivative += d;
-        sum_second += d * (t * (1.0 + 2.0 * inv_e) - 1.0);
+        sums.0 += f;
+        sums.1 += d;
+        sums.2 += d * (t * (1.0 + 2.0 * inv_e) - 1.0);
     };
     for &(node, w) in rule {
         let d = half * node;
@@ -700,10 +701,14 @@ fn linear_response_sum<const N: usize, const K: usize>(
             (libm::expm1(t_low), libm::expm1(t_high))
         };
         let sd = response.sign * d;
-        node_value(t_low, p_centre - sd, e_low, w);
-        node_value(t_high, p_centre + sd, e_high, w);
+        node_value(&mut low, t_low, p_centre - sd, e_low, w);
+        node_value(&mut high, t_high, p_centre + sd, e_high, w);
     }
-    (half * sum, half * sum_derivative, half * sum_second)
+    (
+        half * (low.0 + high.0),
+        half * (low.1 + high.1),
+        half * (low.2 + high.2),
+    )
 }
 
 /// An upper bound of the tail integral G_m(x) for x > m + 1, from one exponential:
