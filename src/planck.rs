@@ -611,7 +611,7 @@ pub(crate) struct LinearResponse {
 /// which vanish at one end: there the error is relative to a panel integral that the
 /// weight halves): at width 0.045 the relative error is at most 5.8e-18 over a = 1 .. 700
 /// (largest near a = 1.4; 3.1e-18 at a = 1, 3.3e-18 from a = 120 on), against 3.4e-19
-/// for the 0.03 of [`weighted_gauss_panel`], and 1.2e-16 at width 0.075. The 6-node rule
+/// for the 0.03 of [`weighted_gauss_panel`], and 2.1e-16 at width 0.075. The 6-node rule
 /// that such panels took before is not needed for the 1e-17 per panel the rules keep.
 pub(crate) const FOUR_NODE_WIDTH: f64 = 0.045;
 
