@@ -677,15 +677,20 @@ fn linear_response_sum<const N: usize, const K: usize>(
     // series in d cut to the first K terms of sinh d and cosh d - 1: enough for the
     // panel's widest |d| (see `linear_response_panel`).
     let shared = half <= 0.125 && a >= half && mid <= 700.0;
-    let e_mid = if !shared {
-        0.0
+    // 1/(e^t - 1) = numerator/(base + factor expm1(d)) at t = mid + d. From mid = 1 on, in
+    // units of e^mid: with q = e^-mid, e^t - 1 = ((1 - q) + expm1(d))/q, so the panel
+    // needs no division of its own (where (1 - q)/q took one) and each node one; below,
+    // E + (E + 1) expm1(d) with E = expm1(mid). Either sum cancels as little as that of
+    // [`gauss_sum`] (the same sum, scaled).
+    let (numerator, base, factor) = if !shared {
+        (1.0, 0.0, 0.0)
     } else if mid >= 1.0 {
         let q = exp_neg_core(mid);
-        (1.0 - q) / q
+        (q, 1.0 - q, 1.0)
     } else {
-        expm1_below_one(mid)
+        let e_mid = expm1_below_one(mid);
+        (1.0, e_mid, e_mid + 1.0)
     };
-    let scale = e_mid + 1.0;
     // p at the panel's centre; a node d from it has p = p_centre -+ sign d (the low node
     // lies half - d into the panel), so that a node near the segment's small end keeps
     // the digits of its small p.
@@ -694,8 +699,9 @@ fn linear_response_sum<const N: usize, const K: usize>(
     // operations, which the compiler can run side by side.
     let mut low = (0.0, 0.0, 0.0);
     let mut high = (0.0, 0.0, 0.0);
-    let node_value = |sums: &mut (f64, f64, f64), t: f64, p: f64, e: f64, w: f64| {
-        let inv_e = 1.0 / e;
+    let node_value = |sums: &mut (f64, f64, f64), t: f64, p: f64, denominator: f64, w: f64| {
+        // 1/(e^t - 1).
+        let inv_e = numerator / denominator;
         // G = t^(m-1)/(e^t - 1) for m = 1, 2, 3, and P = t G.
         let g = match m {
             1 => inv_e,
@@ -717,8 +723,8 @@ fn linear_response_sum<const N: usize, const K: usize>(
             let sinh = d * horner(SINH_OVER_X.iter().take(K), d2);
             let cosh_m1 = d2 * horner(COSH_M1_OVER_X2.iter().take(K), d2);
             (
-                e_mid + scale * (cosh_m1 - sinh),
-                e_mid + scale * (cosh_m1 + sinh),
+                base + factor * (cosh_m1 - sinh),
+                base + factor * (cosh_m1 + sinh),
             )
         } else {
             (libm::expm1(t_low), libm::expm1(t_high))
