@@ -74,8 +74,8 @@ const MIN_RESOLVED_TABULATED_INTEGRAL: f64 = 1e-283;
 /// not made. The test asks b G_m(x) <= 1e-18 S, with b the response's largest value and S
 /// the sum so far; S <= b m! zeta(m+1) (at most 6.50 b for m = 3, 2.41 b for m = 2, to the
 /// quadrature's rounding), so it needs the bound x^m e^-x x/(x - m)/(1 - e^-x) below
-/// 6.5e-18, which first happens near x = 52 (m = 3) and x = 48 (m = 2); at x = 40 the bound
-/// is 2.9e-13 (m = 3) and 7.1e-15 (m = 2).
+/// 6.5e-18 (m = 3) or 2.41e-18 (m = 2), which first happens at x = 51.5 and 48.4; at
+/// x = 40 the bound is 2.9e-13 (m = 3) and 7.1e-15 (m = 2).
 const TAIL_TEST_MIN_X: f64 = 40.0;
 
 /// The band-integral scale c1 T^(m+1)/c2^(m+1); T^4 beyond the double range (T above
