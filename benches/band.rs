@@ -170,8 +170,10 @@ fn tabulated(c: &mut Criterion) {
     let mut group = c.benchmark_group("tabulated_100pt_band_radiance");
     for (name, det, t) in [
         ("lwir_energy_300K", Detector::Energy, 300.0),
+        ("lwir_photon_300K", Detector::Photon, 300.0),
         ("lwir_photon_1000K", Detector::Photon, 1000.0),
         ("lwir_energy_1500K", Detector::Energy, 1500.0),
+        ("lwir_photon_1500K", Detector::Photon, 1500.0),
     ] {
         let band = Band::with_response(7.0, 14.5, det, table).unwrap();
         group.bench_function(BenchmarkId::new("bandtemp", name), |b| {

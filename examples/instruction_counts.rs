@@ -4,10 +4,12 @@
 //! the counts per call). Run alone, it only lists the measurements it makes, in order.
 //!
 //! The operations: rectangular band radiance and its inversion over the grid of
-//! `benches/sweep.rs` (six bands, two detector kinds, 250-3000 K), and a 640x512 frame of
-//! invented counts converted by the table converter (uniform scene and emissivity map).
+//! `benches/sweep.rs` (six bands, two detector kinds, 250-3000 K), band radiance over the
+//! invented 100-point response of `benches/band.rs` (7-14.5 um, both detector kinds, 300 K
+//! and 1500 K), and a 640x512 frame of invented counts converted by the table converter
+//! (uniform scene and emissivity map).
 
-use bandtemp::band::Band;
+use bandtemp::band::{Band, SpectralTable};
 use bandtemp::frame::{CountsMap, FrameConverter, FrameTable, Rails, TableRow, TemperatureRange};
 use bandtemp::planck::Detector;
 use bandtemp::scene::Scene;
@@ -24,13 +26,18 @@ const BANDS: [(f64, f64); 6] = [
     (8.0, 9.4),
 ];
 const TEMPERATURES_K: [f64; 8] = [250.0, 300.0, 400.0, 600.0, 900.0, 1250.0, 2000.0, 3000.0];
+/// The invented 100-point response of `benches/band.rs` (tests/data, from
+/// tools/refgen/planck_refs.py).
+const LWIR_100: &str = include_str!("../tests/data/response_invented_lwir_100.csv");
+/// Temperatures of the tabulated band radiance, K.
+const TABULATED_K: [f64; 2] = [300.0, 1500.0];
 const WIDTH: usize = 640;
 const HEIGHT: usize = 512;
 
 /// One measurement: what it runs, on which point, and how many calls it makes.
 enum Job<'a> {
-    Radiance(&'a Band<'static>, f64),
-    Inversion(&'a Band<'static>, f64),
+    Radiance(&'a Band<'a>, f64),
+    Inversion(&'a Band<'a>, f64),
 }
 
 /// The measured region. callgrind dumps its counters on entry, so a dump holds one region
@@ -51,7 +58,25 @@ fn measured(job: &Job<'_>) {
     }
 }
 
+/// The wavelengths (um) and values of the 100-point response.
+fn parse_table(text: &str) -> (Vec<f64>, Vec<f64>) {
+    text.lines()
+        .filter(|l| !l.starts_with('#') && !l.starts_with("wavelength"))
+        .filter_map(|l| l.split_once(','))
+        .filter_map(|(w, r)| Some((w.parse::<f64>().ok()?, r.parse::<f64>().ok()?)))
+        .unzip()
+}
+
 fn main() -> Result<(), bandtemp::Error> {
+    let (wavelengths_um, values) = parse_table(LWIR_100);
+    let table = SpectralTable::new(&wavelengths_um, &values)?;
+    let mut tabulated = Vec::new();
+    for (detector, kind) in [(Detector::Energy, "energy"), (Detector::Photon, "photon")] {
+        tabulated.push((
+            Band::with_response(7.0, 14.5, detector, table)?,
+            format!("100pt_7-14.5um_{kind}"),
+        ));
+    }
     let mut bands = Vec::new();
     for (lo_um, hi_um) in BANDS {
         for (detector, kind) in [(Detector::Energy, "energy"), (Detector::Photon, "photon")] {
@@ -73,6 +98,12 @@ fn main() -> Result<(), bandtemp::Error> {
             labels.push(format!("radiance {regime} {temperature_k} {CALLS}"));
             jobs.push(Job::Inversion(band, radiance));
             labels.push(format!("inversion {regime} {temperature_k} {CALLS}"));
+        }
+    }
+    for (band, regime) in &tabulated {
+        for temperature_k in TABULATED_K {
+            jobs.push(Job::Radiance(band, temperature_k));
+            labels.push(format!("tabulated {regime} {temperature_k} {CALLS}"));
         }
     }
     for job in &jobs {

@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Instruction counts per call from valgrind's callgrind (noise-free, unlike times):
-# rectangular band radiance and inversion over the sweep grid of benches/sweep.rs, and the
-# frame converter per pixel. Builds examples/instruction_counts.rs in release, runs it
+# rectangular band radiance and inversion over the sweep grid of benches/sweep.rs, band
+# radiance over the 100-point tabulated response of benches/band.rs (300 K and 1500 K, both
+# detectors; printed per point), and the frame converter per pixel. Builds examples/instruction_counts.rs in release, runs it
 # once under callgrind with a profile dump on entry to each measured region, and
 # prints per-call counts (per regime: min / median / max over the temperatures; with
 # --all, every point). Needs valgrind. Usage: bash scripts/instructions.sh [--all]
@@ -40,6 +41,10 @@ for k, (op, regime, point, calls) in enumerate(labels):
 if mode != "--all":
     print(f"{'operation':12} {'regime':22} {'min':>8} {'median':>8} {'max':>8}  instructions per call")
     for (op, regime), values in rows.items():
+        if op == "tabulated":
+            for point, c in values:
+                print(f"{op:12} {regime:22} {point + ' K':>8} {c:8.0f}")
+            continue
         v = [c for _, c in values]
         print(f"{op:12} {regime:22} {min(v):8.0f} {statistics.median(v):8.0f} {max(v):8.0f}")
     for op in ("radiance", "inversion"):

@@ -31,7 +31,10 @@
 
 use crate::constants::{C1L_UM, C1P_UM, C2_UMK};
 use crate::error::{check_temperature_k, finite, Error, Result};
-use crate::planck::{check_radiance, moment_integral, tail_bound, weighted_gauss_panel, Detector};
+use crate::planck::{
+    check_radiance, linear_response_panel, moment_integral, tail_bound, weighted_gauss_panel,
+    Detector, LinearResponse,
+};
 
 /// Lowest temperature the inversion searches, in kelvin.
 pub const SOLVER_MIN_K: f64 = 0.1;
@@ -66,6 +69,14 @@ const MIN_RESOLVED_INTEGRAL: f64 = 1e-295;
 /// response x integrand that carry it out of the subnormal range (a response of 2e-314
 /// came out 1e-6 off in T).
 const MIN_RESOLVED_TABULATED_INTEGRAL: f64 = 1e-283;
+
+/// Below this x = c2/(lambda T) the Wien-tail test of [`walk_segment`] cannot pass, so it is
+/// not made. The test asks b G_m(x) <= 1e-18 S, with b the response's largest value and S
+/// the sum so far; S <= b m! zeta(m+1) (at most 6.50 b for m = 3, 2.41 b for m = 2, to the
+/// quadrature's rounding), so it needs the bound x^m e^-x x/(x - m)/(1 - e^-x) below
+/// 6.5e-18 (m = 3) or 2.41e-18 (m = 2), which first happens at x = 51.5 and 48.4; at
+/// x = 40 the bound is 2.9e-13 (m = 3) and 7.1e-15 (m = 2).
+const TAIL_TEST_MIN_X: f64 = 40.0;
 
 /// The band-integral scale c1 T^(m+1)/c2^(m+1); T^4 beyond the double range (T above
 /// about 1e77 K) is [`Error::RadianceOverflow`] rather than an inf * 0 = NaN later.
@@ -500,8 +511,8 @@ impl<'a> Band<'a> {
                 // upper_um * t overflowed: so does the radiance.
                 return (f64::INFINITY, f64::INFINITY, f64::INFINITY);
             }
-            if walk_segment(m, x_start, width_x, None, &mut sums, |xi, _| {
-                weight(C2_UMK / (xi * t))
+            if walk_segment(m, x_start, width_x, None, &mut sums, |x, width, _| {
+                weighted_gauss_panel(m, x, width, |xi, _| weight(C2_UMK / (xi * t)))
             }) {
                 break;
             }
@@ -523,9 +534,15 @@ impl<'a> Band<'a> {
     /// or wavelengths instead would lose log10(lambda/(w1 - w0)) digits on a narrow segment
     /// (a 1e-4 um segment at 1.5 um gave 6e-12 relative radiance error; a 1e-10 um sliver,
     /// 1e-6).
+    ///
+    /// Kept out of line: inlined into [`Band::radiance_derivatives`], it cost the
+    /// rectangular path there 9 instructions per call and itself 2,200 on the 100-point
+    /// response (register pressure; callgrind).
+    #[inline(never)]
     fn response_panels(&self, t: f64, response: SpectralTable<'_>) -> (f64, f64, f64) {
         let m = self.detector.moment();
         let c2_over_t = C2_UMK / t;
+        let cut_um = c2_over_t / (2.0 * X_INTEGRAND_ZERO);
         let mut sums = (0.0, 0.0, 0.0);
         let segments = response
             .wavelengths_um
@@ -536,12 +553,12 @@ impl<'a> Band<'a> {
             let (&[w0, w1], &[v0, v1]) = (wavelengths, values) else {
                 continue;
             };
-            let upper_um = w1.min(self.hi_um);
+            let upper_um = smaller(w1, self.hi_um);
             // Wavelengths below c2/(2 X_INTEGRAND_ZERO T) contribute exactly zero (the walk
             // stops at x = X_INTEGRAND_ZERO); starting the segment there keeps its width in
             // x finite however small its lower end (1e-308 um gave an infinite width and an
             // infinite weight at 1000 K).
-            let lower_um = w0.max(self.lo_um).max(c2_over_t / (2.0 * X_INTEGRAND_ZERO));
+            let lower_um = larger(larger(w0, self.lo_um), cut_um);
             if w1 <= self.lo_um {
                 break;
             }
@@ -552,10 +569,11 @@ impl<'a> Band<'a> {
             // the segment's smaller end: two non-negative terms, so neither end's value
             // cancels the other's (a segment rising from 0.1 to 1e300 is exact near its
             // small end too), and distance/(w1 - w0) <= 1, so nothing overflows for any
-            // finite non-negative table. With x_n = x_upper + o, a node lies
-            // upper o/x_n below `upper_um` and lower (width_x - o)/x_n above `lower_um`;
-            // the distance from the small end is (its gap to the overlap) + scale p/x_n,
-            // p = o or width_x - o.
+            // finite non-negative table. A node t = x_upper + o lies upper o/t below
+            // `upper_um` and lower (width_x - o)/t above `lower_um`; the distance from the
+            // small end is (its gap to the overlap) + scale p/t, p = o or width_x - o (the
+            // response as a weight of x, [`LinearResponse`], folded into the Planck factors
+            // by [`linear_response_panel`]).
             let inv_span = 1.0 / (w1 - w0);
             let falls = v1 <= v0;
             let (small, rise, gap_um, scale_um) = if falls {
@@ -572,11 +590,17 @@ impl<'a> Band<'a> {
             }
             // c2 (upper - lower)/(upper lower T), ordered so that no product overflows.
             let width_x = c2_over_t * (((upper_um - lower_um) / upper_um) / lower_um);
-            // p = p_sign o + p_start.
-            let (p_sign, p_start) = if falls { (1.0, 0.0) } else { (-1.0, width_x) };
+            // p = sign o + start.
+            let response = LinearResponse {
+                edge: r_edge,
+                rise,
+                per_span: scale_per_span,
+                sign: if falls { 1.0 } else { -1.0 },
+                start: if falls { 0.0 } else { width_x },
+            };
             let bound = Some(self.response_max);
-            if walk_segment(m, x_upper, width_x, bound, &mut sums, |_, o| {
-                r_edge + rise * (scale_per_span * ((p_sign * o + p_start) / (x_upper + o)))
+            if walk_segment(m, x_upper, width_x, bound, &mut sums, |x, width, offset| {
+                linear_response_panel(m, x, width, offset, &response)
             }) {
                 break;
             }
@@ -637,38 +661,60 @@ impl<'a> Band<'a> {
 
 /// The panel walk over one table segment, shared by [`Band::panels`] and
 /// [`Band::response_panels`]: panels from x = `x_start` across `width_x`, each at most 1
-/// and at most its own start wide (see [`weighted_gauss_panel`]), adding the sums of
-/// f_m times `weight(t, o)` (t a node, o its offset from `x_start`, formed from the panel
-/// offsets so that no digits are lost to `t - x_start`) to `sums`. Returns true when the
-/// rest of the band adds nothing: past [`X_INTEGRAND_ZERO`], where every integrand value is
-/// exactly zero, or, given the response's largest value `bound`, once the Wien tail beyond
-/// is below 1e-18 of the sum.
-fn walk_segment<W: Fn(f64, f64) -> f64>(
+/// and at most its own start wide (see [`weighted_gauss_panel`]), adding to `sums` what
+/// `panel(x, width, offset)` returns for the panel [x, x + width] that starts `offset`
+/// into the segment (so that node offsets can be formed without losing the digits that
+/// x and `x_start` share). Returns true when the rest of the band adds nothing: past
+/// [`X_INTEGRAND_ZERO`], where every integrand value is exactly zero, or, given the
+/// response's largest value `bound`, once the Wien tail beyond is below 1e-18 of the sum.
+///
+/// That tail test is made from x = [`TAIL_TEST_MIN_X`] on only: before it, it cannot pass
+/// (see there), so skipping it changes no result and saves an exponential per panel.
+fn walk_segment<P: FnMut(f64, f64, f64) -> (f64, f64, f64)>(
     m: u32,
     x_start: f64,
     width_x: f64,
     bound: Option<f64>,
     sums: &mut (f64, f64, f64),
-    weight: W,
+    mut panel: P,
 ) -> bool {
     let mut offset = 0.0;
     while offset < width_x {
         let x = x_start + offset;
         if x > X_INTEGRAND_ZERO
-            || bound.is_some_and(|b| x > 4.0 && b * tail_bound(m, x) <= 1e-18 * sums.0)
+            || bound.is_some_and(|b| x > TAIL_TEST_MIN_X && b * tail_bound(m, x) <= 1e-18 * sums.0)
         {
             return true;
         }
-        let next = (offset + 1.0).min(offset + x).min(width_x);
-        let (s, d, d2) = weighted_gauss_panel(m, x, next - offset, |t, node_offset| {
-            weight(t, offset + node_offset)
-        });
+        let next = smaller(smaller(offset + 1.0, offset + x), width_x);
+        let (s, d, d2) = panel(x, next - offset, offset);
         sums.0 += s;
         sums.1 += d;
         sums.2 += d2;
         offset = next;
     }
     false
+}
+
+/// The smaller of two numbers, neither NaN (a plain comparison: `f64::min` adds the NaN
+/// handling that the quadrature's inner loops do not need).
+#[inline]
+fn smaller(a: f64, b: f64) -> f64 {
+    if b < a {
+        b
+    } else {
+        a
+    }
+}
+
+/// The larger of two numbers, neither NaN (see [`smaller`]).
+#[inline]
+fn larger(a: f64, b: f64) -> f64 {
+    if b > a {
+        b
+    } else {
+        a
+    }
 }
 
 /// Checks a radiance that is to be inverted: finite, positive, normal.

@@ -583,6 +583,163 @@ fn gauss_sum<W: Fn(f64, f64) -> f64>(
     (half * sum, half * sum_derivative, half * sum_second)
 }
 
+/// A response linear in wavelength on one table segment, seen as a weight of x: at a node
+/// t an offset o (in x) into the segment, r = `edge` + `rise` `per_span` p/t with
+/// p = `sign` o + `start` (see `Band::response_panels`: `edge` the response at the
+/// segment's end nearest its smaller value, `rise` >= 0 the rise towards its larger value,
+/// `per_span` p/t the fraction of the segment between the node and that end, in 0..=1).
+#[derive(Clone, Copy)]
+pub(crate) struct LinearResponse {
+    pub(crate) edge: f64,
+    pub(crate) rise: f64,
+    pub(crate) per_span: f64,
+    pub(crate) sign: f64,
+    pub(crate) start: f64,
+}
+
+/// Widest panel, from a lower end a >= 1, that [`linear_response_panel`] integrates with 4
+/// Gauss-Legendre nodes (below a = 1 the rule of [`weighted_gauss_panel`]: width <= 0.03 a).
+///
+/// Error argument. From a >= 1, s = width/a <= 0.045: the response's pole at t = 0 lies at
+/// least 22 panel widths from the panel and the Planck poles at +-2 pi i further still, so
+/// the 4-node truncation error (proportional to width^8 times the integrand's eighth
+/// derivative) is set by the integrand's derivatives on the real axis.
+/// Measured with mpmath (`tools/refgen/panel_rule_study.py`: 40 digits, the 4-node rule
+/// against `mpmath.quad` on [a, a + width])
+/// for the three kernels (f, f k1, f k2 with f = t^m/(e^t - 1), m = 2 and 3) times each
+/// weight a response linear in wavelength can give (1, 1/t, and 1/t - 1/b, 1/a - 1/t,
+/// which vanish at one end: there the error is relative to a panel integral that the
+/// weight halves): at width 0.045 the relative error is at most 5.8e-18 over a = 1 .. 700
+/// (largest near a = 1.4; 3.1e-18 at a = 1, 3.3e-18 from a = 120 on), against 3.4e-19
+/// for the 0.03 of [`weighted_gauss_panel`], and 2.1e-16 at width 0.075. The 6-node rule
+/// that such panels took before is not needed for the 1e-17 per panel the rules keep.
+pub(crate) const FOUR_NODE_WIDTH: f64 = 0.045;
+
+/// [`weighted_gauss_panel`] for a [`LinearResponse`], the panel starting `offset` into its
+/// segment: the rules of [`weighted_gauss_panel`] (picked by s = max(width, width/a),
+/// compared as width against the threshold times min(1, a) so that no division is
+/// needed) except that 4 nodes also serve panels up to [`FOUR_NODE_WIDTH`] wide from
+/// a >= 1 (see there); the same nodes and the same shared exponential as [`gauss_sum`],
+/// with the response folded into the Planck factors so that each node takes one division
+/// (1/(e^t - 1)) instead of two: r t^m/(e^t - 1) = `edge` P + `rise` ((`per_span` p) G)
+/// with G = t^(m-1)/(e^t - 1) and P = t G. Both terms are non-negative, P <= 1.43,
+/// (`per_span` p) G = fraction P <= P, so no intermediate product overflows unless the
+/// integral does (the Planck factors first, as in [`gauss_sum`]), and each node's value
+/// keeps the rounding error of that form: within a few ulp, with no cancellation.
+///
+/// The shared exponential's series for sinh d and cosh d - 1 is cut to what each rule's
+/// widest node offset needs: 4 terms of each for 4 nodes (width <= 0.045,
+/// |d| <= 0.0194: first dropped term 5.6e-20 relative), 5 for 6 nodes (width <= 0.15,
+/// |d| <= 0.070: 7.0e-20), all 6 for 8 and 12 nodes (|d| <= 0.125, the limit of the
+/// shared exponential: 2.3e-21). Agrees with [`weighted_gauss_panel`] on the same weight
+/// to rounding where both pick the same rule (below 1e-15 relative, worst 5.3e-16 in the
+/// test `linear_response_panel_matches_the_weighted_panel`), and where they do not, to the
+/// rounding of the nodes' positions (t ulp, below 4 (1 + a) eps); band radiance against mpmath
+/// on panels at the 4-node limit: `tests/reference_band.rs`
+/// (`tabulated_panel_rules_match_mpmath`).
+#[inline]
+pub(crate) fn linear_response_panel(
+    m: u32,
+    a: f64,
+    width: f64,
+    offset: f64,
+    response: &LinearResponse,
+) -> (f64, f64, f64) {
+    // s <= c exactly when width <= c min(1, a).
+    let unit = if a < 1.0 { a } else { 1.0 };
+    if width <= 0.03 * unit || (a >= 1.0 && width <= FOUR_NODE_WIDTH) {
+        linear_response_sum::<2, 4>(m, a, width, offset, &GAUSS_LEGENDRE_4, response)
+    } else if width <= 0.15 * unit {
+        linear_response_sum::<3, 5>(m, a, width, offset, &GAUSS_LEGENDRE_6, response)
+    } else if width <= 0.4 * unit {
+        linear_response_sum::<4, 6>(m, a, width, offset, &GAUSS_LEGENDRE_8, response)
+    } else {
+        linear_response_sum::<6, 6>(m, a, width, offset, &GAUSS_LEGENDRE_12, response)
+    }
+}
+
+/// The sums of [`gauss_sum`] for [`linear_response_panel`], over a rule of `N` node pairs
+/// (a fixed size, so that the node loop unrolls).
+#[inline(always)]
+#[allow(clippy::inline_always)]
+fn linear_response_sum<const N: usize, const K: usize>(
+    m: u32,
+    a: f64,
+    width: f64,
+    offset: f64,
+    rule: &[(f64, f64); N],
+    response: &LinearResponse,
+) -> (f64, f64, f64) {
+    let half = 0.5 * width;
+    let mid = a + half;
+    // The shared exponential of [`gauss_sum`] (same conditions, same error argument; below
+    // mid = 1 from the inlined [`expm1_below_one`] instead of libm's), its
+    // series in d cut to the first K terms of sinh d and cosh d - 1: enough for the
+    // panel's widest |d| (see `linear_response_panel`).
+    let shared = half <= 0.125 && a >= half && mid <= 700.0;
+    // 1/(e^t - 1) = numerator/(base + factor expm1(d)) at t = mid + d. From mid = 1 on, in
+    // units of e^mid: with q = e^-mid, e^t - 1 = ((1 - q) + expm1(d))/q, so the panel
+    // needs no division of its own (where (1 - q)/q took one) and each node one; below,
+    // E + (E + 1) expm1(d) with E = expm1(mid). Either sum cancels as little as that of
+    // [`gauss_sum`] (the same sum, scaled).
+    let (numerator, base, factor) = if !shared {
+        (1.0, 0.0, 0.0)
+    } else if mid >= 1.0 {
+        let q = exp_neg_core(mid);
+        (q, 1.0 - q, 1.0)
+    } else {
+        let e_mid = expm1_below_one(mid);
+        (1.0, e_mid, e_mid + 1.0)
+    };
+    // p at the panel's centre; a node d from it has p = p_centre -+ sign d (the low node
+    // lies half - d into the panel), so that a node near the segment's small end keeps
+    // the digits of its small p.
+    let p_centre = response.sign * (offset + half) + response.start;
+    // Sums kept per node of a pair (low, high): two independent chains of the same
+    // operations, which the compiler can run side by side.
+    let mut low = (0.0, 0.0, 0.0);
+    let mut high = (0.0, 0.0, 0.0);
+    let node_value = |sums: &mut (f64, f64, f64), t: f64, p: f64, denominator: f64, w: f64| {
+        // 1/(e^t - 1).
+        let inv_e = numerator / denominator;
+        // G = t^(m-1)/(e^t - 1) for m = 1, 2, 3, and P = t G.
+        let g = match m {
+            1 => inv_e,
+            2 => t * inv_e,
+            _ => t * t * inv_e,
+        };
+        let planck = g * t;
+        let f = w * (response.edge * planck + response.rise * ((response.per_span * p) * g));
+        let d = f * (t * (1.0 + inv_e));
+        sums.0 += f;
+        sums.1 += d;
+        sums.2 += d * (t * (1.0 + 2.0 * inv_e) - 1.0);
+    };
+    for &(node, w) in rule {
+        let d = half * node;
+        let (t_low, t_high) = (mid - d, mid + d);
+        let (e_low, e_high) = if shared {
+            let d2 = d * d;
+            let sinh = d * horner(SINH_OVER_X.iter().take(K), d2);
+            let cosh_m1 = d2 * horner(COSH_M1_OVER_X2.iter().take(K), d2);
+            (
+                base + factor * (cosh_m1 - sinh),
+                base + factor * (cosh_m1 + sinh),
+            )
+        } else {
+            (libm::expm1(t_low), libm::expm1(t_high))
+        };
+        let sd = response.sign * d;
+        node_value(&mut low, t_low, p_centre - sd, e_low, w);
+        node_value(&mut high, t_high, p_centre + sd, e_high, w);
+    }
+    (
+        half * (low.0 + high.0),
+        half * (low.1 + high.1),
+        half * (low.2 + high.2),
+    )
+}
+
 /// An upper bound of the tail integral G_m(x) for x > m + 1, from one exponential:
 /// t^m e^-t decays at least at rate 1 - m/x beyond x, so
 /// G_m(x) <= x^m e^-x / (1 - e^-x) * x / (x - m).
@@ -594,8 +751,15 @@ pub(crate) fn tail_bound(m: u32, x: f64) -> f64 {
 
 /// Horner's scheme for coefficients stored lowest degree first.
 #[inline]
-fn horner(coefficients: &[f64], z: f64) -> f64 {
-    coefficients.iter().rev().fold(0.0, |acc, &c| acc * z + c)
+fn horner<'c, I>(coefficients: I, z: f64) -> f64
+where
+    I: IntoIterator<Item = &'c f64>,
+    I::IntoIter: DoubleEndedIterator,
+{
+    coefficients
+        .into_iter()
+        .rev()
+        .fold(0.0, |acc, &c| acc * z + c)
 }
 
 /// A polynomial (coefficients lowest degree first) by four interleaved Horner chains in
@@ -682,6 +846,35 @@ fn exp_neg_core(x: f64) -> f64 {
     // The low bits of `shifted` hold k (0 <= k <= 1022 for 0 <= x <= 708).
     let scale = f64::from_bits((1023 - (shifted.to_bits() & 0x3ff)) << 52);
     polynomial(&EXP_TAYLOR, -r) * scale
+}
+
+/// 1/(k+2)! for k = 0..=17: (expm1(x) - x)/x^2 = sum of these times x^k.
+const EXPM1_SERIES: [f64; 18] = {
+    let mut table = [0.0; 18];
+    let mut k = 0;
+    let mut factorial = 1.0;
+    let mut n = 2.0;
+    while k < 18 {
+        factorial *= n;
+        table[k] = 1.0 / factorial;
+        k += 1;
+        n += 1.0;
+    }
+    table
+};
+
+/// e^x - 1 for 0 <= x <= 1, inlined where libm's `expm1` is a call with range reduction:
+/// x + x^2 P(x) with P the Taylor polynomial of (expm1(x) - x)/x^2 to degree 17 (first
+/// dropped term x^19/20! <= 4.2e-19 of the result), evaluated by [`polynomial`]. Every
+/// term is positive and x^2 P(x) is at most 0.42 of the result, so P's rounding counts
+/// at most 0.42 times: within 1.5 ulp (1.4 ulp at x = 0.8888 against mpmath; against
+/// libm's `expm1`, itself within 1 ulp, at most 1.4 eps relative over x = 0..1 in steps of
+/// 1e-4: the test `expm1_below_one_matches_libm`). libm's `expm1` costs about 65
+/// instructions here, this about 30.
+#[allow(clippy::inline_always)]
+#[inline(always)]
+fn expm1_below_one(x: f64) -> f64 {
+    x + (x * x) * polynomial(&EXPM1_SERIES, x)
 }
 
 /// What a band integral needs at one of its ends x >= 0 (m = 2 photon, 3 energy).
@@ -904,6 +1097,78 @@ mod tests {
         assert!(worst <= 3.0 * f64::EPSILON, "worst {worst:e}");
         assert_eq!(exp_neg(800.0), 0.0);
         assert_eq!(exp_neg(f64::INFINITY), 0.0);
+    }
+
+    #[test]
+    fn expm1_below_one_matches_libm() {
+        let mut worst = 0.0_f64;
+        for i in 0..=10_000 {
+            let x = f64::from(i) * 1e-4;
+            let expected = libm::expm1(x);
+            if expected > 0.0 {
+                worst = worst.max(libm::fabs(expm1_below_one(x) - expected) / expected);
+            }
+        }
+        for x in [1e-300, 1e-30, 1e-8] {
+            let expected = libm::expm1(x);
+            worst = worst.max(libm::fabs(expm1_below_one(x) - expected) / expected);
+        }
+        // libm's expm1 within 1 ulp, the polynomial within 1.5 ulp (1.4 ulp at x = 0.8888
+        // against mpmath): at most 2.5 ulp apart, 2.5 eps relative (measured 1.4 eps).
+        assert!(worst <= 2.5 * f64::EPSILON, "worst {worst:e}");
+        assert_eq!(expm1_below_one(0.0), 0.0);
+    }
+
+    #[test]
+    fn linear_response_panel_matches_the_weighted_panel() {
+        // Panels across the rules and regimes (a below and above 1, widths for 4 to 12
+        // nodes, beyond the shared exponential's reach), both ends of a segment, both
+        // detector moments: the folded form against the generic weighted panel with the
+        // weight written out as in the band walk. Where both take the same rule, they
+        // differ by rounding only (a few per node: allowed 1e-15, worst seen 5.3e-16).
+        // Where the folded form takes 4 nodes and the generic one 6 (a >= 1, width in
+        // (0.03, 0.045]), the nodes differ too, and each node's position carries half an
+        // ulp of t, which moves t^m/(e^t - 1) by up to t ulp: allowed 4 (1 + a) eps (the
+        // truncation of either rule is below 6e-18, see `FOUR_NODE_WIDTH`).
+        let mut worst = 0.0_f64;
+        for m in [2, 3] {
+            for a in [0.02, 0.3, 0.9, 1.0, 2.5, 7.0, 40.0, 300.0, 699.0, 705.0] {
+                for fraction in [1e-4, 0.01, 0.029, 0.031, 0.044, 0.14, 0.16, 0.39, 0.41, 1.0] {
+                    let width = fraction * f64::min(a, 1.0);
+                    let same_rule = !(a >= 1.0 && width > 0.03 && width <= FOUR_NODE_WIDTH);
+                    let allowed = if same_rule {
+                        1e-15
+                    } else {
+                        4.0 * (1.0 + a) * f64::EPSILON
+                    };
+                    for (falls, offset) in [(true, 0.0), (false, 0.0), (true, 0.5), (false, 0.5)] {
+                        let offset = offset * width;
+                        let segment = offset + width;
+                        let response = LinearResponse {
+                            edge: 0.3,
+                            rise: 0.7,
+                            per_span: 1.0 / segment * a,
+                            sign: if falls { 1.0 } else { -1.0 },
+                            start: if falls { 0.0 } else { segment },
+                        };
+                        let folded = linear_response_panel(m, a, width, offset, &response);
+                        let generic = weighted_gauss_panel(m, a, width, |t, node_offset| {
+                            let p = response.sign * (offset + node_offset) + response.start;
+                            response.edge + response.rise * (response.per_span * (p / t))
+                        });
+                        for (x, y) in [
+                            (folded.0, generic.0),
+                            (folded.1, generic.1),
+                            (folded.2, generic.2),
+                        ] {
+                            assert!(y > 0.0, "m {m} a {a} width {width}");
+                            worst = worst.max(((x - y) / y).abs() / allowed);
+                        }
+                    }
+                }
+            }
+        }
+        assert!(worst < 1.0, "worst difference {worst:e} of the allowance");
     }
 
     #[test]

@@ -111,6 +111,47 @@ fn inversion_round_trips_over_the_reference_domain() {
     println!("round trip: worst |dT|/T {worst:e}, at most {max_iterations} evaluations");
 }
 
+/// The tabulated quadrature's widest 4-node panels (width up to 0.045 in x from x >= 1,
+/// `FOUR_NODE_WIDTH` in src/planck.rs; truncation below 6e-18 per panel by its error
+/// argument) against mpmath: the 100-point table at 200-600 K, the 20-point table at
+/// 1800-3400 K, where panel widths cross that limit, and the 5-point table at 1500-8000 K,
+/// whose segments are up to 0.45 wide. What is left is rounding, mostly that of
+/// x = c2/(lambda T), which moves the result by about x_max ulp (x_max = c2/(lo T) at the
+/// band's short end): allowed 2 (1 + x_max) eps. A rule wider than its error argument
+/// shows: a 4-node limit of 0.2 gives 2.3e-15 at 3000 K (allowed 1.9e-15), of 0.4 gives
+/// 2e-13 at 1500 K. (Between 0.045 and 0.2 the truncation stays below what a band
+/// integral in double precision resolves; the limit rests on the mpmath measurement
+/// stated at `FOUR_NODE_WIDTH`.)
+#[test]
+fn tabulated_panel_rules_match_mpmath() {
+    let rows = read_csv("tabulated_panel_rules.csv");
+    let mut worst = 0.0_f64;
+    for row in &rows {
+        let (wavelengths_um, values) = read_response(row.text("table"));
+        let table = SpectralTable::new(&wavelengths_um, &values).unwrap();
+        let det = detector(row);
+        let (lo_um, hi_um) = (row.f64("lo_um"), row.f64("hi_um"));
+        let temperature_k = row.f64("temperature_k");
+        let band = Band::with_response(lo_um, hi_um, det, table).unwrap();
+        let x_max = C2_UMK / (lo_um * temperature_k);
+        let allowed = 2.0 * (1.0 + x_max) * f64::EPSILON;
+        let error = assert_close(
+            &format!(
+                "line {}: {} {det:?} [{lo_um}, {hi_um}] at {temperature_k} K",
+                row.line,
+                row.text("table")
+            ),
+            band.radiance(temperature_k).unwrap(),
+            row.f64("radiance"),
+            allowed,
+            0.0,
+        );
+        worst = worst.max(error / allowed);
+    }
+    assert_eq!(rows.len(), 30, "the generator writes 30 rows");
+    println!("panel rules: worst error {worst:.2} of the allowance");
+}
+
 #[test]
 fn tabulated_inversion_round_trips() {
     for row in &read_csv("tabulated_band_radiance.csv") {

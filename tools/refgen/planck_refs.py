@@ -397,6 +397,26 @@ def tabulated_eval(row):
     return [fmt(value)]
 
 
+def panel_rule_rows(rng):
+    """Whole-table bands where the tabulated quadrature's 4-node rule reaches its widest
+    panels (width 0.03 to 0.045 in x from a lower end a >= 1): the 100-point table at
+    200-600 K (x = 1.7-10, panels 0.01-0.1 wide), the 20-point table at 1800-3400 K
+    (x = 0.8-2.7, panels 0.03-0.1 wide, across the limit near a = 1-2, where the 4-node
+    truncation is largest), and the 5-point table at 1500-8000 K (x = 1-6.6, segments
+    0.05-0.45 wide, the response vanishing at the table's ends: 4 nodes on the widest
+    would be 1e-12 off, so a rule far wider than its error argument shows)."""
+    del rng  # fixed rows
+    rows = []
+    for name, temps in (("invented_lwir_100", [200.0, 250.0, 300.0, 400.0, 600.0]),
+                        ("invented_mwir_20", [1800.0, 2200.0, 2600.0, 3000.0, 3400.0]),
+                        ("invented_swir_5", [1500.0, 2000.0, 3000.0, 5000.0, 8000.0])):
+        nodes, _ = invented_tables()[name]
+        for t in temps:
+            for det in ("energy", "photon"):
+                rows.append((det, name, nodes[0], nodes[-1], t))
+    return rows
+
+
 def switch_rows(rng):
     """Bands placed on the switches of the crate's band integral (src/planck.rs
     moment_integral): the end x = c2/(lambda T) on either side of 2 (head and tail fits),
@@ -483,6 +503,14 @@ FILES = {
         method="A per-segment closed form (r = alpha + beta lambda -> polylog differences of moments m and m-1), "
         "B tanh-sinh quadrature in lambda split at every node and every 4 in x; agree to 1e-32.",
     ),
+    "tabulated_panel_rules.csv": dict(
+        rows=panel_rule_rows, eval=tabulated_eval,
+        columns="detector,table,lo_um,hi_um,temperature_k,radiance",
+        what="Band radiance over INVENTED piecewise-linear responses (tests/data/response_<table>.csv) "
+        "where the tabulated quadrature's widest 4-node panels occur (width up to 0.045 in x from x >= 1).",
+        method="A per-segment closed form (r = alpha + beta lambda -> polylog differences of moments m and m-1), "
+        "B tanh-sinh quadrature in lambda split at every node and every 4 in x; agree to 1e-32.",
+    ),
 }
 
 
@@ -550,7 +578,7 @@ def check(stride):
         stored_by_inputs = {}
         n_values = {"spectral_radiance.csv": 2, "blackbody_fraction.csv": 3,
                     "band_radiance.csv": 2, "band_switch_points.csv": 2,
-                    "tabulated_band_radiance.csv": 1}[name]
+                    "tabulated_band_radiance.csv": 1, "tabulated_panel_rules.csv": 1}[name]
         for ln in stored:
             cells = ln.split(",")
             stored_by_inputs[tuple(cells[:-n_values])] = cells[-n_values:]
