@@ -447,7 +447,10 @@ pub struct Correction<'m> {
 /// True if every gain is finite and positive and every offset finite, tested in f32
 /// lanes the compiler vectorises: a sum of 0 * value turns NaN for any NaN or infinity,
 /// and the lane-wise minimum of the gains must be positive.
-#[inline(always)]
+// Forced inline only on x86-64 (into the AVX2 context). On the Cortex-M build forcing it
+// left `Zip::new` out of line with its division by the chunk size, a panic path the
+// firmware's link-time proof refuses.
+#[cfg_attr(all(target_arch = "x86_64", target_feature = "sse2"), inline(always))]
 fn maps_valid_fast(gain: &[f32], offset: &[f32]) -> bool {
     let valid = |g: f32, o: f32| g > 0.0 && g < f32::INFINITY && o.abs() < f32::INFINITY;
     let mut probe = [0.0f32; 16];
@@ -1017,9 +1020,10 @@ impl FrameConverter<'_> {
         self.fused_body(correction, counts, emissivity, kelvin, stage)
     }
 
-    /// [`FrameConverter::fused`] for one instruction set.
+    /// [`FrameConverter::fused`] for one instruction set (forced inline only on x86-64,
+    /// where it must inline into the AVX2 context; elsewhere the compiler decides).
     #[allow(clippy::too_many_lines)]
-    #[inline(always)]
+    #[cfg_attr(all(target_arch = "x86_64", target_feature = "sse2"), inline(always))]
     fn fused_body(
         &self,
         correction: &Correction<'_>,
