@@ -31,7 +31,10 @@
 
 use crate::constants::{C1L_UM, C1P_UM, C2_UMK};
 use crate::error::{check_temperature_k, finite, Error, Result};
-use crate::planck::{check_radiance, moment_integral, tail_bound, weighted_gauss_panel, Detector};
+use crate::planck::{
+    check_radiance, moment_integral, moment_integral_value, tail_bound, weighted_gauss_panel,
+    Detector,
+};
 
 /// Lowest temperature the inversion searches, in kelvin.
 pub const SOLVER_MIN_K: f64 = 0.1;
@@ -358,8 +361,31 @@ impl<'a> Band<'a> {
     /// band, 680 for a tabulated response), or a tabulated response so small that its
     /// integral is below 1e-290 (see `MIN_RESOLVED_INTEGRAL` in the source).
     pub fn radiance(&self, temperature_k: f64) -> Result<f64> {
+        if self.response.is_none() {
+            return self.rectangular_radiance(temperature_k);
+        }
         self.radiance_and_derivative(temperature_k)
             .map(|(radiance, _)| radiance)
+    }
+
+    /// [`Band::radiance`] of a rectangular band without the derivatives: the same
+    /// integral, validation and errors as [`Band::radiance_derivatives`] (the same
+    /// operations on I, so the same value to the bit), leaving out the edge terms and
+    /// the derivative integrals that only the inversion and `radiance_and_derivative`
+    /// need.
+    #[inline]
+    fn rectangular_radiance(&self, temperature_k: f64) -> Result<f64> {
+        let t = check_temperature_k(temperature_k)?;
+        let m = self.detector.moment();
+        let inv_t = 1.0 / t;
+        let (c2_hi, c2_lo, c2_width) = self.x_edges_k;
+        let integral = moment_integral_value(m, c2_hi * inv_t, c2_lo * inv_t, c2_width * inv_t);
+        let scale = scale_or_overflow(self.detector, t)?;
+        // As in `radiance_derivatives`: see [`MIN_RESOLVED_INTEGRAL`].
+        if integral < MIN_RESOLVED_INTEGRAL && self.hi_um * t < C2_UMK {
+            return Err(Error::RadianceUnderflow);
+        }
+        check_radiance(scale * integral)
     }
 
     /// Temperature derivative dL_band/dT, in radiance units per kelvin.

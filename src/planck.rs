@@ -599,28 +599,32 @@ fn horner(coefficients: &[f64], z: f64) -> f64 {
 }
 
 /// A polynomial (coefficients lowest degree first) by four interleaved Horner chains in
-/// z^4: p(z) = P0(z^4) + z P1(z^4) + z^2 P2(z^4) + z^3 P3(z^4). The same operations as
-/// Horner's scheme plus three, in a quarter of its dependency chain (the fits here have
-/// 10 to 12 coefficients: three steps instead of eleven). Each term c_i z^i passes through
-/// at most one rounding more than in Horner's scheme (the final combination), so for
-/// z >= 0 the rounding error stays within the first-order bound printed per fit in
+/// z^4: p(z) = P0(z^4) + z P1(z^4) + z^2 P2(z^4) + z^3 P3(z^4), lane j holding the
+/// coefficients c_j, c_(j+4), c_(j+8), ... The same operations as Horner's scheme plus
+/// three, in a quarter of its dependency chain (the fits here have 8 to 14 coefficients:
+/// two or three steps instead of up to thirteen). Each lane starts from its own highest
+/// coefficient, so a degree that is not 3 mod 4 costs no work on padding (the result is
+/// the same as with zero padding: 0 z^4 + c = c exactly). Each term c_i z^i passes
+/// through at most one rounding more than in Horner's scheme (the final combination), so
+/// for z >= 0 the rounding error stays within the first-order bound printed per fit in
 /// `moment_fit.rs` plus 1 ulp.
 #[inline]
-fn polynomial(coefficients: &[f64], z: f64) -> f64 {
+fn polynomial<const N: usize>(coefficients: &[f64; N], z: f64) -> f64 {
     let z2 = z * z;
     let z4 = z2 * z2;
-    let mut chunks = coefficients.chunks(4).rev();
-    let mut lanes = match chunks.next() {
-        Some(&[a, b, c, d]) => [a, b, c, d],
-        Some(&[a, b, c]) => [a, b, c, 0.0],
-        Some(&[a, b]) => [a, b, 0.0, 0.0],
-        Some(&[a]) => [a, 0.0, 0.0, 0.0],
-        _ => [0.0; 4],
-    };
-    for chunk in chunks {
-        for (lane, &c) in lanes.iter_mut().zip(chunk) {
-            *lane = *lane * z4 + c;
+    let mut lanes = [0.0; 4];
+    for (j, lane) in lanes.iter_mut().enumerate() {
+        if j >= N {
+            break;
         }
+        // The highest index i = j mod 4 below N, then down in steps of 4.
+        let mut i = j + (N - 1 - j) / 4 * 4;
+        let mut acc = coefficients.get(i).copied().unwrap_or(0.0);
+        while i >= j + 4 {
+            i -= 4;
+            acc = acc * z4 + coefficients.get(i).copied().unwrap_or(0.0);
+        }
+        *lane = acc;
     }
     let [p0, p1, p2, p3] = lanes;
     (p0 + z * p1) + z2 * (p2 + z * p3)
@@ -753,12 +757,21 @@ fn moment_end(m: u32, x: f64) -> MomentEnd {
 fn head_end(m: u32, x: f64) -> MomentEnd {
     let s = x * x;
     let bernoulli = (1.0 - 0.5 * x) + s * polynomial(&moment_fit::BERNOULLI, s);
-    let head = if m == 2 {
+    let head = head_value(m, x);
+    with_edges(m, x, head, moment_total(m) - head, bernoulli)
+}
+
+/// H_m(x) for 0 <= x < 2 from its fit (see [`moment_end`]).
+// Forced, as `head_end`.
+#[allow(clippy::inline_always)]
+#[inline(always)]
+fn head_value(m: u32, x: f64) -> f64 {
+    let s = x * x;
+    if m == 2 {
         s * ((0.5 - x * (1.0 / 6.0)) + s * polynomial(&moment_fit::HEAD_2, s))
     } else {
         s * x * ((1.0 / 3.0 - 0.125 * x) + s * polynomial(&moment_fit::HEAD_3, s))
-    };
-    with_edges(m, x, head, moment_total(m) - head, bernoulli)
+    }
 }
 
 /// [`moment_end`] for 2 <= x <= 708 (branch-free, so that two ends inline side by side).
@@ -781,18 +794,25 @@ fn tail_end(m: u32, x: f64) -> MomentEnd {
 #[allow(clippy::inline_always)]
 #[inline(always)]
 fn tail_terms(m: u32, x: f64, q: f64) -> (f64, f64) {
+    (tail_value(m, x, q), x * q / (1.0 - q))
+}
+
+/// G_m(x) from q = e^-x, x >= 2 (see [`moment_end`]).
+// Forced, as `tail_terms`.
+#[allow(clippy::inline_always)]
+#[inline(always)]
+fn tail_value(m: u32, x: f64, q: f64) -> f64 {
     let a1 = polynomial(&moment_fit::POLYLOG_1, q);
     let a2 = polynomial(&moment_fit::POLYLOG_2, q);
     let a3 = polynomial(&moment_fit::POLYLOG_3, q);
     let x2 = x * x;
     // Summed in two halves so that the powers of x and the polynomials run side by side.
-    let tail = if m == 2 {
+    if m == 2 {
         q * ((x2 * a1) + (2.0 * x * a2 + 2.0 * a3))
     } else {
         let a4 = polynomial(&moment_fit::POLYLOG_4, q);
         q * ((x2 * x * a1 + 3.0 * x2 * a2) + (6.0 * x * a3 + 6.0 * a4))
-    };
-    (tail, x * q / (1.0 - q))
+    }
 }
 
 /// Completes a [`MomentEnd`] with the edge terms from B(x).
@@ -873,6 +893,114 @@ pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64, 
         m1 * integral + edge,
         m1 * (m1 * integral + 2.0 * edge) + (end_b.edge_slope - end_a.edge_slope),
     )
+}
+
+/// (H_m(x), G_m(x)) at one end for a band radiance without derivatives: the values of
+/// [`moment_end`] by the same operations (so the same to the bit), without the edge
+/// terms and B(x).
+#[inline]
+fn end_value(m: u32, x: f64) -> (f64, f64) {
+    if x < SPLIT_X {
+        head_pair(m, x)
+    } else if x <= EXP_NEG_NORMAL_MAX {
+        tail_pair(m, x)
+    } else {
+        // As in `moment_end`.
+        let q = libm::exp(-x);
+        if q == 0.0 {
+            return (moment_total(m), 0.0);
+        }
+        let tail = tail_value(m, x, q);
+        (moment_total(m) - tail, tail)
+    }
+}
+
+/// (H_m, G_m) for 0 <= x < 2, as [`head_end`].
+// Forced, as `head_end`.
+#[allow(clippy::inline_always)]
+#[inline(always)]
+fn head_pair(m: u32, x: f64) -> (f64, f64) {
+    let head = head_value(m, x);
+    (head, moment_total(m) - head)
+}
+
+/// (H_m, G_m) for 2 <= x <= 708, as [`tail_end`].
+// Forced, as `tail_end`.
+#[allow(clippy::inline_always)]
+#[inline(always)]
+fn tail_pair(m: u32, x: f64) -> (f64, f64) {
+    let tail = tail_value(m, x, exp_neg_core(x));
+    (moment_total(m) - tail, tail)
+}
+
+/// The integral I of [`moment_integral`] alone, for a band radiance without derivatives:
+/// the same method and the same operations on I (so the same value to the bit), without
+/// the edge terms, B(x) and the derivative sums.
+#[must_use]
+pub(crate) fn moment_integral_value(m: u32, a: f64, b: f64, width: f64) -> f64 {
+    if width <= NARROW_X && a >= 0.5 * width {
+        return if width <= 0.03 {
+            panel_value(m, a, width, &GAUSS_LEGENDRE_4)
+        } else {
+            panel_value(m, a, width, &GAUSS_LEGENDRE_6)
+        };
+    }
+    let ((head_a, tail_a), (head_b, tail_b)) = if b < SPLIT_X {
+        (head_pair(m, a), head_pair(m, b))
+    } else if a >= SPLIT_X && b <= EXP_NEG_NORMAL_MAX {
+        (tail_pair(m, a), tail_pair(m, b))
+    } else {
+        (end_value(m, a), end_value(m, b))
+    };
+    if tail_a <= head_b {
+        tail_a - tail_b
+    } else {
+        head_b - head_a
+    }
+}
+
+/// The first sum of `gauss_sum` for a unit weight (the integral of t^m/(e^t - 1) over
+/// [a, a + width] by the Gauss-Legendre `rule`) by the same operations in the same order,
+/// so the same value to the bit as [`gauss_panel`]'s, without the derivative sums.
+#[inline]
+fn panel_value(m: u32, a: f64, width: f64, rule: &[(f64, f64)]) -> f64 {
+    let half = 0.5 * width;
+    let mid = a + half;
+    // As in `gauss_sum`: one shared exponential for the panel where it is safe.
+    let shared = if half <= 0.125 && a >= half && mid <= 700.0 {
+        Some(if mid >= 1.0 {
+            let q = exp_neg_core(mid);
+            (1.0 - q) / q
+        } else {
+            libm::expm1(mid)
+        })
+    } else {
+        None
+    };
+    let mut sum = 0.0;
+    for &(node, w) in rule {
+        let d = half * node;
+        let expm1_pair = shared.map(|e_mid| {
+            let d2 = d * d;
+            let sinh = d * horner(&SINH_OVER_X, d2);
+            let cosh_m1 = d2 * horner(&COSH_M1_OVER_X2, d2);
+            let scale = e_mid + 1.0;
+            (
+                e_mid + scale * (cosh_m1 - sinh),
+                e_mid + scale * (cosh_m1 + sinh),
+            )
+        });
+        for (t, e_shared) in [
+            (mid - d, expm1_pair.map(|p| p.0)),
+            (mid + d, expm1_pair.map(|p| p.1)),
+        ] {
+            let e = e_shared.unwrap_or_else(|| libm::expm1(t));
+            let planck = power(m, t) * (1.0 / e);
+            // `gauss_sum` forms w * weight = w * 1 (exact) times the Planck factor.
+            sum += w * planck;
+        }
+    }
+    half * sum
 }
 
 #[cfg(test)]
