@@ -304,6 +304,10 @@ pub(crate) fn moment_total(m: u32) -> f64 {
 /// Where the two expansions of the moment integrals meet.
 const SPLIT_X: f64 = 2.0;
 
+/// Where the head fits of the band integrals give way to the tail fits (see
+/// [`moment_end`]; `X_SPLIT` in `tools/refgen/moment_fits.py`).
+const FIT_SPLIT_X: f64 = 3.0;
+
 /// B_2j / (2j)! for j = 1..=20: coefficients of t/(e^t - 1) = 1 - t/2 + sum c_j t^2j,
 /// evaluated with mpmath (`bernoulli(2j)/factorial(2j)`). The series converges for
 /// |t| < 2 pi; at t = 2 the 20th term is below 1e-20 of the first.
@@ -702,29 +706,35 @@ struct MomentEnd {
 }
 
 /// H_m, G_m and the edge terms at x >= 0, at a cost that does not depend on x: two fixed
-/// polynomials for x < 2, one exponential and m + 1 fixed polynomials beyond
-/// (coefficients from `tools/refgen/moment_fits.py`, in `moment_fit.rs`).
+/// polynomials for x < 3, one exponential and m + 1 fixed polynomials beyond
+/// (coefficients from `tools/refgen/moment_fits.py`, in `moment_fit.rs`). The split sits
+/// at x = 3 ([`FIT_SPLIT_X`]) rather than 2 because the m + 1 tail fits then need degree
+/// 7 or 8 instead of 11, for three more degrees in the one head fit a band radiance uses.
 ///
-/// - x < 2, s = x^2: B(x) = 1 - x/2 + s PB(s) and
+/// - x < 3, s = x^2: B(x) = 1 - x/2 + s PB(s) and
 ///   H_m(x) = x^m (1/m - x/(2(m+1)) + s PH_m(s)) (the Bernoulli-number expansions,
-///   fitted on s in [0, 4]: truncation below 7e-18 relative); G_m = m! zeta(m+1) - H_m,
-///   which cannot cancel there (G_m(x) >= G_m(2) > 0.8 m! zeta(m+1)).
-/// - x >= 2, q = e^-x <= e^-2: G_2 = q (x^2 A1 + 2x A2 + 2 A3),
+///   fitted on s in [0, 9]: truncation below 5e-18 relative); G_m = m! zeta(m+1) - H_m,
+///   which cannot cancel there (G_m(x) >= G_m(3) = 0.36 m! zeta(m+1) for m = 2, 0.61
+///   for m = 3: at most 2.8 times the error of H_m relative).
+/// - x >= 3, q = e^-x <= e^-3: G_2 = q (x^2 A1 + 2x A2 + 2 A3),
 ///   G_3 = q (x^3 A1 + 3x^2 A2 + 6x A3 + 6 A4) with A_k(q) = Li_k(q)/q fitted on
-///   [0, e^-2] (truncation below 6e-18); every term is positive. B = x q/(1 - q), and
-///   H_m = m! zeta(m+1) - G_m (H_m(x) >= H_m(2), so at most 5.5 times the error of G_m
-///   relative: H_3(2) = 1.18 of 6.49).
+///   [0, e^-3] (truncation below 2e-18); every term is positive. B = x q/(1 - q), and
+///   H_m = m! zeta(m+1) - G_m (H_m(x) >= H_m(3), so at most 2.6 times the error of G_m
+///   relative: H_3(3) = 2.55 of 6.49, H_2(3) = 1.54 of 2.40).
 ///
-/// Error of each value, relative: coefficients rounded to doubles 5.5e-17 at most
-/// (B; the others below 2e-17), Horner's rounding at most 1.5e-16 (first-order bounds,
-/// printed per fit in `moment_fit.rs`), libm's `exp` below 1 ulp, and 3 to 5 roundings
-/// in combining the terms (all positive, or for the heads 1/m - x/(2(m+1)) losing at
-/// most a factor 2.3): below 8 ulp (1.8e-15) for each of H_m, G_m, h, x h' in its own
-/// region, and 5.5 times that for a value converted across the split at x = 2. The
-/// tests hold the band integrals built from them to 1e-13 against mpmath.
+/// Error of each value, relative: coefficients rounded to doubles below 6e-17 (B up to
+/// 2.5e-16 near x = 3, where 1 - x/2 + s PB(s) cancels to B(3) = 0.157), Horner's
+/// rounding at most 2.6e-16 (B 8.9e-16; first-order bounds, printed per fit in
+/// `moment_fit.rs`), the inlined exponential within 3 ulp, and 3 to 5 roundings in
+/// combining the terms (all positive for the tails; for the heads 1/m - x/(2(m+1)) +
+/// s PH_m(s) cancels by at most a factor 9 at x = 3, about 3 ulp of its result): below
+/// 12 ulp (2.7e-15) for each of H_m, G_m, h, x h' in its own region, and 2.8 times that
+/// for a value converted across the split at x = 3. The tests hold the band integrals
+/// built from them to 1e-13 against mpmath (`tests/band_switch_points.rs`,
+/// `tests/band_fit_split.rs` on both sides of x = 3 and over the operating grid).
 #[inline]
 fn moment_end(m: u32, x: f64) -> MomentEnd {
-    if x < SPLIT_X {
+    if x < FIT_SPLIT_X {
         head_end(m, x)
     } else if x <= EXP_NEG_NORMAL_MAX {
         tail_end(m, x)
@@ -747,7 +757,7 @@ fn moment_end(m: u32, x: f64) -> MomentEnd {
     }
 }
 
-/// [`moment_end`] for 0 <= x < 2 (branch-free, so that two ends inline side by side).
+/// [`moment_end`] for 0 <= x < 3 (branch-free, so that two ends inline side by side).
 // Forced: the two band ends are evaluated by the same straight-line code side by
 // side (see `moment_ends`), which the compiler packs into vector registers only when
 // all of it is inlined (measured with callgrind: 6 % fewer instructions per band
@@ -761,7 +771,7 @@ fn head_end(m: u32, x: f64) -> MomentEnd {
     with_edges(m, x, head, moment_total(m) - head, bernoulli)
 }
 
-/// H_m(x) for 0 <= x < 2 from its fit (see [`moment_end`]).
+/// H_m(x) for 0 <= x < 3 from its fit (see [`moment_end`]).
 // Forced, as `head_end`.
 #[allow(clippy::inline_always)]
 #[inline(always)]
@@ -774,7 +784,7 @@ fn head_value(m: u32, x: f64) -> f64 {
     }
 }
 
-/// [`moment_end`] for 2 <= x <= 708 (branch-free, so that two ends inline side by side).
+/// [`moment_end`] for 3 <= x <= 708 (branch-free, so that two ends inline side by side).
 // Forced: the two band ends are evaluated by the same straight-line code side by
 // side (see `moment_ends`), which the compiler packs into vector registers only when
 // all of it is inlined (measured with callgrind: 6 % fewer instructions per band
@@ -786,7 +796,7 @@ fn tail_end(m: u32, x: f64) -> MomentEnd {
     with_edges(m, x, moment_total(m) - tail, tail, bernoulli)
 }
 
-/// G_m(x) and B(x) from q = e^-x, x >= 2.
+/// G_m(x) and B(x) from q = e^-x, x >= 3.
 // Forced: the two band ends are evaluated by the same straight-line code side by
 // side (see `moment_ends`), which the compiler packs into vector registers only when
 // all of it is inlined (measured with callgrind: 6 % fewer instructions per band
@@ -797,7 +807,7 @@ fn tail_terms(m: u32, x: f64, q: f64) -> (f64, f64) {
     (tail_value(m, x, q), x * q / (1.0 - q))
 }
 
-/// G_m(x) from q = e^-x, x >= 2 (see [`moment_end`]).
+/// G_m(x) from q = e^-x, x >= 3 (see [`moment_end`]).
 // Forced, as `tail_terms`.
 #[allow(clippy::inline_always)]
 #[inline(always)]
@@ -837,10 +847,10 @@ fn with_edges(m: u32, x: f64, head: f64, tail: f64, bernoulli: f64) -> MomentEnd
 /// interleaves (and may pack into vector registers); the work per end is unchanged.
 #[inline]
 fn moment_ends(m: u32, a: f64, b: f64) -> (MomentEnd, MomentEnd) {
-    if b < SPLIT_X {
+    if b < FIT_SPLIT_X {
         let [end_a, end_b] = [a, b].map(|x| head_end(m, x));
         (end_a, end_b)
-    } else if a >= SPLIT_X && b <= EXP_NEG_NORMAL_MAX {
+    } else if a >= FIT_SPLIT_X && b <= EXP_NEG_NORMAL_MAX {
         let [end_a, end_b] = [a, b].map(|x| tail_end(m, x));
         (end_a, end_b)
     } else {
@@ -873,8 +883,9 @@ const NARROW_X: f64 = 0.25;
 ///   is at most about 2/w near the peak of f and 1/(1 - e^-w) far from it, so at most 8
 ///   for w >= 0.25, and at most 1.3 for w < 0.25 with a < w/2 (then a < b/3 and
 ///   b < 0.375, where H_m(a)/H_m(b) < (a/b)^m <= 1/9). With the ends' errors
-///   of [`moment_end`] this keeps I within 3e-15 relative, D within the same and D2
-///   (used only by the inversion's Halley correction) within a few digits of it.
+///   of [`moment_end`] this keeps I within 2.5e-14 relative (a bound; measured below
+///   4e-14 against mpmath for x < 100), D within the same and D2 (used only by the inversion's
+///   Halley correction) within a few digits of it.
 #[must_use]
 pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64, f64) {
     if width <= NARROW_X && a >= 0.5 * width {
@@ -900,7 +911,7 @@ pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64, 
 /// terms and B(x).
 #[inline]
 fn end_value(m: u32, x: f64) -> (f64, f64) {
-    if x < SPLIT_X {
+    if x < FIT_SPLIT_X {
         head_pair(m, x)
     } else if x <= EXP_NEG_NORMAL_MAX {
         tail_pair(m, x)
@@ -915,7 +926,7 @@ fn end_value(m: u32, x: f64) -> (f64, f64) {
     }
 }
 
-/// (H_m, G_m) for 0 <= x < 2, as [`head_end`].
+/// (H_m, G_m) for 0 <= x < 3, as [`head_end`].
 // Forced, as `head_end`.
 #[allow(clippy::inline_always)]
 #[inline(always)]
@@ -924,7 +935,7 @@ fn head_pair(m: u32, x: f64) -> (f64, f64) {
     (head, moment_total(m) - head)
 }
 
-/// (H_m, G_m) for 2 <= x <= 708, as [`tail_end`].
+/// (H_m, G_m) for 3 <= x <= 708, as [`tail_end`].
 // Forced, as `tail_end`.
 #[allow(clippy::inline_always)]
 #[inline(always)]
@@ -945,9 +956,9 @@ pub(crate) fn moment_integral_value(m: u32, a: f64, b: f64, width: f64) -> f64 {
             panel_value(m, a, width, &GAUSS_LEGENDRE_6)
         };
     }
-    let ((head_a, tail_a), (head_b, tail_b)) = if b < SPLIT_X {
+    let ((head_a, tail_a), (head_b, tail_b)) = if b < FIT_SPLIT_X {
         (head_pair(m, a), head_pair(m, b))
-    } else if a >= SPLIT_X && b <= EXP_NEG_NORMAL_MAX {
+    } else if a >= FIT_SPLIT_X && b <= EXP_NEG_NORMAL_MAX {
         (tail_pair(m, a), tail_pair(m, b))
     } else {
         (end_value(m, a), end_value(m, b))
