@@ -455,9 +455,15 @@ const GAUSS_LEGENDRE_8: [(f64, f64); 4] = [
 /// 1e-17 relative for every a >= 0 (measured against mpmath for m = 2, 3 over
 /// a = 0.001 .. 700; the nearest singularities are the poles at +-2 pi i):
 /// 4 nodes for width <= 0.03 (error <= 8e-18), 6 for <= 0.25 (5e-20), 8 for <= 1 (5e-20).
+/// A panel with a >= width/2 and width <= 0.25 (the only ones `moment_integral` takes)
+/// goes through [`panel_sums`], the same sums inlined.
 fn gauss_panel(m: u32, a: f64, width: f64) -> (f64, f64, f64) {
     let unit = |_: f64, _: f64| 1.0;
-    if width <= 0.03 {
+    if a >= 0.5 * width && width <= 0.03 {
+        panel_sums::<true, 2>(m, a, width, &GAUSS_LEGENDRE_4)
+    } else if a >= 0.5 * width && width <= 0.25 {
+        panel_sums::<true, 3>(m, a, width, &GAUSS_LEGENDRE_6)
+    } else if width <= 0.03 {
         gauss_sum(m, a, width, &GAUSS_LEGENDRE_4, unit)
     } else if width <= 0.25 {
         gauss_sum(m, a, width, &GAUSS_LEGENDRE_6, unit)
@@ -951,9 +957,9 @@ fn tail_pair(m: u32, x: f64) -> (f64, f64) {
 pub(crate) fn moment_integral_value(m: u32, a: f64, b: f64, width: f64) -> f64 {
     if width <= NARROW_X && a >= 0.5 * width {
         return if width <= 0.03 {
-            panel_value(m, a, width, &GAUSS_LEGENDRE_4)
+            panel_sums::<false, 2>(m, a, width, &GAUSS_LEGENDRE_4).0
         } else {
-            panel_value(m, a, width, &GAUSS_LEGENDRE_6)
+            panel_sums::<false, 3>(m, a, width, &GAUSS_LEGENDRE_6).0
         };
     }
     let ((head_a, tail_a), (head_b, tail_b)) = if b < FIT_SPLIT_X {
@@ -970,11 +976,20 @@ pub(crate) fn moment_integral_value(m: u32, a: f64, b: f64, width: f64) -> f64 {
     }
 }
 
-/// The first sum of `gauss_sum` for a unit weight (the integral of t^m/(e^t - 1) over
-/// [a, a + width] by the Gauss-Legendre `rule`) by the same operations in the same order,
-/// so the same value to the bit as [`gauss_panel`]'s, without the derivative sums.
-#[inline]
-fn panel_value(m: u32, a: f64, width: f64, rule: &[(f64, f64)]) -> f64 {
+/// [`gauss_panel`] for a rectangular band (unit weight, width <= 0.25, a >= width/2):
+/// the sums of `gauss_sum` by the same operations in the same order, inlined with the
+/// rule's size known, and with `DERIVATIVES` false only the first (the integral, the
+/// same value to the bit), for a band radiance without derivatives.
+// Forced: inlined with the rule's size known, the node loop unrolls, and without
+// derivatives their sums are removed.
+#[allow(clippy::inline_always)]
+#[inline(always)]
+fn panel_sums<const DERIVATIVES: bool, const N: usize>(
+    m: u32,
+    a: f64,
+    width: f64,
+    rule: &[(f64, f64); N],
+) -> (f64, f64, f64) {
     let half = 0.5 * width;
     let mid = a + half;
     // As in `gauss_sum`: one shared exponential for the panel where it is safe.
@@ -989,6 +1004,8 @@ fn panel_value(m: u32, a: f64, width: f64, rule: &[(f64, f64)]) -> f64 {
         None
     };
     let mut sum = 0.0;
+    let mut sum_derivative = 0.0;
+    let mut sum_second = 0.0;
     for &(node, w) in rule {
         let d = half * node;
         let expm1_pair = shared.map(|e_mid| {
@@ -1006,12 +1023,19 @@ fn panel_value(m: u32, a: f64, width: f64, rule: &[(f64, f64)]) -> f64 {
             (mid + d, expm1_pair.map(|p| p.1)),
         ] {
             let e = e_shared.unwrap_or_else(|| libm::expm1(t));
-            let planck = power(m, t) * (1.0 / e);
+            let inv_e = 1.0 / e;
+            let planck = power(m, t) * inv_e;
             // `gauss_sum` forms w * weight = w * 1 (exact) times the Planck factor.
             sum += w * planck;
+            if DERIVATIVES {
+                // The kernels k1 and k2 of `gauss_sum`, in its operations.
+                let derivative = w * (planck * (t * (1.0 + inv_e)));
+                sum_derivative += derivative;
+                sum_second += derivative * (t * (1.0 + 2.0 * inv_e) - 1.0);
+            }
         }
     }
-    half * sum
+    (half * sum, half * sum_derivative, half * sum_second)
 }
 
 #[cfg(test)]
