@@ -639,15 +639,15 @@ impl<'a> Band<'a> {
     /// As [`Band::temperature`].
     pub fn solve_temperature(&self, radiance: f64) -> Result<Solution> {
         check_target(radiance)?;
-        let guess_k = self.guess_k(radiance);
         let start_k = if self.response.is_none() {
-            match self.rectangular_halley(radiance, self.rayleigh_jeans_guess_k(radiance, guess_k))
-            {
+            let guess_k = self.centroid_guess_k(radiance, ln_approx);
+            let start_k = self.rayleigh_jeans_guess_k(radiance, guess_k);
+            match self.rectangular_halley(radiance, start_k) {
                 Ok(solution) => return Ok(solution),
                 Err(last_k) => last_k,
             }
         } else {
-            guess_k
+            self.guess_k(radiance)
         };
         solve_core(|t| self.radiance_derivatives(t), radiance, start_k)
     }
@@ -700,11 +700,14 @@ impl<'a> Band<'a> {
                     residual: 0.0,
                 });
             }
-            // ln(L/target) as in `solve_core`: the series where it is exact to r^4/4.
-            let log_ratio = if libm::fabs(r) < 1e-4 {
+            // ln(L/target) as in `solve_core`: the series where it is exact to r^4/4,
+            // else first the cheaper [`ln_approx`] (5e-9 relative), recomputed with
+            // libm's `log1p` if the step it gives may be final.
+            let series = libm::fabs(r) < 1e-4;
+            let mut log_ratio = if series {
                 r * (1.0 - r * (0.5 - r * (1.0 / 3.0)))
             } else {
-                libm::log1p(r)
+                ln_approx(r)
             };
             // D and D2 relative to I (P1 = D/I and D2/I, both of order 1 to 1e3), so
             // that no product below leaves the normal range (I itself may be 1e-295);
@@ -712,8 +715,13 @@ impl<'a> Band<'a> {
             let inv_i = 1.0 / i;
             let p1 = d * inv_i;
             let p2 = d2 * inv_i;
-            let numerator = log_ratio * p1;
-            let denominator = p1 * p1 - 0.5 * log_ratio * (p1 + p2 - p1 * p1);
+            let mut numerator = log_ratio * p1;
+            let mut denominator = p1 * p1 - 0.5 * log_ratio * (p1 + p2 - p1 * p1);
+            if !series && libm::fabs(numerator) <= 2.0 * HALLEY_FINAL_STEP * denominator {
+                log_ratio = libm::log1p(r);
+                numerator = log_ratio * p1;
+                denominator = p1 * p1 - 0.5 * log_ratio * (p1 + p2 - p1 * p1);
+            }
             // Halley's correction moderate (factor den/P1^2 within (1/2, 2), as in
             // `solve_core`), else the safeguarded solver.
             if !(denominator > 0.5 * p1 * p1 && denominator < 2.0 * p1 * p1) {
@@ -783,6 +791,13 @@ impl<'a> Band<'a> {
     /// line of the band's effective width (exact for a delta band).
     #[must_use]
     pub fn guess_k(&self, radiance: f64) -> f64 {
+        self.centroid_guess_k(radiance, libm::log1p)
+    }
+
+    /// [`Band::guess_k`] with the natural logarithm ln(1 + z) given (libm's `log1p`, or
+    /// [`ln_approx`] where a start need not carry every digit).
+    #[inline]
+    fn centroid_guess_k<F: Fn(f64) -> f64>(&self, radiance: f64, ln_1p: F) -> f64 {
         let lambda = self.centroid_um;
         let lambda2 = lambda * lambda;
         let (c1, lambda_pow) = match self.detector {
@@ -791,13 +806,46 @@ impl<'a> Band<'a> {
         };
         let spectral = radiance / self.width_um;
         let ratio = c1 / lambda_pow / spectral;
-        let guess = C2_UMK / (lambda * libm::log1p(ratio));
+        let guess = C2_UMK / (lambda * ln_1p(ratio));
         if guess.is_finite() && guess > SOLVER_MIN_K && guess < SOLVER_MAX_K {
             guess
         } else {
             1000.0
         }
     }
+}
+
+/// ln(1 + z) for a start or a step that the next step corrects: ln of the double 1 + z by
+/// its exponent and mantissa, 1 + z = 2^k w with w in [sqrt(1/2), sqrt(2)), and
+/// ln w = 2 atanh(s), s = (w - 1)/(w + 1), |s| <= 0.1716, by the series
+/// 2 s (1 + s^2/3 + ... + s^12/13) (truncation below 1.3e-12 relative). Error below
+/// 5e-13 absolute plus the rounding of 1 + z (1.1e-16 absolute) and 2 ulp of the result
+/// (the test `ln_approx_is_within_its_bound_of_libm`): for |z| >= 1e-4 within 5e-9
+/// relative. Not for final results: [`Band::rectangular_halley`] recomputes a step
+/// with libm's `log1p` before accepting it as final. For 1 + z not a positive normal
+/// finite double the result is NaN (which fails every check after it).
+fn ln_approx(z: f64) -> f64 {
+    const SQRT_2: f64 = core::f64::consts::SQRT_2;
+    let y = 1.0 + z;
+    if !(f64::MIN_POSITIVE..f64::INFINITY).contains(&y) {
+        return f64::NAN;
+    }
+    let bits = y.to_bits();
+    // The exponent field of a positive normal double is 1..=2046.
+    let exponent = f64::from(u32::try_from((bits >> 52) & 0x7ff).unwrap_or(1023)) - 1023.0;
+    let mut w = f64::from_bits((bits & 0x000f_ffff_ffff_ffff) | 0x3ff0_0000_0000_0000);
+    let mut k = exponent;
+    if w > SQRT_2 {
+        w *= 0.5;
+        k += 1.0;
+    }
+    let s = (w - 1.0) / (w + 1.0);
+    let s2 = s * s;
+    let series = 1.0
+        + s2 * (1.0 / 3.0
+            + s2 * (1.0 / 5.0
+                + s2 * (1.0 / 7.0 + s2 * (1.0 / 9.0 + s2 * (1.0 / 11.0 + s2 * (1.0 / 13.0))))));
+    k * core::f64::consts::LN_2 + 2.0 * s * series
 }
 
 /// The panel walk over one table segment, shared by [`Band::panels`] and
@@ -1035,6 +1083,36 @@ impl SignalCurve for Band<'_> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn ln_approx_is_within_its_bound_of_libm() {
+        // Against libm's log1p: 5e-13 absolute plus the rounding of 1 + z and 2 ulp of
+        // the result, i.e. within
+        // 5e-9 relative for |z| >= 1e-4, over z from -0.9999 to 1e300.
+        let mut z = -0.9999_f64;
+        let mut count = 0;
+        while z < 1e300 {
+            let expected = libm::log1p(z);
+            let error = libm::fabs(ln_approx(z) - expected);
+            let bound = 5e-13 + 2.3e-16 + 4.5e-16 * libm::fabs(expected);
+            assert!(error <= bound, "z = {z}: {error:e}");
+            if libm::fabs(z) >= 1e-4 {
+                assert!(error <= 5e-9 * libm::fabs(expected), "z = {z}: {error:e}");
+            }
+            z = if z < -1e-3 {
+                z * 0.93
+            } else if z < 1e-3 {
+                z + 1.3e-4
+            } else {
+                z * 1.37
+            };
+            count += 1;
+        }
+        assert!(count > 2000, "{count}");
+        assert!(ln_approx(-1.0).is_nan());
+        assert!(ln_approx(f64::INFINITY).is_nan());
+        assert!(ln_approx(f64::NAN).is_nan());
+    }
 
     #[test]
     fn extreme_temperatures_end_in_errors_not_loops() {
