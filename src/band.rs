@@ -16,7 +16,7 @@
 //! integral of r(lambda(x)) x^m/(e^x - 1) dx (m = 3 energy, 2 photon).
 //! - Rectangular band, at a cost that does not depend on where the band lies: a band no
 //!   wider than 0.25 in x (and not reaching near x = 0) is one Gauss-Legendre panel of 4
-//!   or 6 nodes sharing one exponential; a wider one takes differences of the moment
+//!   or 5 nodes sharing one exponential; a wider one takes differences of the moment
 //!   integrals at its ends, evaluated from fixed polynomial fits (generated with mpmath
 //!   by `tools/refgen/moment_fits.py`) with one exponential per end, choosing the
 //!   difference of the smaller operands ([`crate::planck`]). Relative error below 1e-13
