@@ -744,9 +744,9 @@ impl<'a> Band<'a> {
     }
 
     /// The starting temperature of a rectangular band's inversion: `guess_k` (Planck's
-    /// law at the centroid) where the band lies on the Wien side, and on the
-    /// Rayleigh-Jeans side (x = c2/(lo T) below 2.5 at `guess_k`, where the centroid
-    /// guess is up to 20 % off for a wide band) the band integral's Bernoulli expansion
+    /// law at the centroid) where the band lies on the Wien side or is narrow, and for a
+    /// wide band (hi/lo >= 1.3) on the Rayleigh-Jeans side (x = c2/(lo T) below 2.5 at
+    /// `guess_k`, where the centroid guess is up to 20 % off) the band integral's Bernoulli expansion
     /// to its third term inverted in closed form:
     /// H_m(x) = x^m/m - x^(m+1)/(2(m+1)) + x^(m+2)/(12(m+2)) - O(x^(m+4)/(720(m+4)))
     /// at both ends makes L/K = A T - B + C/T (K = c1/c2^(m+1), alpha = c2/hi,
@@ -758,7 +758,9 @@ impl<'a> Band<'a> {
     /// start only: the solver's accuracy does not depend on it.
     fn rayleigh_jeans_guess_k(&self, radiance: f64, guess_k: f64) -> f64 {
         let (alpha, beta, _) = self.x_edges_k;
-        if !(beta < 2.5 * guess_k) {
+        // Only for a wide band (hi/lo >= 1.3): over a narrower one the centroid guess is
+        // within 3 % and leads to two evaluations as well.
+        if !(beta < 2.5 * guess_k && beta >= 1.3 * alpha) {
             return guess_k;
         }
         let (m, k) = match self.detector {
