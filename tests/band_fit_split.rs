@@ -89,3 +89,28 @@ proptest! {
         );
     }
 }
+
+proptest! {
+    /// The inversion keeps full precision on both sides of the Rayleigh-Jeans start (a
+    /// wide band, hi/lo >= 1.3, with x = c2/(lo T) around 2.5 and below) and on the Wien
+    /// side: |T - T(L(T))| within `ROUND_TRIP_FULL_REL`.
+    #[test]
+    fn inversion_round_trips_to_full_precision(
+        det in any_detector(),
+        lo_um in 0.3_f64..20.0,
+        ratio in 1.0001_f64..3.0,
+        temperature_k in 150.0_f64..4000.0,
+    ) {
+        let band = Band::rectangular(lo_um, lo_um * ratio, det).unwrap();
+        if let Ok(radiance) = band.radiance(temperature_k) {
+            let solution = band.solve_temperature(radiance).unwrap();
+            prop_assert!(
+                (solution.temperature_k - temperature_k).abs()
+                    <= tol::ROUND_TRIP_FULL_REL * temperature_k,
+                "{temperature_k} K came back as {} K after {} evaluations",
+                solution.temperature_k,
+                solution.iterations
+            );
+        }
+    }
+}
