@@ -654,12 +654,13 @@ impl<'a> Band<'a> {
 
     /// The inversion of a rectangular band without safeguards: at most
     /// [`RECTANGULAR_HALLEY_EVALUATIONS`] Halley steps on g(u) = ln L(1/u) from `guess_k`,
-    /// each from one evaluation of I, D and D2 ([`moment_integral`]) and one division;
-    /// the first step no longer than [`HALLEY_FINAL_STEP`] (relative) ends it, as in
-    /// [`solve_core`] (an error of order 1e-17 T).
+    /// each from one evaluation of I, D and D2 ([`moment_integral`]) and three divisions
+    /// (1/T, 1/I beside the logarithm, and the step); the first step no longer than
+    /// [`HALLEY_FINAL_STEP`] (relative) ends it, as in [`solve_core`] (an error of order
+    /// 1e-17 T).
     ///
     /// The step is that of [`solve_core`] written over a common denominator, so that
-    /// one division replaces its chain of seven: with P1 = D/I, lambda = ln(L/target)
+    /// one division replaces its chain of five: with P1 = D/I, lambda = ln(L/target)
     /// and the Newton step rho = lambda/P1 (relative, in u = 1/T), Halley's step is
     /// rho/(1 - rho (1 + D2/D - D/I)/2) = lambda P1/den,
     /// den = P1^2 - lambda (P1 + P2 - P1^2)/2 with P2 = D2/I, and the next temperature
