@@ -47,3 +47,7 @@ cargo build --lib -p bandtemp-capi
 # Refit the moment-integral polynomials (src/planck/moment_fit.rs) with mpmath, compare
 # the coefficients, and check the stored ones on a seeded sample (about 15 s).
 "$python" tools/refgen/moment_fits.py --check
+
+# The operating grid and the fit split at x = 3 (tests/data/band_fit_split.csv): recompute
+# every 5th row with mpmath and compare (a few seconds).
+"$python" tools/refgen/band_grid_refs.py --check

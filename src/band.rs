@@ -16,7 +16,7 @@
 //! integral of r(lambda(x)) x^m/(e^x - 1) dx (m = 3 energy, 2 photon).
 //! - Rectangular band, at a cost that does not depend on where the band lies: a band no
 //!   wider than 0.25 in x (and not reaching near x = 0) is one Gauss-Legendre panel of 4
-//!   or 6 nodes sharing one exponential; a wider one takes differences of the moment
+//!   or 5 nodes sharing one exponential; a wider one takes differences of the moment
 //!   integrals at its ends, evaluated from fixed polynomial fits (generated with mpmath
 //!   by `tools/refgen/moment_fits.py`) with one exponential per end, choosing the
 //!   difference of the smaller operands ([`crate::planck`]). Relative error below 1e-13
@@ -32,8 +32,8 @@
 use crate::constants::{C1L_UM, C1P_UM, C2_UMK};
 use crate::error::{check_temperature_k, finite, Error, Result};
 use crate::planck::{
-    check_radiance, linear_response_panel, moment_integral, tail_bound, weighted_gauss_panel,
-    Detector, LinearResponse,
+    check_radiance, linear_response_panel, moment_integral, moment_integral_value, tail_bound,
+    weighted_gauss_panel, Detector, LinearResponse,
 };
 
 /// Lowest temperature the inversion searches, in kelvin.
@@ -46,6 +46,11 @@ const NEWTON_FINAL_STEP: f64 = 1e-8;
 /// A Halley step of the inversion below this fraction of T ends it (see [`solve_core`]):
 /// the error it leaves is about c (4e-6)^3 < 1e-17 T for c <= 1/12.
 const HALLEY_FINAL_STEP: f64 = 4e-6;
+/// Evaluations the rectangular band's inversion makes before the safeguarded solver
+/// takes over (see [`Band::rectangular_halley`]): from [`Band::guess_k`] (up to 20 %
+/// off on the Rayleigh-Jeans side of a wide band) the third Halley step is below
+/// [`HALLEY_FINAL_STEP`] over the operating grid.
+const RECTANGULAR_HALLEY_EVALUATIONS: u32 = 3;
 /// Iteration cap of the inversion; reaching it is [`Error::NotConverged`].
 pub const SOLVER_MAX_ITERATIONS: u32 = 200;
 
@@ -369,8 +374,31 @@ impl<'a> Band<'a> {
     /// band, 680 for a tabulated response), or a tabulated response so small that its
     /// integral is below 1e-290 (see `MIN_RESOLVED_INTEGRAL` in the source).
     pub fn radiance(&self, temperature_k: f64) -> Result<f64> {
+        if self.response.is_none() {
+            return self.rectangular_radiance(temperature_k);
+        }
         self.radiance_and_derivative(temperature_k)
             .map(|(radiance, _)| radiance)
+    }
+
+    /// [`Band::radiance`] of a rectangular band without the derivatives: the same
+    /// integral, validation and errors as [`Band::radiance_derivatives`] (the same
+    /// operations on I, so the same value to the bit), leaving out the edge terms and
+    /// the derivative integrals that only the inversion and `radiance_and_derivative`
+    /// need.
+    #[inline]
+    fn rectangular_radiance(&self, temperature_k: f64) -> Result<f64> {
+        let t = check_temperature_k(temperature_k)?;
+        let m = self.detector.moment();
+        let inv_t = 1.0 / t;
+        let (c2_hi, c2_lo, c2_width) = self.x_edges_k;
+        let integral = moment_integral_value(m, c2_hi * inv_t, c2_lo * inv_t, c2_width * inv_t);
+        let scale = scale_or_overflow(self.detector, t)?;
+        // As in `radiance_derivatives`: see [`MIN_RESOLVED_INTEGRAL`].
+        if integral < MIN_RESOLVED_INTEGRAL && self.hi_um * t < C2_UMK {
+            return Err(Error::RadianceUnderflow);
+        }
+        check_radiance(scale * integral)
     }
 
     /// Temperature derivative dL_band/dT, in radiance units per kelvin.
@@ -612,9 +640,10 @@ impl<'a> Band<'a> {
     ///
     /// Accuracy: |T - T(L(T))| below 1e-12 T wherever L is a normal double (worst 1e-15
     /// over 0.3-30 um and 150-4000 K in `tests/reference_band.rs`). Halley steps on
-    /// ln L against 1/T from [`Band::guess_k`] (see [`solve_increasing`] for the safeguards):
-    /// 1 or 2 band evaluations typical, at most 5 over that domain (mean 1.9 over its 726
-    /// reference cases).
+    /// ln L against 1/T from [`Band::guess_k`] (see [`solve_increasing`] for the safeguards;
+    /// a rectangular band first tries up to three unsafeguarded steps with one division
+    /// each, `Band::rectangular_halley`): 1 or 2 band evaluations typical, at most 5 over
+    /// that domain (mean 1.9 over its 726 reference cases).
     ///
     /// # Errors
     /// [`Error::NonFinite`], [`Error::RadianceNotPositive`], [`Error::RadianceSubnormal`],
@@ -631,17 +660,168 @@ impl<'a> Band<'a> {
     /// As [`Band::temperature`].
     pub fn solve_temperature(&self, radiance: f64) -> Result<Solution> {
         check_target(radiance)?;
-        solve_core(
-            |t| self.radiance_derivatives(t),
-            radiance,
-            self.guess_k(radiance),
-        )
+        let start_k = if self.response.is_none() {
+            let guess_k = self.centroid_guess_k(radiance, ln_approx);
+            let start_k = self.rayleigh_jeans_guess_k(radiance, guess_k);
+            match self.rectangular_halley(radiance, start_k) {
+                Ok(solution) => return Ok(solution),
+                Err(last_k) => last_k,
+            }
+        } else {
+            self.guess_k(radiance)
+        };
+        solve_core(|t| self.radiance_derivatives(t), radiance, start_k)
+    }
+
+    /// The inversion of a rectangular band without safeguards: at most
+    /// [`RECTANGULAR_HALLEY_EVALUATIONS`] Halley steps on g(u) = ln L(1/u) from `guess_k`,
+    /// each from one evaluation of I, D and D2 ([`moment_integral`]) and three divisions
+    /// (1/T, 1/I beside the logarithm, and the step); the first step no longer than
+    /// [`HALLEY_FINAL_STEP`] (relative) ends it, as in [`solve_core`] (an error of order
+    /// 1e-17 T).
+    ///
+    /// The step is that of [`solve_core`] written over a common denominator, so that
+    /// one division replaces its chain of five: with P1 = D/I, lambda = ln(L/target)
+    /// and the Newton step rho = lambda/P1 (relative, in u = 1/T), Halley's step is
+    /// rho/(1 - rho (1 + D2/D - D/I)/2) = lambda P1/den,
+    /// den = P1^2 - lambda (P1 + P2 - P1^2)/2 with P2 = D2/I, and the next temperature
+    /// is T den/(den + lambda P1). The same rounding errors to within a few ulp of the
+    /// step, which the next step corrects.
+    ///
+    /// Anything out of the ordinary (an evaluation that is an error or not a normal
+    /// double, a step leaving the search range or too long for Halley's correction, no
+    /// final step within the evaluations) returns the temperature reached so far, from
+    /// which [`solve_core`] takes over with its bracket and all its error handling.
+    fn rectangular_halley(&self, target: f64, guess_k: f64) -> core::result::Result<Solution, f64> {
+        let m = self.detector.moment();
+        let (c2_hi, c2_lo, c2_width) = self.x_edges_k;
+        let inv_target = 1.0 / target;
+        let mut t = guess_k;
+        for iteration in 1..=RECTANGULAR_HALLEY_EVALUATIONS {
+            if !(t > SOLVER_MIN_K && t < SOLVER_MAX_K) {
+                return Err(t);
+            }
+            let inv_t = 1.0 / t;
+            let (i, d, d2) = moment_integral(m, c2_hi * inv_t, c2_lo * inv_t, c2_width * inv_t);
+            let value = self.detector.scale(t) * i;
+            // The checks of `radiance_derivatives`, tightened: any doubt goes to the
+            // safeguarded solver.
+            if !(i >= MIN_RESOLVED_INTEGRAL
+                && (f64::MIN_POSITIVE..f64::INFINITY).contains(&value)
+                && d > 0.0
+                && d.is_finite()
+                && d2.is_finite())
+            {
+                return Err(t);
+            }
+            let r = (value - target) * inv_target;
+            if r == 0.0 {
+                return Ok(Solution {
+                    temperature_k: t,
+                    iterations: iteration,
+                    residual: 0.0,
+                });
+            }
+            // ln(L/target) as in `solve_core`: the series where it is exact to r^4/4,
+            // else first the cheaper [`ln_approx`] (5e-9 relative), recomputed with
+            // libm's `log1p` if the step it gives may be final.
+            let series = libm::fabs(r) < 1e-4;
+            let mut log_ratio = if series {
+                r * (1.0 - r * (0.5 - r * (1.0 / 3.0)))
+            } else {
+                ln_approx(r)
+            };
+            // D and D2 relative to I (P1 = D/I and D2/I, both of order 1 to 1e3), so
+            // that no product below leaves the normal range (I itself may be 1e-295);
+            // this division runs beside the logarithm, off the step's critical path.
+            let inv_i = 1.0 / i;
+            let p1 = d * inv_i;
+            let p2 = d2 * inv_i;
+            let mut numerator = log_ratio * p1;
+            let mut denominator = p1 * p1 - 0.5 * log_ratio * (p1 + p2 - p1 * p1);
+            if !series && libm::fabs(numerator) <= 2.0 * HALLEY_FINAL_STEP * denominator {
+                log_ratio = libm::log1p(r);
+                numerator = log_ratio * p1;
+                denominator = p1 * p1 - 0.5 * log_ratio * (p1 + p2 - p1 * p1);
+            }
+            // Halley's correction moderate (factor den/P1^2 within (1/2, 2), as in
+            // `solve_core`), else the safeguarded solver.
+            if !(denominator > 0.5 * p1 * p1 && denominator < 2.0 * p1 * p1) {
+                return Err(t);
+            }
+            let next = t * denominator / (denominator + numerator);
+            if !(next > SOLVER_MIN_K && next < SOLVER_MAX_K) {
+                return Err(t);
+            }
+            if libm::fabs(numerator) <= HALLEY_FINAL_STEP * denominator {
+                return Ok(Solution {
+                    temperature_k: next,
+                    iterations: iteration,
+                    residual: r,
+                });
+            }
+            t = next;
+        }
+        Err(t)
+    }
+
+    /// The starting temperature of a rectangular band's inversion: `guess_k` (Planck's
+    /// law at the centroid) where the band lies on the Wien side or is narrow, and for a
+    /// wide band (hi/lo >= 1.3) on the Rayleigh-Jeans side (x = c2/(lo T) below 2.5 at
+    /// `guess_k`, where the centroid guess is up to 20 % off) the band integral's Bernoulli expansion
+    /// to its third term inverted in closed form:
+    /// H_m(x) = x^m/m - x^(m+1)/(2(m+1)) + x^(m+2)/(12(m+2)) - O(x^(m+4)/(720(m+4)))
+    /// at both ends makes L/K = A T - B + C/T (K = c1/c2^(m+1), alpha = c2/hi,
+    /// beta = c2/lo, A = (beta^m - alpha^m)/m, B = (beta^(m+1) - alpha^(m+1))/(2(m+1)),
+    /// C = (beta^(m+2) - alpha^(m+2))/(12(m+2))), a quadratic in T with the root
+    /// T = (B + L/K + sqrt((B + L/K)^2 - 4 A C))/(2 A). Its relative error is of order
+    /// x^4/720 (about 2 % at x = 2.5, 1e-4 at x = 0.6), so that from it two Halley
+    /// steps (cubic) end the search where three were needed from the centroid guess. A
+    /// start only: the solver's accuracy does not depend on it.
+    fn rayleigh_jeans_guess_k(&self, radiance: f64, guess_k: f64) -> f64 {
+        let (alpha, beta, _) = self.x_edges_k;
+        // Only for a wide band (hi/lo >= 1.3): over a narrower one the centroid guess is
+        // within 3 % and leads to two evaluations as well.
+        if !(beta < 2.5 * guess_k && beta >= 1.3 * alpha) {
+            return guess_k;
+        }
+        let (m, k) = match self.detector {
+            Detector::Energy => (3, C1L_UM / (C2_UMK * C2_UMK * C2_UMK * C2_UMK)),
+            Detector::Photon => (2, C1P_UM / (C2_UMK * C2_UMK * C2_UMK)),
+        };
+        // Powers by multiplication (m = 2 or 3): alpha^m, alpha^(m+1), alpha^(m+2).
+        let powers = |z: f64| {
+            let z2 = z * z;
+            let zm = if m == 2 { z2 } else { z2 * z };
+            (zm, zm * z, zm * z2)
+        };
+        let (alpha_m, alpha_m1, alpha_m2) = powers(alpha);
+        let (beta_m, beta_m1, beta_m2) = powers(beta);
+        let mf = f64::from(m);
+        let a = (beta_m - alpha_m) / mf;
+        let b = (beta_m1 - alpha_m1) / (2.0 * (mf + 1.0));
+        let c = (beta_m2 - alpha_m2) / (12.0 * (mf + 2.0));
+        let linear = b + radiance / k;
+        let discriminant = linear * linear - 4.0 * a * c;
+        let guess = (linear + libm::sqrt(discriminant)) / (2.0 * a);
+        if guess.is_finite() && guess > SOLVER_MIN_K && guess < SOLVER_MAX_K {
+            guess
+        } else {
+            guess_k
+        }
     }
 
     /// Starting guess for the inversion: Planck's law inverted at the band's centroid for a
     /// line of the band's effective width (exact for a delta band).
     #[must_use]
     pub fn guess_k(&self, radiance: f64) -> f64 {
+        self.centroid_guess_k(radiance, libm::log1p)
+    }
+
+    /// [`Band::guess_k`] with the natural logarithm ln(1 + z) given (libm's `log1p`, or
+    /// [`ln_approx`] where a start need not carry every digit).
+    #[inline]
+    fn centroid_guess_k<F: Fn(f64) -> f64>(&self, radiance: f64, ln_1p: F) -> f64 {
         let lambda = self.centroid_um;
         let lambda2 = lambda * lambda;
         let (c1, lambda_pow) = match self.detector {
@@ -650,13 +830,46 @@ impl<'a> Band<'a> {
         };
         let spectral = radiance / self.width_um;
         let ratio = c1 / lambda_pow / spectral;
-        let guess = C2_UMK / (lambda * libm::log1p(ratio));
+        let guess = C2_UMK / (lambda * ln_1p(ratio));
         if guess.is_finite() && guess > SOLVER_MIN_K && guess < SOLVER_MAX_K {
             guess
         } else {
             1000.0
         }
     }
+}
+
+/// ln(1 + z) for a start or a step that the next step corrects: ln of the double 1 + z by
+/// its exponent and mantissa, 1 + z = 2^k w with w in [sqrt(1/2), sqrt(2)), and
+/// ln w = 2 atanh(s), s = (w - 1)/(w + 1), |s| <= 0.1716, by the series
+/// 2 s (1 + s^2/3 + ... + s^12/13) (truncation below 1.3e-12 relative). Error below
+/// 5e-13 absolute plus the rounding of 1 + z (1.1e-16 absolute) and 2 ulp of the result
+/// (the test `ln_approx_is_within_its_bound_of_libm`): for |z| >= 1e-4 within 5e-9
+/// relative. Not for final results: [`Band::rectangular_halley`] recomputes a step
+/// with libm's `log1p` before accepting it as final. For 1 + z not a positive normal
+/// finite double the result is NaN (which fails every check after it).
+fn ln_approx(z: f64) -> f64 {
+    const SQRT_2: f64 = core::f64::consts::SQRT_2;
+    let y = 1.0 + z;
+    if !(f64::MIN_POSITIVE..f64::INFINITY).contains(&y) {
+        return f64::NAN;
+    }
+    let bits = y.to_bits();
+    // The exponent field of a positive normal double is 1..=2046.
+    let exponent = f64::from(u32::try_from((bits >> 52) & 0x7ff).unwrap_or(1023)) - 1023.0;
+    let mut w = f64::from_bits((bits & 0x000f_ffff_ffff_ffff) | 0x3ff0_0000_0000_0000);
+    let mut k = exponent;
+    if w > SQRT_2 {
+        w *= 0.5;
+        k += 1.0;
+    }
+    let s = (w - 1.0) / (w + 1.0);
+    let s2 = s * s;
+    let series = 1.0
+        + s2 * (1.0 / 3.0
+            + s2 * (1.0 / 5.0
+                + s2 * (1.0 / 7.0 + s2 * (1.0 / 9.0 + s2 * (1.0 / 11.0 + s2 * (1.0 / 13.0))))));
+    k * core::f64::consts::LN_2 + 2.0 * s * series
 }
 
 /// The panel walk over one table segment, shared by [`Band::panels`] and
@@ -916,6 +1129,36 @@ impl SignalCurve for Band<'_> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn ln_approx_is_within_its_bound_of_libm() {
+        // Against libm's log1p: 5e-13 absolute plus the rounding of 1 + z and 2 ulp of
+        // the result, i.e. within
+        // 5e-9 relative for |z| >= 1e-4, over z from -0.9999 to 1e300.
+        let mut z = -0.9999_f64;
+        let mut count = 0;
+        while z < 1e300 {
+            let expected = libm::log1p(z);
+            let error = libm::fabs(ln_approx(z) - expected);
+            let bound = 5e-13 + 2.3e-16 + 4.5e-16 * libm::fabs(expected);
+            assert!(error <= bound, "z = {z}: {error:e}");
+            if libm::fabs(z) >= 1e-4 {
+                assert!(error <= 5e-9 * libm::fabs(expected), "z = {z}: {error:e}");
+            }
+            z = if z < -1e-3 {
+                z * 0.93
+            } else if z < 1e-3 {
+                z + 1.3e-4
+            } else {
+                z * 1.37
+            };
+            count += 1;
+        }
+        assert!(count > 2000, "{count}");
+        assert!(ln_approx(-1.0).is_nan());
+        assert!(ln_approx(f64::INFINITY).is_nan());
+        assert!(ln_approx(f64::NAN).is_nan());
+    }
 
     #[test]
     fn extreme_temperatures_end_in_errors_not_loops() {

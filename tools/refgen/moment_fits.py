@@ -7,11 +7,11 @@ and their edge terms need the Bernoulli function B(x) = x/(e^x-1). The crate eva
 them with fixed-degree polynomials whose coefficients this script computes with mpmath
 (40 digits) and writes as Rust source:
 
-  head, 0 <= x <= 2, s = x^2 (B and H_m have poles only at x = +-2 pi i, i.e. s = -4 pi^2):
+  head, 0 <= x <= 3, s = x^2 (B and H_m have poles only at x = +-2 pi i, i.e. s = -4 pi^2):
     B(x)   = 1 - x/2 + s PB(s),                 PB(s)   = sum_j c_j s^(j-1)
     H_m(x) = x^m (1/m - x/(2(m+1)) + s PH_m(s)), PH_m(s) = sum_j c_j s^(j-1)/(2j+m)
     (c_j = B_2j/(2j)!, Bernoulli numbers; both series converge for s < 4 pi^2)
-  tail, x >= 2, q = e^-x in [0, e^-2] (the polylogarithms' only singularity is q = 1):
+  tail, x >= 3, q = e^-x in [0, e^-3] (the polylogarithms' only singularity is q = 1):
     G_2(x) = q (x^2 A1 + 2x A2 + 2 A3),  G_3(x) = q (x^3 A1 + 3x^2 A2 + 6x A3 + 6 A4),
     A_k(q) = Li_k(q)/q = sum_n q^n/(n+1)^k.
 
@@ -45,11 +45,15 @@ from mpmath import mpf
 mp.mp.dps = 40
 U = mpf(2) ** -53
 TARGET = mpf(2) ** -56  # approximation error allowed per fit, relative
-X_SPLIT = 2
+X_SPLIT = 3  # where the head fits give way to the tail fits (FIT_SPLIT_X in src/planck.rs)
 S_MAX = X_SPLIT**2
 Q_MAX = mp.exp(-X_SPLIT)
 GRID = 1000
 CHECK_LIMIT = 2 * U  # --check: stored coefficients against the series, relative
+# ... except B near x = 3, where 1 - x/2 + s PB(s) cancels to B(3) = 0.157 of operands
+# near 0.66: rounding PB's coefficients to doubles alone leaves 2.5e-16 there (B enters
+# only the edge terms of the derivatives).
+CHECK_LIMITS = {"BERNOULLI": 4 * U}
 SEED = 20180520
 OUT = os.path.join(os.path.dirname(os.path.abspath(__file__)), "..", "..", "src", "planck", "moment_fit.rs")
 GENERATOR = "tools/refgen/moment_fits.py"
@@ -117,7 +121,7 @@ def quantities():
     out = [
         (
             "BERNOULLI",
-            "PB(s): B(x) = x/(e^x - 1) = 1 - x/2 + s PB(s), s = x^2 in [0, 4].",
+            f"PB(s): B(x) = x/(e^x - 1) = 1 - x/2 + s PB(s), s = x^2 in [0, {S_MAX}].",
             S_MAX,
             pb,
             lambda s, p: 1 - mp.sqrt(s) / 2 + s * p,
@@ -127,7 +131,7 @@ def quantities():
         out.append(
             (
                 f"HEAD_{m}",
-                f"PH_{m}(s): H_{m}(x) = x^{m} (1/{m} - x/{2 * (m + 1)} + s PH_{m}(s)), s = x^2 in [0, 4].",
+                f"PH_{m}(s): H_{m}(x) = x^{m} (1/{m} - x/{2 * (m + 1)} + s PH_{m}(s)), s = x^2 in [0, {S_MAX}].",
                 S_MAX,
                 (lambda m: lambda s: ph(m, s))(m),
                 (lambda m: lambda s, p: mp.sqrt(s) ** m * (mpf(1) / m - mp.sqrt(s) / (2 * (m + 1)) + s * p))(m),
@@ -137,7 +141,7 @@ def quantities():
         out.append(
             (
                 f"POLYLOG_{k}",
-                f"A{k}(q) = Li_{k}(q)/q, q = e^-x in [0, e^-2].",
+                f"A{k}(q) = Li_{k}(q)/q, q = e^-x in [0, e^-{X_SPLIT}].",
                 Q_MAX,
                 (lambda k: lambda q: a_k(k, q))(k),
                 lambda q, p: p,
@@ -193,7 +197,7 @@ def fit(hi, f, quantity):
 
 
 def cross_check():
-    for x in ("0.001", "0.37", "1.0", "1.9999"):
+    for x in ("0.001", "0.37", "1.0", "1.9999", "2.9999"):
         x = mpf(x)
         s = x * x
         if abs(1 - x / 2 + s * pb(s) - b_exact(x)) > mpf(10) ** -30:
@@ -202,7 +206,7 @@ def cross_check():
             head = x**m * (mpf(1) / m - x / (2 * (m + 1)) + s * ph(m, s))
             if abs(head - h_exact(m, x)) > mpf(10) ** -30 * abs(head):
                 raise SystemExit(f"head series disagrees with the polylog form at m={m}, x={x}")
-    for q in ("0.0001", "0.05", "0.1353"):
+    for q in ("0.0001", "0.02", "0.0497"):
         q = mpf(q)
         for k in (1, 2, 3, 4):
             if abs(a_k(k, q) - mp.polylog(k, q) / q) > mpf(10) ** -30:
@@ -301,7 +305,7 @@ def main():
         # The stored coefficients on a random sample (and the ends) against the series.
         points = [mpf(0), hi] + [hi * mpf(rng.random()) for _ in range(200)]
         approx, horner = measure(coeffs, hi, f, quantity, points)
-        ok = approx <= CHECK_LIMIT
+        ok = approx <= CHECK_LIMITS.get(name, CHECK_LIMIT)
         print(f"{name}: degree {len(coeffs) - 1}, sample approx {mp.nstr(approx, 3)}, horner {mp.nstr(horner, 3)}: {'ok' if ok else 'FAIL'}")
         failures += 0 if ok else 1
     sys.exit(1 if failures else 0)
