@@ -538,6 +538,27 @@ const COSH_M1_OVER_X2: [f64; 6] = [
     1.0 / 479_001_600.0,
 ];
 
+/// E = expm1(mid) shared by the nodes of a panel [a, a + 2 half] (mid = a + half), where
+/// that is safe (see `gauss_sum`): half <= 0.125, a >= half and mid <= 700, else `None`.
+/// From mid = 1 on, E = (1 - q)/q with q = e^-mid from `exp_neg` (an inlined exponential
+/// within 3 ulp: then E within 5 ulp, 1 - q losing at most a factor 1/(1 - e^-1) of q's
+/// error); below, libm's `expm1`.
+#[allow(clippy::inline_always)]
+#[cfg_attr(not(target_os = "none"), inline(always))]
+fn shared_expm1(a: f64, half: f64, exp_neg: fn(f64) -> f64) -> Option<f64> {
+    let mid = a + half;
+    if half <= 0.125 && a >= half && mid <= 700.0 {
+        Some(if mid >= 1.0 {
+            let q = exp_neg(mid);
+            (1.0 - q) / q
+        } else {
+            libm::expm1(mid)
+        })
+    } else {
+        None
+    }
+}
+
 /// Gauss-Legendre sums on [a, a + width] of f = t^m/(e^t - 1) times `weight`, of f k1 and
 /// of f k2, where k1 = t e^t/(e^t - 1) and k2 = k1 (t (e^t + 1)/(e^t - 1) - 1) are the
 /// first and second derivatives of ln-temperature of 1/(e^t - 1) over it
@@ -565,16 +586,7 @@ fn gauss_sum<W: Fn(f64, f64) -> f64>(
     // E = (1 - q)/q with q = e^-mid from the inlined [`exp_neg_core`] (3 ulp) costs less
     // than libm's `expm1` and stays within 5 ulp (1 - q loses at most a factor
     // 1/(1 - e^-1) = 1.6 of q's error).
-    let shared = if half <= 0.125 && a >= half && mid <= 700.0 {
-        Some(if mid >= 1.0 {
-            let q = exp_neg_core(mid);
-            (1.0 - q) / q
-        } else {
-            libm::expm1(mid)
-        })
-    } else {
-        None
-    };
+    let shared = shared_expm1(a, half, exp_neg_core);
     for &(node, w) in rule {
         let d = half * node;
         let expm1_pair = shared.map(|e_mid| {
@@ -1279,16 +1291,7 @@ fn panel_sums<const DERIVATIVES: bool, const N: usize>(
     let half = 0.5 * width;
     let mid = a + half;
     // As in `gauss_sum`: one shared exponential for the panel where it is safe.
-    let shared = if half <= 0.125 && a >= half && mid <= 700.0 {
-        Some(if mid >= 1.0 {
-            let q = exp_neg_table(mid);
-            (1.0 - q) / q
-        } else {
-            libm::expm1(mid)
-        })
-    } else {
-        None
-    };
+    let shared = shared_expm1(a, half, exp_neg_table);
     let mut sum = 0.0;
     let mut sum_derivative = 0.0;
     let mut sum_second = 0.0;
