@@ -748,7 +748,12 @@ fn linear_response_sum<const N: usize, const K: usize>(
             _ => t * t * inv_e,
         };
         let planck = g * t;
-        let f = w * (response.edge * planck + response.rise * ((response.per_span * p) * g));
+        // rise g first: g = planck/t is below 1 for m >= 2, so rise g cannot overflow, and
+        // it is as small only as the integrand itself; then the fraction per_span p <= t
+        // (so the product stays below 1.43 rise, as with the weight times planck). Taking
+        // per_span p g first underflowed to subnormal for a long segment (per_span 4e-301,
+        // g 6e-22 at t = 57) and lost half a percent of the radiance.
+        let f = w * (response.edge * planck + (response.rise * g) * (response.per_span * p));
         let d = f * (t * (1.0 + inv_e));
         sums.0 += f;
         sums.1 += d;

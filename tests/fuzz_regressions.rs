@@ -934,3 +934,44 @@ fn one_ulp_wide_band_in_the_weighted_quadrature() {
         assert!((w - l).abs() <= 1e-13 * l, "T {t}: {w:e} vs {l:e}");
     }
 }
+
+/// A photon band over a response table whose last segment reaches from 0.41 um to 1e300 um
+/// (rising to 4.1e299): within the band the response is 0.18 + 0.412 (lambda - 0.409 um).
+/// In the Wien region (x = 57-316 at 197 K) the folded panel took the segment fraction
+/// (4.1e-301 per um) times the Planck factor first, which went subnormal, and the radiance
+/// came out 5e-3 low with status Ok; the inversion then returned a temperature 1.5e-2 K
+/// off. Now the band radiance agrees with mpmath and the round trip holds.
+#[test]
+fn long_response_segment_in_the_wien_region() {
+    use bandtemp::band::SpectralTable;
+    let wavelengths_um = [0.230_493_413_962_491_8, 0.409_443_779_234_017_87, 1e300];
+    let values = [
+        0.250_858_319_981_689_17,
+        0.180_163_271_534_294_65,
+        4.122_236_758_698_561e299,
+    ];
+    let table = SpectralTable::new(&wavelengths_um, &values).unwrap();
+    let band = Band::with_response(
+        0.229_368_301_704_179_8,
+        1.276_886_268_813_521,
+        Detector::Photon,
+        table,
+    )
+    .unwrap();
+    // mpmath 1.3 at 40 digits (0.44557999319035222, 0.44366873309786582, here rounded to
+    // doubles): mpmath.quad of R(lambda) 2c 1e18 / lambda^4 / expm1(c2/(lambda T))
+    // over the overlap [0.2305, 1.2769] um (breakpoints at the table's wavelength 0.409 and
+    // every 0.2 um beyond), R piecewise linear through the table, CODATA 2018 exact h, c, k.
+    for (t, want) in [
+        (197.383_188_373_879_88, 0.445_579_993_190_352_24),
+        (197.368_586_753_495_86, 0.443_668_733_097_865_8),
+    ] {
+        let got = band.radiance(t).unwrap();
+        assert!(
+            ((got - want) / want).abs() < 1e-13,
+            "T {t}: {got:e} vs mpmath {want:e}"
+        );
+        let back = band.temperature(want).unwrap();
+        assert!(((back - t) / t).abs() < 1e-12, "T {t}: inverted to {back}");
+    }
+}
