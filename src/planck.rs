@@ -1438,6 +1438,45 @@ mod tests {
             }
         }
         assert!(worst < 1.0, "worst difference {worst:e} of the allowance");
+        // Extreme responses deep in the Wien region, where the Planck factor is tiny: a
+        // segment reaching 1e300 um (fraction per um 4e-301, rise 4e299), a response near
+        // the largest double, and one near the smallest normal. The folded products must
+        // neither underflow nor overflow before the integrand does.
+        let mut worst = 0.0_f64;
+        for m in [2, 3] {
+            for a in [40.0, 57.0, 300.0, 650.0] {
+                for (edge, rise, per_span) in [
+                    (0.18, 4.1e299, 4.1e-301),
+                    (1e300, 1e307, 1e-3),
+                    (1e-300, 1e-290, 1e-5),
+                    (0.0, 1e300, 1e-306),
+                ] {
+                    for falls in [true, false] {
+                        let width = 1.0;
+                        let response = LinearResponse {
+                            edge,
+                            rise,
+                            per_span,
+                            sign: if falls { 1.0 } else { -1.0 },
+                            start: if falls { 0.0 } else { 3.0 * width },
+                        };
+                        let folded = linear_response_panel(m, a, width, width, &response);
+                        let generic = weighted_gauss_panel(m, a, width, |t, node_offset| {
+                            let p = response.sign * (width + node_offset) + response.start;
+                            response.edge + response.rise * (response.per_span * (p / t))
+                        });
+                        if !(generic.0 > f64::MIN_POSITIVE * 1e3) {
+                            continue;
+                        }
+                        worst = worst.max(((folded.0 - generic.0) / generic.0).abs());
+                    }
+                }
+            }
+        }
+        assert!(
+            worst < 1e-14,
+            "extreme responses: worst relative difference {worst:e}"
+        );
     }
 
     #[test]
