@@ -1075,8 +1075,8 @@ fn moment_end(m: u32, x: f64) -> MomentEnd {
 fn head_end(m: u32, x: f64) -> MomentEnd {
     let s = x * x;
     let bernoulli = (1.0 - 0.5 * x) + s * polynomial(&moment_fit::BERNOULLI, s);
-    let head = head_value(m, x);
-    with_edges(m, x, head, moment_total(m) - head, bernoulli)
+    let (head, tail) = head_pair(m, x);
+    with_edges(m, x, head, tail, bernoulli)
 }
 
 /// H_m(x) for 0 <= x < 3 from its fit (see [`moment_end`]).
@@ -1166,6 +1166,18 @@ fn moment_ends(m: u32, a: f64, b: f64) -> (MomentEnd, MomentEnd) {
     }
 }
 
+/// I = G(a) - G(b) when G(a) <= H(b), else H(b) - H(a): the difference of the two
+/// smaller operands (see [`moment_integral`] for its condition).
+#[allow(clippy::inline_always)]
+#[cfg_attr(not(target_os = "none"), inline(always))]
+fn band_difference((head_a, tail_a): (f64, f64), (head_b, tail_b): (f64, f64)) -> f64 {
+    if tail_a <= head_b {
+        tail_a - tail_b
+    } else {
+        head_b - head_a
+    }
+}
+
 /// Widest band in x integrated by one Gauss-Legendre panel ([`gauss_panel`], 4 or 5
 /// nodes); wider bands take differences of [`moment_end`] values.
 const NARROW_X: f64 = 0.25;
@@ -1200,11 +1212,7 @@ pub(crate) fn moment_integral(m: u32, a: f64, b: f64, width: f64) -> (f64, f64, 
         return gauss_panel(m, a, width);
     }
     let (end_a, end_b) = moment_ends(m, a, b);
-    let integral = if end_a.tail <= end_b.head {
-        end_a.tail - end_b.tail
-    } else {
-        end_b.head - end_a.head
-    };
+    let integral = band_difference((end_a.head, end_a.tail), (end_b.head, end_b.tail));
     let m1 = f64::from(m + 1);
     let edge = end_a.edge - end_b.edge;
     (
@@ -1264,18 +1272,16 @@ pub(crate) fn moment_integral_value(m: u32, a: f64, b: f64, width: f64) -> f64 {
             panel_sums::<false, 2>(m, a, width, &GAUSS_LEGENDRE_5, GAUSS_LEGENDRE_5_CENTRE).0
         };
     }
-    let ((head_a, tail_a), (head_b, tail_b)) = if b < FIT_SPLIT_X {
+    // The regions as in `moment_ends`, written out: a generic dispatcher over closures
+    // shared by both cost 20-50 % more instructions per band radiance (callgrind).
+    let (end_a, end_b) = if b < FIT_SPLIT_X {
         (head_pair(m, a), head_pair(m, b))
     } else if a >= FIT_SPLIT_X && b <= EXP_NEG_NORMAL_MAX {
         (tail_pair(m, a), tail_pair(m, b))
     } else {
         (end_value(m, a), end_value(m, b))
     };
-    if tail_a <= head_b {
-        tail_a - tail_b
-    } else {
-        head_b - head_a
-    }
+    band_difference(end_a, end_b)
 }
 
 /// [`gauss_panel`] for a rectangular band (unit weight, width <= 0.25, a >= width/2):
