@@ -6,9 +6,9 @@ use super::lookup::Lookup;
 use super::summary::{FrameSummary, PixelStatus};
 use super::LANES;
 
-/// One chunk of [`LANES`] pixels: object signals and validity (vectorisable), row
-/// indices and positions (vectorisable), row loads (scalar gathers), Horner and the NaN
-/// select (vectorisable). Returns true if any pixel failed.
+/// One chunk of [`LANES`] pixels: object signals and validity masks (vectorisable), then
+/// the lookup (`simd.rs` on x86-64, [`portable_lookup`] elsewhere). Returns true if any
+/// pixel failed.
 #[inline(always)]
 fn chunk<const WIDE: bool, I: Copy, S>(
     lookup: &Lookup<'_>,

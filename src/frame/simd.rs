@@ -52,9 +52,8 @@ use super::LANES;
 const _: () = assert!(LANES % 8 == 0);
 
 /// Table lookup of a chunk whose object signals and validity masks (all ones valid, zero
-/// not) are
-/// known: writes each valid pixel's temperature and NaN for the others. Returns true if
-/// any pixel is invalid. A signal outside the table gives a row index clamped into the
+/// not) are known: writes each valid pixel's temperature and NaN for the others. Returns
+/// true if any pixel is invalid. A signal outside the table gives a row index clamped into the
 /// table (its value is discarded by the select), never a read outside the rows.
 #[inline(always)]
 #[allow(clippy::cast_possible_wrap, clippy::cast_sign_loss)]
