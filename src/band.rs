@@ -94,6 +94,25 @@ fn scale_or_overflow(detector: Detector, temperature_k: f64) -> Result<f64> {
     }
 }
 
+/// dL/dT = scale * D / T from the scale, the derivative integral D and T.
+///
+/// The product scale * D can overflow where the quotient does not (near the top of the
+/// double range, T of order 1e78 and L of order 1e308, dL/dT ~ L/T is far from overflow),
+/// so that order is tried second: (scale / T) * D. Only if both overflow is it
+/// [`Error::RadianceOverflow`]; the first order is kept where it is finite, so results
+/// elsewhere are bit-identical to before.
+#[inline]
+fn derivative_per_k(scale: f64, derivative_integral: f64, temperature_k: f64) -> Result<f64> {
+    let mut derivative = scale * derivative_integral / temperature_k;
+    if derivative.is_infinite() {
+        derivative = (scale / temperature_k) * derivative_integral;
+    }
+    if derivative.is_infinite() {
+        return Err(Error::RadianceOverflow);
+    }
+    finite(derivative)
+}
+
 /// A piecewise-linear spectral table: values at strictly increasing wavelengths (um),
 /// linear between points and zero outside the table.
 ///
@@ -466,11 +485,8 @@ impl<'a> Band<'a> {
             return Err(Error::RadianceUnderflow);
         }
         let radiance = check_radiance(scale * integral)?;
-        let derivative = scale * derivative_integral / t;
-        if derivative.is_infinite() {
-            return Err(Error::RadianceOverflow);
-        }
-        Ok((radiance, finite(derivative)?, scale * second_integral))
+        let derivative = derivative_per_k(scale, derivative_integral, t)?;
+        Ok((radiance, derivative, scale * second_integral))
     }
 
     /// Band radiance with an extra spectral weight: integral of r(lambda) w(lambda)
@@ -500,11 +516,10 @@ impl<'a> Band<'a> {
         finite(integral)?;
         finite(derivative_integral)?;
         let radiance = scale * integral;
-        let derivative = scale * derivative_integral / t;
-        if radiance.is_infinite() || derivative.is_infinite() {
+        if radiance.is_infinite() {
             return Err(Error::RadianceOverflow);
         }
-        Ok((radiance, derivative))
+        Ok((radiance, derivative_per_k(scale, derivative_integral, t)?))
     }
 
     /// Gauss-Legendre in x over panels. Walks the band from `hi_um` down (x rising), one
@@ -1030,7 +1045,13 @@ where
                 libm::log1p(r)
             };
             // P1 = d ln f / d ln T; the Newton step in u relative to u is rho = log_ratio/P1.
-            let p1 = t * slope / value;
+            // T f' can overflow where P1 does not (f near the top of the double range):
+            // then the other order. An infinite P1 would make rho zero and fake a converged
+            // step, so it is refused below (bisection instead).
+            let mut p1 = t * slope / value;
+            if p1.is_infinite() {
+                p1 = t * (slope / value);
+            }
             let mut rho = log_ratio / p1;
             // Halley: rho / (1 + dN g2/(2 g1)) with dN g2/(2 g1) = -rho (1 + P2/P1)/2,
             // P2 = f_ss/f - P1^2; taken only while that correction is moderate (near the
@@ -1042,7 +1063,7 @@ where
                 halley = true;
             }
             let u = (1.0 + rho) / t;
-            if u > 0.0 {
+            if u > 0.0 && p1.is_finite() {
                 next = 1.0 / u;
                 newton = true;
             }

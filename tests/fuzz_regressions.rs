@@ -349,6 +349,10 @@ fn narrow_response_segment_keeps_full_precision() {
 /// by e^t - 1 and overflowed where the radiance is 1e304, so the inversion of a radiance
 /// the band had just returned (2.3e307 at 1000 K) failed with `NonFinite`. The Planck
 /// factors now come first, and overflow happens only where the radiance itself overflows.
+/// Once dL/dT no longer overflowed with its intermediate product (1.9e305 at 1012 K), the
+/// solver's T dL/dT did (1.9e308), made P1 infinite and its Newton step zero, and returned
+/// Ok(1012.24 K) with a residual of 10 %: T (dL/dT / L) is now formed in the order that
+/// does not overflow, and an infinite P1 is never taken for a converged step.
 #[test]
 fn response_near_the_double_range_end_inverts() {
     use bandtemp::band::SpectralTable;
@@ -974,4 +978,30 @@ fn long_response_segment_in_the_wien_region() {
         let back = band.temperature(want).unwrap();
         assert!(((back - t) / t).abs() < 1e-12, "T {t}: inverted to {back}");
     }
+}
+
+/// An energy band from 3.8e-311 um to 1e300 um (all of the spectrum at any temperature) at
+/// T = 8.9e78 K: the radiance sigma T^4/pi = 1.2e308 is just inside the double range, and
+/// dL/dT = 4 L/T = 5.1e229 is far inside it, but the product scale * D was formed before
+/// the division by T and overflowed, so the derivative was `RadianceOverflow` while the
+/// radiance was Ok.
+#[test]
+fn derivative_of_a_radiance_near_the_double_range_end() {
+    let band = Band::rectangular(3.803147183295e-311, 1e300, Detector::Energy).unwrap();
+    let t = 8.915990871273347e78;
+    let (radiance, derivative) = band.radiance_and_derivative(t).unwrap();
+    // Stefan-Boltzmann: L = sigma T^4 / pi (sigma from CODATA 2018 exact h, c, k), and
+    // dL/dT = 4 L / T for the whole spectrum.
+    let sigma = 5.670_374_419e-8;
+    let total = sigma / core::f64::consts::PI * (t * t) * (t * t);
+    assert!(
+        ((radiance - total) / total).abs() < 1e-9,
+        "{radiance:e} vs {total:e}"
+    );
+    let slope = 4.0 * (total / t);
+    assert!(
+        ((derivative - slope) / slope).abs() < 1e-9,
+        "{derivative:e} vs {slope:e}"
+    );
+    assert_eq!(band.radiance_derivative(t), Ok(derivative));
 }
