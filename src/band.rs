@@ -443,6 +443,29 @@ impl<'a> Band<'a> {
             .map(|(radiance, derivative, _)| (radiance, derivative))
     }
 
+    /// L, P1 = d ln L / d ln T and its derivative dP1/d ln T = (d2L/d(ln T)2)/L - P1^2 at
+    /// `temperature_k`: the curve and its shape, for the ratio pyrometer's range check. The
+    /// second is NaN where it cannot be represented (and, as the second derivative it comes
+    /// from, may be a few digits short where the closed form cancels).
+    ///
+    /// # Errors
+    /// As [`Band::radiance`].
+    pub(crate) fn log_slope_and_curvature(&self, temperature_k: f64) -> Result<(f64, f64, f64)> {
+        let (radiance, derivative, second) = self.radiance_derivatives(temperature_k)?;
+        let t = temperature_k;
+        let mut p1 = t * derivative / radiance;
+        if p1.is_infinite() {
+            p1 = t * (derivative / radiance);
+        }
+        let curvature = second / radiance - p1 * p1;
+        let curvature = if curvature.is_finite() {
+            curvature
+        } else {
+            f64::NAN
+        };
+        Ok((radiance, p1, curvature))
+    }
+
     /// Band radiance L, dL/dT and d2L/d(ln T)2 (the last for the inversion's Halley step;
     /// unchecked, possibly a few digits short where the closed form cancels).
     #[inline]
@@ -1197,5 +1220,39 @@ mod tests {
         let rectangular = Band::rectangular(8.0, 14.0, Detector::Photon).unwrap();
         assert_eq!(rectangular.radiance(1e-300), Err(Error::RadianceUnderflow));
         assert_eq!(rectangular.radiance(f64::MAX), Err(Error::RadianceOverflow));
+    }
+
+    #[test]
+    fn log_curvature_is_the_derivative_of_the_log_slope() {
+        // dP1/d ln T against a central difference of P1 (step 1e-4 in ln T: truncation
+        // ~1e-8 relative of P1's third derivative, well below the 1e-5 tolerance), for
+        // rectangular and tabulated bands of both detector kinds, Wien to Rayleigh-Jeans.
+        let wl = [2.0, 3.0, 5.0, 9.0];
+        let r = [0.1, 1.0, 0.7, 0.2];
+        let table = SpectralTable::new(&wl, &r).unwrap();
+        let bands = [
+            Band::rectangular(0.65, 0.7, Detector::Energy).unwrap(),
+            Band::rectangular(8.0, 14.0, Detector::Photon).unwrap(),
+            Band::rectangular(1e-3, 4.0, Detector::Photon).unwrap(),
+            Band::with_response(2.0, 9.0, Detector::Energy, table).unwrap(),
+            Band::with_response(2.5, 9.0, Detector::Photon, table).unwrap(),
+        ];
+        let h = 1e-4;
+        let mut checked = 0;
+        for band in bands {
+            for t in [150.0, 300.0, 1000.0, 3000.0, 2e4, 1e6] {
+                let (_, _, curvature) = band.log_slope_and_curvature(t).unwrap();
+                let (_, up, _) = band.log_slope_and_curvature(t * libm::exp(h)).unwrap();
+                let (_, down, _) = band.log_slope_and_curvature(t * libm::exp(-h)).unwrap();
+                let difference = (up - down) / (2.0 * h);
+                let scale = libm::fabs(difference).max(1e-3);
+                assert!(
+                    libm::fabs(curvature - difference) <= 1e-5 * scale,
+                    "{band:?} at {t} K: {curvature} vs {difference}"
+                );
+                checked += 1;
+            }
+        }
+        assert_eq!(checked, 30);
     }
 }

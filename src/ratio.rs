@@ -45,10 +45,19 @@ use crate::planck::Detector;
 /// at 1000 K about 1.7).
 pub const MIN_LOG_SLOPE: f64 = 0.1;
 
-/// Log-spaced temperatures at which [`RatioPyrometer::new`] checks the slope and sign of
-/// d ln R / d ln T (a sign change between two points would need |slope| to fall through
-/// zero on a 1/64 log-interval of the range; both ends are always checked).
+/// Log-spaced temperatures at which [`RatioPyrometer::new`] starts its check of the slope
+/// and sign of d ln R / d ln T (both ends always among them); it then refines between
+/// them where the slope's own variation does not rule out a dip to the floor.
 pub const RANGE_CHECK_POINTS: usize = 65;
+
+/// Deepest bisection of one of the [`RANGE_CHECK_POINTS`] intervals by the range check
+/// (down to 1/2^14 of it); an interval still unresolved there is refused.
+pub const RANGE_CHECK_MAX_DEPTH: usize = 14;
+
+/// Most evaluations the range check adds to its [`RANGE_CHECK_POINTS`]; a range that
+/// needs more (dozens of decades of temperature with the bands' features in them) is
+/// refused rather than accepted unverified.
+pub const RANGE_CHECK_MAX_EXTRA: usize = 2048;
 
 /// Sensitivity coefficients of a ratio temperature, K per unit of each input.
 ///
@@ -93,16 +102,60 @@ pub struct RatioPyrometer<'a> {
     increasing: bool,
 }
 
+/// One point of the range check of [`RatioPyrometer::new`].
+#[derive(Clone, Copy, Debug)]
+struct Probe {
+    t_k: f64,
+    log_ratio: f64,
+    /// s = d ln R / d ln T.
+    slope: f64,
+    /// s' = d s / d ln T (NaN where a band cannot represent it).
+    curvature: f64,
+}
+
+/// Whether the interval between two checked points is resolved: see [`RatioPyrometer::new`].
+/// Any NaN makes it unresolved.
+fn resolved(a: &Probe, b: &Probe, sign: f64) -> bool {
+    let h = libm::log(b.t_k / a.t_k);
+    let (u_a, u_b) = (
+        sign * a.slope - MIN_LOG_SLOPE,
+        sign * b.slope - MIN_LOG_SLOPE,
+    );
+    let (d_a, d_b) = (sign * a.curvature, sign * b.curvature);
+    u_a - h * (-d_a).max(0.0) > 0.0
+        && u_b - h * d_b.max(0.0) > 0.0
+        && h * libm::fabs(d_b - d_a) <= u_a.min(u_b)
+}
+
 impl<'a> RatioPyrometer<'a> {
     /// A pyrometer taking R = S1/S2 over [`t_min_k`, `t_max_k`] (K).
     ///
-    /// Checks d ln R / d ln T = T (L1'/L1 - L2'/L2) at [`RANGE_CHECK_POINTS`] log-spaced
-    /// temperatures: it must keep one sign and stay at or above [`MIN_LOG_SLOPE`] in size.
+    /// Checks that d ln R / d ln T = T (L1'/L1 - L2'/L2) keeps one sign and stays at or
+    /// above [`MIN_LOG_SLOPE`] in size over the whole range, so that every ratio in
+    /// [`RatioPyrometer::ratio_range`] has exactly one temperature. The slope s and its
+    /// derivative s' = d s / d ln T are evaluated at [`RANGE_CHECK_POINTS`] log-spaced
+    /// temperatures, and an interval of width h (in ln T) between two of them is accepted
+    /// only when, with u = |s| - [`MIN_LOG_SLOPE`] and s' taken towards the floor,
+    ///
+    /// ```text
+    /// u_a - h max(0, -s'_a) > 0,   u_b - h max(0, s'_b) > 0,   h |s'_b - s'_a| <= min(u_a, u_b)
+    /// ```
+    ///
+    /// (the tangents from both ends stay above the floor, and the change of slope across
+    /// the interval is too small for a dip to it: for a locally quadratic s the dip below
+    /// min(u) is at most h |s'_b - s'_a| / 8). Otherwise the interval is bisected, to
+    /// [`RANGE_CHECK_MAX_DEPTH`] levels and [`RANGE_CHECK_MAX_EXTRA`] evaluations in all.
+    /// It is a check at finitely many points, refined where the curve bends, not a proof:
+    /// a feature much narrower than the interval with no trace at its ends could pass.
+    /// Ranges of ordinary width need no refinement (500-2500 K: intervals of 0.025 in
+    /// ln T); wide ones cost up to 2 extra evaluations per refined interval and level.
     ///
     /// # Errors
     /// [`Error::NonFinite`], [`Error::TemperatureNotPositive`], [`Error::RatioRangeInvalid`]
-    /// unless t_min_k < t_max_k, [`Error::BandsIndistinguishable`], and band-radiance errors
-    /// (e.g. [`Error::RadianceUnderflow`] where a band sees nothing at t_min_k).
+    /// unless t_min_k < t_max_k, [`Error::BandsIndistinguishable`] where the slope changes
+    /// sign or falls below the floor, or the check cannot resolve the curve within its
+    /// depth and evaluation limits, and band-radiance errors (e.g.
+    /// [`Error::RadianceUnderflow`] where a band sees nothing at t_min_k).
     pub fn new(band1: Band<'a>, band2: Band<'a>, t_min_k: f64, t_max_k: f64) -> Result<Self> {
         check_temperature_k(t_min_k)?;
         check_temperature_k(t_max_k)?;
@@ -118,11 +171,22 @@ impl<'a> RatioPyrometer<'a> {
             log_ratio_max: 0.0,
             increasing: true,
         };
+        let first = pyrometer.probe(t_min_k)?;
+        let sign = if first.slope > 0.0 { 1.0 } else { -1.0 };
+        let floor_margin = |p: &Probe| sign * p.slope - MIN_LOG_SLOPE;
+        if !(floor_margin(&first) > 0.0) {
+            return Err(Error::BandsIndistinguishable);
+        }
+        pyrometer.log_ratio_min = first.log_ratio;
+        pyrometer.increasing = sign > 0.0;
         let span = libm::log(t_max_k / t_min_k);
-        let mut sign = 0.0;
         #[allow(clippy::cast_precision_loss)]
         let last = (RANGE_CHECK_POINTS - 1) as f64;
-        for i in 0..RANGE_CHECK_POINTS {
+        let mut left = first;
+        let mut extra = 0;
+        // Right ends still to be reached from `left`, nearest on top.
+        let mut pending = [first; RANGE_CHECK_MAX_DEPTH + 1];
+        for i in 1..RANGE_CHECK_POINTS {
             #[allow(clippy::cast_precision_loss)]
             let fraction = i as f64 / last;
             let t = if i + 1 == RANGE_CHECK_POINTS {
@@ -130,23 +194,48 @@ impl<'a> RatioPyrometer<'a> {
             } else {
                 t_min_k * libm::exp(span * fraction)
             };
-            let (log_ratio, slope) = pyrometer.log_ratio_and_slope(t)?;
-            let log_slope = t * slope;
-            if !(libm::fabs(log_slope) >= MIN_LOG_SLOPE) {
+            let point = pyrometer.probe(t)?;
+            if !(floor_margin(&point) > 0.0) {
                 return Err(Error::BandsIndistinguishable);
             }
-            let this_sign = log_slope.signum();
-            if sign != 0.0 && this_sign != sign {
-                return Err(Error::BandsIndistinguishable);
+            pending[0] = point;
+            let mut depth = 0;
+            loop {
+                let right = pending[depth];
+                if resolved(&left, &right, sign) {
+                    left = right;
+                    if depth == 0 {
+                        break;
+                    }
+                    depth -= 1;
+                    continue;
+                }
+                if depth == RANGE_CHECK_MAX_DEPTH || extra == RANGE_CHECK_MAX_EXTRA {
+                    return Err(Error::BandsIndistinguishable);
+                }
+                let middle = pyrometer.probe(libm::sqrt(left.t_k * right.t_k))?;
+                extra += 1;
+                if !(floor_margin(&middle) > 0.0) {
+                    return Err(Error::BandsIndistinguishable);
+                }
+                depth += 1;
+                pending[depth] = middle;
             }
-            sign = this_sign;
-            if i == 0 {
-                pyrometer.log_ratio_min = log_ratio;
-            }
-            pyrometer.log_ratio_max = log_ratio;
         }
-        pyrometer.increasing = sign > 0.0;
+        pyrometer.log_ratio_max = left.log_ratio;
         Ok(pyrometer)
+    }
+
+    /// ln R, s = d ln R / d ln T and s' = d s / d ln T at `temperature_k`.
+    fn probe(&self, temperature_k: f64) -> Result<Probe> {
+        let (l1, p1, c1) = self.band1.log_slope_and_curvature(temperature_k)?;
+        let (l2, p2, c2) = self.band2.log_slope_and_curvature(temperature_k)?;
+        Ok(Probe {
+            t_k: temperature_k,
+            log_ratio: libm::log(l1) - libm::log(l2),
+            slope: p1 - p2,
+            curvature: c1 - c2,
+        })
     }
 
     /// Band 1 (numerator).
@@ -243,6 +332,12 @@ impl<'a> RatioPyrometer<'a> {
         }
         for iteration in 1..=SOLVER_MAX_ITERATIONS {
             let (log_ratio, slope) = self.log_ratio_and_slope(t)?;
+            // The range check of `new` makes this hold everywhere in the range; it is
+            // checked again where the answer is taken from, in case a feature slipped
+            // between the check's points.
+            if !(sign * t * slope >= MIN_LOG_SLOPE) {
+                return Err(Error::BandsIndistinguishable);
+            }
             let g = log_ratio - target;
             if g == 0.0 {
                 return Ok(done(t, iteration, 0.0));

@@ -1005,3 +1005,56 @@ fn derivative_of_a_radiance_near_the_double_range_end() {
     );
     assert_eq!(band.radiance_derivative(t), Ok(derivative));
 }
+
+/// A photon band below 4.08 um over a tabulated energy band from 0.908 um to 1e38 um, on
+/// the range 1081.6 K to 1e38 K: the ratio L1/L2 is not monotone (it falls between about
+/// 2000 and 2576 K), but the 65 log-spaced points of the range check, 0.55 decades apart,
+/// all saw a positive slope, so the pyrometer was accepted and the signals of 2576.29 K
+/// returned Ok(1533.82 K), which has the same ratio. The check now refines where the
+/// slope bends and refuses the range.
+#[test]
+fn ratio_that_is_not_monotone_between_the_check_points_is_refused() {
+    use bandtemp::band::SpectralTable;
+    use bandtemp::ratio::RatioPyrometer;
+    let band1 =
+        Band::rectangular(1.577131336563841e-273, 4.07696800990474, Detector::Photon).unwrap();
+    let wl = [0.9080802264899752, 1e38];
+    let r = [0.2585183489738308, 0.02851911192492561];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band2 = Band::with_response(0.9080802264899752, 1e308, Detector::Energy, table).unwrap();
+    // mpmath 1.3 at 40 digits (CODATA 2018 exact h, c, k; quadrature of the Planck law
+    // times the response): the two temperatures share ln(L1/L2) = 45.00173762466419, and
+    // ln R at 2000 K lies above both.
+    let cases = [
+        (
+            1533.8188665939501,
+            8.969949721036179e+23,
+            25632.070107463554,
+        ),
+        (2000.0, 2.5247118291125376e+24, 71576.01084422237),
+        (2576.292651974296, 6.273466251221997e+24, 179267.36689618044),
+    ];
+    for (t, want1, want2) in cases {
+        let (l1, l2) = (band1.radiance(t).unwrap(), band2.radiance(t).unwrap());
+        assert!(
+            ((l1 - want1) / want1).abs() < 1e-12,
+            "band 1 at {t}: {l1:e}"
+        );
+        assert!(
+            ((l2 - want2) / want2).abs() < 1e-12,
+            "band 2 at {t}: {l2:e}"
+        );
+    }
+    assert_eq!(
+        RatioPyrometer::new(band1, band2, 1081.5982504757735, 1e38).map(|_| ()),
+        Err(Error::BandsIndistinguishable)
+    );
+    // Above the dip the ratio is monotone with a healthy slope, and the range is taken;
+    // a round trip through it recovers T.
+    let pyrometer = RatioPyrometer::new(band1, band2, 3000.0, 1e6).unwrap();
+    for t in [3000.0, 4500.0, 2e4, 9e5] {
+        let ratio = band1.radiance(t).unwrap() / band2.radiance(t).unwrap();
+        let back = pyrometer.temperature(ratio, 1.0).unwrap().temperature_k;
+        assert!((back - t).abs() <= 1e-9 * t, "{t} -> {back}");
+    }
+}
