@@ -1007,6 +1007,52 @@ where
     )
 }
 
+/// The step of [`solve_core`] from T where f = `value`, f' = `slope`, the second ln-T
+/// derivative `second`, P1 = d ln f/d ln T and r = f/target - 1: (next T, whether it is
+/// a Newton step, whether Halley's correction was applied); (NaN, false, false) where
+/// there is no usable step.
+///
+/// Newton on ln f(u), u = 1/T: du = (ln f - ln target) / (T^2 f'/f).
+#[inline]
+fn newton_halley_step(
+    t: f64,
+    value: f64,
+    slope: f64,
+    second: f64,
+    p1: f64,
+    r: f64,
+) -> (f64, bool, bool) {
+    if !(value > 0.0 && value.is_finite() && slope > 0.0 && p1.is_finite()) {
+        return (f64::NAN, false, false);
+    }
+    // ln(f / target) via log1p keeps the last bits that ln f - ln target loses; near
+    // convergence (|r| < 1e-4) its series r - r^2/2 + r^3/3 is exact to r^4/4 < 2.5e-17 r
+    // and much cheaper.
+    let log_ratio = if libm::fabs(r) < 1e-4 {
+        r * (1.0 - r * (0.5 - r * (1.0 / 3.0)))
+    } else {
+        libm::log1p(r)
+    };
+    // The Newton step in u relative to u is rho = log_ratio/P1 (an infinite P1 would make
+    // rho zero and fake a converged step: refused above, so that the solver bisects).
+    let mut rho = log_ratio / p1;
+    // Halley: rho / (1 + dN g2/(2 g1)) with dN g2/(2 g1) = -rho (1 + P2/P1)/2,
+    // P2 = f_ss/f - P1^2; taken only while that correction is moderate (near the root),
+    // otherwise the plain Newton step. NaN (no second derivative) fails the test.
+    let mut halley = false;
+    let factor = 1.0 - 0.5 * rho * (1.0 + (second / value - p1 * p1) / p1);
+    if factor > 0.5 && factor < 2.0 {
+        rho /= factor;
+        halley = true;
+    }
+    let u = (1.0 + rho) / t;
+    if u > 0.0 {
+        (1.0 / u, true, halley)
+    } else {
+        (f64::NAN, false, false)
+    }
+}
+
 /// The solver of [`solve_increasing`], where `eval(T)` may also return the second
 /// derivative d2f/d(ln T)2 (NaN if unknown). With it, each step is Halley's (cubic
 /// convergence) instead of Newton's on g(u) = ln f(1/u): with the Newton step dN in u,
@@ -1026,6 +1072,13 @@ where
     let mut hi = SOLVER_MAX_K;
     let mut lo_seen = false;
     let mut hi_seen = false;
+    // Residuals at the bracket's ends (NaN until seen; -1 / +inf where the signal there
+    // underflowed / overflowed).
+    let mut lo_residual = f64::NAN;
+    let mut hi_residual = f64::NAN;
+    // P1 = d ln f / d ln T at the bracket's ends (NaN until seen or where not usable).
+    let mut lo_p1 = f64::NAN;
+    let mut hi_p1 = f64::NAN;
     let mut t = if guess_k > lo && guess_k < hi {
         guess_k
     } else {
@@ -1046,52 +1099,33 @@ where
                 residual: 0.0,
             });
         }
-        if value < target {
-            lo = t;
-            lo_seen = true;
-        } else {
-            hi = t;
-            hi_seen = true;
-        }
-        // Newton on ln f(u), u = 1/T: du = (ln f - ln target) / (T^2 f'/f).
-        let mut next = f64::NAN;
-        let mut newton = false;
-        let mut halley = false;
+        // P1 = d ln f / d ln T (NaN where f or f' is not usable). T f' can overflow where
+        // P1 does not (f near the top of the double range): then the other order.
+        let mut p1 = f64::NAN;
         if value > 0.0 && value.is_finite() && slope > 0.0 {
-            // ln(f / target) via log1p keeps the last bits that ln f - ln target loses;
-            // near convergence (|r| < 1e-4) its series r - r^2/2 + r^3/3 is exact to
-            // r^4/4 < 2.5e-17 r and much cheaper.
-            let r = (value - target) / target;
-            let log_ratio = if libm::fabs(r) < 1e-4 {
-                r * (1.0 - r * (0.5 - r * (1.0 / 3.0)))
-            } else {
-                libm::log1p(r)
-            };
-            // P1 = d ln f / d ln T; the Newton step in u relative to u is rho = log_ratio/P1.
-            // T f' can overflow where P1 does not (f near the top of the double range):
-            // then the other order. An infinite P1 would make rho zero and fake a converged
-            // step, so it is refused below (bisection instead).
-            let mut p1 = t * slope / value;
+            p1 = t * slope / value;
             if p1.is_infinite() {
                 p1 = t * (slope / value);
             }
-            let mut rho = log_ratio / p1;
-            // Halley: rho / (1 + dN g2/(2 g1)) with dN g2/(2 g1) = -rho (1 + P2/P1)/2,
-            // P2 = f_ss/f - P1^2; taken only while that correction is moderate (near the
-            // root), otherwise the plain Newton step. NaN (no second derivative) fails
-            // the test.
-            let factor = 1.0 - 0.5 * rho * (1.0 + (second / value - p1 * p1) / p1);
-            if factor > 0.5 && factor < 2.0 {
-                rho /= factor;
-                halley = true;
-            }
-            let u = (1.0 + rho) / t;
-            if u > 0.0 && p1.is_finite() {
-                next = 1.0 / u;
-                newton = true;
-            }
         }
-        if !(next >= lo && next <= hi) {
+        if value < target {
+            lo = t;
+            lo_seen = true;
+            (lo_residual, lo_p1) = (residual, p1);
+        } else {
+            hi = t;
+            hi_seen = true;
+            (hi_residual, hi_p1) = (residual, p1);
+        }
+        let (mut next, mut newton, mut halley) =
+            newton_halley_step(t, value, slope, second, p1, residual);
+        // A step onto an end of the bracket where the signal could not be represented
+        // (the root lies within rounding of the overflow or underflow threshold) would
+        // return a temperature without a signal: bisect instead, towards the end that has
+        // one.
+        let onto_unrepresentable =
+            (next >= hi && hi_residual == f64::INFINITY) || (next <= lo && lo_residual == -1.0);
+        if !(next >= lo && next <= hi) || onto_unrepresentable {
             next = libm::sqrt(lo * hi);
             newton = false;
             halley = false;
@@ -1102,18 +1136,36 @@ where
         // limit, 2/(4 + x) in the Wien limit) and stays O(10) for grey scene signals over
         // a background. So a Newton step below 1e-8 T is already accurate to ~1e-15 T
         // and needs no further evaluation; other steps must shrink to 1e-12 T.
-        if (newton && step <= NEWTON_FINAL_STEP * t)
-            || (halley && step <= HALLEY_FINAL_STEP * t)
-            || step <= 1e-12 * t
-            || hi - lo <= 4.0 * f64::EPSILON * hi
-        {
+        //
+        // A final step that lands within its own length of an end where the signal was
+        // not representable is evaluated first (the root is within rounding of the
+        // overflow or underflow threshold, and the answer must have a signal).
+        let near_unrepresentable = (hi_residual == f64::INFINITY && hi - next <= step)
+            || (lo_residual == -1.0 && next - lo <= step);
+        let final_step = !near_unrepresentable
+            && ((newton && step <= NEWTON_FINAL_STEP * t)
+                || (halley && step <= HALLEY_FINAL_STEP * t));
+        if final_step || step <= 1e-12 * t || hi - lo <= 4.0 * f64::EPSILON * hi {
+            // A bracket collapsed against an unrepresentable end answers with its other
+            // end (within 4 ulp of the root), which has a signal.
+            let (mut next, mut residual, mut p1, mut stepped) =
+                (next, residual, p1, newton || halley);
+            if next >= hi && hi_residual == f64::INFINITY && lo_seen {
+                (next, residual, p1, stepped) = (lo, lo_residual, lo_p1, false);
+            } else if next <= lo && lo_residual == -1.0 && hi_seen {
+                (next, residual, p1, stepped) = (hi, hi_residual, hi_p1, false);
+            }
             let at_floor = !lo_seen && next <= SOLVER_MIN_K * (1.0 + 1e-9);
             let at_ceiling = !hi_seen && next >= SOLVER_MAX_K * (1.0 - 1e-9);
             // A bracket that shrank by bisection onto a jump of the curve (from an
-            // underflow straight to values far above the target) holds no root: at a true
-            // root the last value is within P1 * 4e-12 of the target (P1 = d ln f/d ln T,
-            // below 1e3 for any band), far below 1e-6.
-            let on_a_jump = !(newton || halley || libm::fabs(residual) <= 1e-6);
+            // underflow straight to values far above the target, or from just below the
+            // target to an overflow) holds no root: at a true root the value at the end
+            // returned is within P1 * 4 ulp (the bracket) plus the evaluation's rounding
+            // (1e-14 relative) of the target, so 1e-12 max(P1, 1) relative, a temperature
+            // error of 1e-12 T at most. (A residual of 2e-8 against an overflow at 1.8e308
+            // was once taken as a root.)
+            let tolerance = 1e-12 * if p1 > 1.0 { p1 } else { 1.0 };
+            let on_a_jump = !(stepped || libm::fabs(residual) <= tolerance);
             if at_floor || at_ceiling || on_a_jump {
                 return Err(Error::RadianceOutOfRange);
             }

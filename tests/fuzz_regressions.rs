@@ -1058,3 +1058,43 @@ fn ratio_that_is_not_monotone_between_the_check_points_is_refused() {
         assert!((back - t).abs() <= 1e-9 * t, "{t} -> {back}");
     }
 }
+
+/// The inversion of the largest double through a band whose radiance reaches it at
+/// 11533.4 K (a response of 1e300 at its short end): the root lies within rounding of the
+/// overflow threshold, and the solver's final Newton step landed one ulp below a
+/// temperature it had seen overflow and returned it, a temperature whose radiance
+/// overflows. Final steps next to an unrepresentable end are now evaluated first, and a
+/// bracket collapsed against one answers with its other end.
+#[test]
+fn largest_radiance_inverts_to_a_temperature_that_has_one() {
+    use bandtemp::band::SpectralTable;
+    let wl = [
+        0.2,
+        0.308_722_386_591_138_43,
+        0.685_849_103_443_855,
+        1.271_819_722_636_664_8,
+        1.327_355_225_851_437_2,
+        16.418_476_064_048_956,
+        1e6,
+    ];
+    let r = [
+        1e300,
+        1e300,
+        0.999_999_999_999_999_9,
+        0.926_756_694_895_857_2,
+        0.800_427_252_613_107_5,
+        0.116_594_186_312_657_36,
+        1e300,
+    ];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(1e-310, 1e300, Detector::Energy, table).unwrap();
+    for target in [f64::MAX, f64::MAX * (1.0 - 1e-12), 1.7e308] {
+        let t = band.temperature(target).unwrap();
+        let back = band.radiance(t).unwrap();
+        let slope = band.radiance_derivative(t).unwrap();
+        assert!(
+            ((back - target) / slope).abs() <= 1e-12 * t,
+            "L {target:e} -> T {t} -> L {back:e}"
+        );
+    }
+}
