@@ -1146,13 +1146,14 @@ where
             && ((newton && step <= NEWTON_FINAL_STEP * t)
                 || (halley && step <= HALLEY_FINAL_STEP * t));
         if final_step || step <= 1e-12 * t || hi - lo <= 4.0 * f64::EPSILON * hi {
-            // A bracket collapsed against an unrepresentable end answers with its other
-            // end (within 4 ulp of the root), which has a signal.
+            // An answer within its last step of an unrepresentable end (a collapsed
+            // bracket, or a step of 1e-12 T towards it) is replaced by the other end,
+            // which has a signal, and must pass the residual test below.
             let (mut next, mut residual, mut p1, mut stepped) =
                 (next, residual, p1, newton || halley);
-            if next >= hi && hi_residual == f64::INFINITY && lo_seen {
+            if hi - next <= step && hi_residual == f64::INFINITY && lo_seen {
                 (next, residual, p1, stepped) = (lo, lo_residual, lo_p1, false);
-            } else if next <= lo && lo_residual == -1.0 && hi_seen {
+            } else if next - lo <= step && lo_residual == -1.0 && hi_seen {
                 (next, residual, p1, stepped) = (hi, hi_residual, hi_p1, false);
             }
             let at_floor = !lo_seen && next <= SOLVER_MIN_K * (1.0 + 1e-9);
