@@ -1137,23 +1137,24 @@ where
         // a background. So a Newton step below 1e-8 T is already accurate to ~1e-15 T
         // and needs no further evaluation; other steps must shrink to 1e-12 T.
         //
-        // A final step that lands within its own length of an end where the signal was
-        // not representable is evaluated first (the root is within rounding of the
-        // overflow or underflow threshold, and the answer must have a signal).
-        let near_unrepresentable = (hi_residual == f64::INFINITY && hi - next <= step)
-            || (lo_residual == -1.0 && next - lo <= step);
+        // A final step that lands within 1e-8 T of an end where the signal was not
+        // representable is evaluated first: the root is then within rounding of the
+        // overflow or underflow threshold, and the answer must have a signal.
+        let near = NEWTON_FINAL_STEP * t;
+        let near_unrepresentable = (hi_residual == f64::INFINITY && hi - next <= near)
+            || (lo_residual == -1.0 && next - lo <= near);
         let final_step = !near_unrepresentable
             && ((newton && step <= NEWTON_FINAL_STEP * t)
                 || (halley && step <= HALLEY_FINAL_STEP * t));
         if final_step || step <= 1e-12 * t || hi - lo <= 4.0 * f64::EPSILON * hi {
-            // An answer within its last step of an unrepresentable end (a collapsed
-            // bracket, or a step of 1e-12 T towards it) is replaced by the other end,
-            // which has a signal, and must pass the residual test below.
+            // An answer within 1e-8 T of an unrepresentable end (a collapsed bracket, or
+            // a last step of 1e-12 T next to it) is replaced by the other end, which has
+            // a signal, and must pass the residual test below.
             let (mut next, mut residual, mut p1, mut stepped) =
                 (next, residual, p1, newton || halley);
-            if hi - next <= step && hi_residual == f64::INFINITY && lo_seen {
+            if hi - next <= near && hi_residual == f64::INFINITY && lo_seen {
                 (next, residual, p1, stepped) = (lo, lo_residual, lo_p1, false);
-            } else if next - lo <= step && lo_residual == -1.0 && hi_seen {
+            } else if next - lo <= near && lo_residual == -1.0 && hi_seen {
                 (next, residual, p1, stepped) = (hi, hi_residual, hi_p1, false);
             }
             let at_floor = !lo_seen && next <= SOLVER_MIN_K * (1.0 + 1e-9);
@@ -1161,11 +1162,13 @@ where
             // A bracket that shrank by bisection onto a jump of the curve (from an
             // underflow straight to values far above the target, or from just below the
             // target to an overflow) holds no root: at a true root the value at the end
-            // returned is within P1 * 4 ulp (the bracket) plus the evaluation's rounding
-            // (1e-14 relative) of the target, so 1e-12 max(P1, 1) relative, a temperature
-            // error of 1e-12 T at most. (A residual of 2e-8 against an overflow at 1.8e308
-            // was once taken as a root.)
-            let tolerance = 1e-12 * if p1 > 1.0 { p1 } else { 1.0 };
+            // returned is within P1 times the bracket's relative width plus the
+            // evaluation's rounding (1e-14 relative) of the target: the tolerance is
+            // max(P1, 1) (1e-12 + 2 (hi - lo)/lo), a temperature error of
+            // 1e-12 T + 2 (hi - lo) at most (the bracket is 4 ulp wide once collapsed, and
+            // at most 2e-12 T after a last step of 1e-12 T). (A residual of 2e-8 against an
+            // overflow at 1.8e308 was once taken as a root.)
+            let tolerance = (1e-12 + 2.0 * (hi - lo) / lo) * if p1 > 1.0 { p1 } else { 1.0 };
             let on_a_jump = !(stepped || libm::fabs(residual) <= tolerance);
             if at_floor || at_ceiling || on_a_jump {
                 return Err(Error::RadianceOutOfRange);

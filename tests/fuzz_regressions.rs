@@ -1105,10 +1105,14 @@ fn largest_radiance_inverts_to_a_temperature_that_has_one() {
         0.850_782_024_872_205_7,
         0.376_470_588_235_294_1,
     ];
-    for (wl, r) in [(wl, r), (wl2, r2)] {
+    // The third: a final Newton step of one ulp, three ulp below an overflow.
+    let mut r3 = r2;
+    r3[0] = 0.376_470_588_235_294_1;
+    for (wl, r) in [(wl, r), (wl2, r2), (wl2, r3)] {
         let table = SpectralTable::new(&wl, &r).unwrap();
         let band = Band::with_response(1e-310, 1e300, Detector::Energy, table).unwrap();
-        for target in [f64::MAX, f64::MAX * (1.0 - 1e-12), 1.7e308] {
+        let ulps = (0..8).map(|k| f64::from_bits(f64::MAX.to_bits() - k));
+        for target in ulps.chain([f64::MAX * (1.0 - 1e-12), 1.7e308]) {
             let t = band.temperature(target).unwrap();
             let back = band.radiance(t).unwrap();
             let slope = band.radiance_derivative(t).unwrap();
