@@ -132,7 +132,13 @@ proptest! {
         let whole = Path::new(air, d1 + d2).unwrap().spectral_transmittance(wl).unwrap();
         let a = Path::new(air, d1).unwrap().spectral_transmittance(wl).unwrap();
         let b = Path::new(air, d2).unwrap().spectral_transmittance(wl).unwrap();
-        prop_assert!((whole - a * b).abs() <= 1e-14 * whole.max(1e-300) + 1e-300);
+        // tau = exp(-k d): a rounding of the optical depth k d (a few ulp of it) is a
+        // relative error of that size in tau, so the tolerance grows with the depth (a
+        // fixed 1e-14 failed at a depth of 34: 49 C, 80 %, 3.9 km at 13.9 um, where the
+        // product is 1.24e-14 off).
+        let depth = -whole.max(1e-300).ln();
+        let tolerance = 8.0 * f64::EPSILON * (1.0 + depth);
+        prop_assert!((whole - a * b).abs() <= tolerance * whole.max(1e-300) + 1e-300);
     }
 
     /// More distance or more humidity never transmits more (strictly less when there is
