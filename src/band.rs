@@ -1010,7 +1010,8 @@ where
 /// The step of [`solve_core`] from T where f = `value`, f' = `slope`, the second ln-T
 /// derivative `second`, P1 = d ln f/d ln T and r = f/target - 1: (next T, whether it is
 /// a Newton step, whether Halley's correction was applied); (NaN, false, false) where
-/// there is no usable step.
+/// there is no usable step, (+inf, false, false) where the tangent puts the root above
+/// every temperature.
 ///
 /// Newton on ln f(u), u = 1/T: du = (ln f - ln target) / (T^2 f'/f).
 #[inline]
@@ -1049,7 +1050,8 @@ fn newton_halley_step(
     if u > 0.0 {
         (1.0 / u, true, halley)
     } else {
-        (f64::NAN, false, false)
+        // The tangent in u = 1/T reaches the target only beyond every temperature.
+        (f64::INFINITY, false, false)
     }
 }
 
@@ -1126,7 +1128,16 @@ where
         let onto_unrepresentable =
             (next >= hi && hi_residual == f64::INFINITY) || (next <= lo && lo_residual == -1.0);
         if !(next >= lo && next <= hi) || onto_unrepresentable {
-            next = libm::sqrt(lo * hi);
+            // A Newton step beyond a search limit not yet evaluated goes to that limit:
+            // one evaluation settles whether the root lies beyond it (an error at once,
+            // instead of some 30 bisections towards it) and otherwise closes the bracket.
+            next = if next > hi && !hi_seen && t < hi {
+                hi
+            } else if next < lo && !lo_seen && t > lo {
+                lo
+            } else {
+                libm::sqrt(lo * hi)
+            };
             newton = false;
             halley = false;
         }

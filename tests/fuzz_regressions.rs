@@ -1123,3 +1123,45 @@ fn largest_radiance_inverts_to_a_temperature_that_has_one() {
         }
     }
 }
+
+/// A signal above what any temperature up to the solver's ceiling (1e6 K) gives: the
+/// spectral-mode inversion of 7.6e19 through a band from 1 nm to 3.8 um (0.34 ms per
+/// evaluation) bisected some 40 times towards the ceiling before it said
+/// `RadianceOutOfRange`, over the fuzz targets' 50 ms. A tangent that puts the root beyond
+/// a limit not yet evaluated now goes to that limit at once. Counted on a toy curve
+/// f = T^4 (its value at 1e6 K is 1e24), in evaluations rather than time.
+#[test]
+fn signal_beyond_the_search_limits_is_refused_in_a_few_evaluations() {
+    use bandtemp::band::{solve_increasing, SOLVER_MAX_K, SOLVER_MIN_K};
+    use std::cell::Cell;
+    let count = Cell::new(0);
+    let curve = |t: f64| {
+        count.set(count.get() + 1);
+        Ok((t * t * t * t, 4.0 * t * t * t))
+    };
+    for (target, guess) in [(1e30, 1000.0), (1e25, 300.0), (1e-8, 1000.0), (1e-5, 2.0)] {
+        count.set(0);
+        assert_eq!(
+            solve_increasing(curve, target, guess),
+            Err(Error::RadianceOutOfRange),
+            "target {target:e}"
+        );
+        assert!(
+            count.get() <= 8,
+            "target {target:e}: {} evaluations",
+            count.get()
+        );
+    }
+    // Roots just inside the limits are still found, to full precision.
+    for target in [
+        (SOLVER_MAX_K * 0.999).powi(4),
+        (SOLVER_MIN_K * 1.001).powi(4),
+    ] {
+        let solution = solve_increasing(curve, target, 1000.0).unwrap();
+        let t = solution.temperature_k;
+        assert!(
+            (t.powi(4) - target).abs() <= 1e-13 * target,
+            "{target:e} -> {t}"
+        );
+    }
+}
