@@ -2471,12 +2471,15 @@ bt_status bt_frame_convert_signal(const bt_frame_converter *converter,
  * Errors: the bands' errors (as `bt_band_radiance`), `BT_STATUS_NON_FINITE`,
  * `BT_STATUS_TEMPERATURE_NOT_POSITIVE`, `BT_STATUS_RATIO_RANGE_INVALID` unless
  * t_min_k < t_max_k, `BT_STATUS_BANDS_INDISTINGUISHABLE` when |d ln R / d ln T| falls
- * below 0.1 in the range, `BT_STATUS_RADIANCE_NOT_POSITIVE` for a signal <= 0,
+ * below 0.1 or changes sign in the range, `BT_STATUS_RADIANCE_NOT_POSITIVE` for a signal <= 0,
  * `BT_STATUS_EMISSIVITY_RATIO_NOT_POSITIVE`, `BT_STATUS_RATIO_OUT_OF_RANGE` when R/kappa
  * is outside what the range produces, `BT_STATUS_NOT_CONVERGED`.
  *
- * The working range is checked on every call (65 band-ratio evaluations); a fast path
- * over many readings is a frame converter's job.
+ * The working range is checked on every call: 65 log-spaced band-ratio evaluations, and
+ * more between them where d ln R / d ln T bends (none for an ordinary range such as
+ * 500-2500 K; at most 2,048 more, past which the range is refused as
+ * `BT_STATUS_BANDS_INDISTINGUISHABLE`). A fast path over many readings is a frame
+ * converter's job.
  *
  * # Safety
  * `band1` and `band2` as in `bt_band_radiance`; `temperature_k` null or valid for
