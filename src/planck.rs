@@ -626,7 +626,8 @@ fn gauss_sum<W: Fn(f64, f64) -> f64>(
 /// t an offset o (in x) into the segment, r = `edge` + `rise` `per_span` p/t with
 /// p = `sign` o + `start` (see `Band::response_panels`: `edge` the response at the
 /// segment's end nearest its smaller value, `rise` >= 0 the rise towards its larger value,
-/// `per_span` p/t the fraction of the segment between the node and that end, in 0..=1).
+/// `per_span` p/t the fraction of the segment between the node and that end, in 0..=1;
+/// `Band::response_panels` passes half the rise and twice the fraction, the same product).
 #[derive(Clone, Copy)]
 pub(crate) struct LinearResponse {
     pub(crate) edge: f64,
@@ -748,9 +749,11 @@ fn linear_response_sum<const N: usize, const K: usize>(
             _ => t * t * inv_e,
         };
         let planck = g * t;
-        // rise g first: g = planck/t is below 1 for m >= 2, so rise g cannot overflow, and
-        // it is as small only as the integrand itself; then the fraction per_span p <= t
-        // (so the product stays below 1.43 rise, as with the weight times planck). Taking
+        // rise g first: g = planck/t is below 1 for m >= 2 (it may round to one ulp above
+        // 1 for t near 1e-16, which is why `Band::response_panels` passes half the rise),
+        // so rise g cannot overflow, and it is as small only as the integrand itself; then
+        // the fraction per_span p <= 2t (so the product stays below 1.43 times the full
+        // rise, as with the weight times planck). Taking
         // per_span p g first underflowed to subnormal for a long segment (per_span 4e-301,
         // g 6e-22 at t = 57) and lost half a percent of the radiance.
         let f = w * (response.edge * planck + (response.rise * g) * (response.per_span * p));

@@ -1165,3 +1165,36 @@ fn signal_beyond_the_search_limits_is_refused_in_a_few_evaluations() {
         );
     }
 }
+
+/// A photon band over a response rising linearly from 0 at 0.743 um to the largest double
+/// at 1e308 um (so 1.8 per um over any wavelength that matters): the folded panel forms
+/// rise G with G = t/(e^t - 1) <= 1, which rounds to one ulp above 1 for t near 1e-16, and
+/// rise = 1.8e308 made it infinite. The radiance was `RadianceOverflow` at 0.63 K and
+/// 414.6 K between finite values, and the inversion of L(250.57 K) bisected onto the
+/// spurious overflow and failed.
+#[test]
+fn response_rising_to_the_largest_double_has_a_finite_radiance() {
+    use bandtemp::band::SpectralTable;
+    let wl = [0.742_668_502_641_128, 1e308];
+    let r = [0.0, f64::MAX];
+    let table = SpectralTable::new(&wl, &r).unwrap();
+    let band = Band::with_response(0.5, 1e300, Detector::Photon, table).unwrap();
+    // mpmath 1.3 at 40 digits: the integral of r(lambda) times the photon Planck law
+    // (CODATA 2018 exact h, c, k) over 0.743 um to 1e300 um, split at every decade.
+    let cases = [
+        (0.63, 3.399_290_741_976_481e18),
+        (300.0, 7.534_047_101_364_943e23),
+        (414.6, 1.426_217_181_223_511_5e24),
+        (500.0, 2.060_483_168_911_667_2e24),
+    ];
+    for (t, want) in cases {
+        let got = band.radiance(t).unwrap();
+        assert!(
+            ((got - want) / want).abs() < 1e-13,
+            "{t} K: {got:e} vs {want:e}"
+        );
+    }
+    let t = 250.567_091_684_478_13;
+    let back = band.temperature(band.radiance(t).unwrap()).unwrap();
+    assert!((back - t).abs() <= 1e-12 * t, "{t} -> {back}");
+}
