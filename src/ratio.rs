@@ -100,6 +100,8 @@ pub struct RatioPyrometer<'a> {
     log_ratio_max: f64,
     /// True when L1/L2 rises with temperature (band 1 the shorter-wave one).
     increasing: bool,
+    /// Evaluations the range check of [`RatioPyrometer::new`] took.
+    check_evaluations: usize,
 }
 
 /// One point of the range check of [`RatioPyrometer::new`].
@@ -170,6 +172,7 @@ impl<'a> RatioPyrometer<'a> {
             log_ratio_min: 0.0,
             log_ratio_max: 0.0,
             increasing: true,
+            check_evaluations: 0,
         };
         let first = pyrometer.probe(t_min_k)?;
         let sign = if first.slope > 0.0 { 1.0 } else { -1.0 };
@@ -223,6 +226,7 @@ impl<'a> RatioPyrometer<'a> {
             }
         }
         pyrometer.log_ratio_max = left.log_ratio;
+        pyrometer.check_evaluations = RANGE_CHECK_POINTS + extra;
         Ok(pyrometer)
     }
 
@@ -236,6 +240,13 @@ impl<'a> RatioPyrometer<'a> {
             slope: p1 - p2,
             curvature: c1 - c2,
         })
+    }
+
+    /// How many temperatures the range check of [`RatioPyrometer::new`] evaluated both
+    /// bands at: [`RANGE_CHECK_POINTS`], plus those it added where the slope bends.
+    #[must_use]
+    pub fn range_check_evaluations(&self) -> usize {
+        self.check_evaluations
     }
 
     /// Band 1 (numerator).

@@ -1052,6 +1052,9 @@ fn ratio_that_is_not_monotone_between_the_check_points_is_refused() {
     // Above the dip the ratio is monotone with a healthy slope, and the range is taken;
     // a round trip through it recovers T.
     let pyrometer = RatioPyrometer::new(band1, band2, 3000.0, 1e6).unwrap();
+    // Up to 1e38 K it is taken too, after refining three intervals of the 35 decades.
+    let wide = RatioPyrometer::new(band1, band2, 3000.0, 1e38).unwrap();
+    assert!(wide.range_check_evaluations() > 65);
     for t in [3000.0, 4500.0, 2e4, 9e5] {
         let ratio = band1.radiance(t).unwrap() / band2.radiance(t).unwrap();
         let back = pyrometer.temperature(ratio, 1.0).unwrap().temperature_k;

@@ -279,3 +279,30 @@ proptest! {
         prop_assert!(((back - t) / t).abs() < 1e-12);
     }
 }
+
+/// The range check refines only where the slope bends: ordinary pairs and ranges take its
+/// 65 points and no more (so a call costs what it did before the refinement), and ranges
+/// reaching the Rayleigh-Jeans side of both bands, where d ln R / d ln T falls towards 0,
+/// are refused.
+#[test]
+fn range_check_costs_nothing_extra_on_ordinary_ranges() {
+    let (a, b) = narrow_pair(Detector::Energy);
+    let mid = Band::rectangular(3.0, 5.0, Detector::Photon).unwrap();
+    let long = Band::rectangular(8.0, 14.0, Detector::Photon).unwrap();
+    for (x, y, lo, hi) in [
+        (a, b, 800.0, 3500.0),
+        (a, b, 500.0, 2e4),
+        (mid, long, 300.0, 1500.0),
+        (mid, long, 250.0, 3000.0),
+    ] {
+        let pyrometer = RatioPyrometer::new(x, y, lo, hi).unwrap();
+        assert_eq!(pyrometer.range_check_evaluations(), 65, "{lo}..{hi}");
+    }
+    for (x, y, lo, hi) in [(a, b, 300.0, 1e5), (mid, long, 200.0, 1e6)] {
+        assert_eq!(
+            RatioPyrometer::new(x, y, lo, hi).map(|_| ()),
+            Err(Error::BandsIndistinguishable),
+            "{lo}..{hi}"
+        );
+    }
+}
