@@ -8,7 +8,7 @@ mod common;
 
 use bandtemp::band::Band;
 use bandtemp::planck::Detector;
-use common::{assert_close, detector, read_csv, tol, C2_UMK};
+use common::{assert_close, band_case, read_csv, tol, BandCase, C2_UMK};
 use proptest::prelude::*;
 
 #[test]
@@ -16,14 +16,12 @@ fn band_radiance_on_the_grid_and_the_fit_split_matches_mpmath() {
     let rows = read_csv("band_fit_split.csv");
     let (mut worst, mut worst_derivative, mut worst_inversion) = (0.0_f64, 0.0_f64, 0.0_f64);
     for row in &rows {
-        let det = detector(row);
-        let (lo_um, hi_um) = (row.f64("lo_um"), row.f64("hi_um"));
-        let temperature_k = row.f64("temperature_k");
-        let what = format!(
-            "line {}: {det:?} [{lo_um}, {hi_um}] um at {temperature_k} K",
-            row.line
-        );
-        let band = Band::rectangular(lo_um, hi_um, det).unwrap();
+        let BandCase {
+            band,
+            temperature_k,
+            what,
+            ..
+        } = band_case(row);
         let (radiance, derivative) = band.radiance_and_derivative(temperature_k).unwrap();
         // Every x here is below 100, where the problem's own condition is small.
         worst = worst.max(assert_close(

@@ -8,8 +8,7 @@
 
 mod common;
 
-use bandtemp::band::Band;
-use common::{assert_close, detector, read_csv, tol, C2_UMK};
+use common::{assert_close, band_case, read_csv, tol, BandCase, C2_UMK};
 
 #[test]
 fn band_radiance_on_the_switches_matches_mpmath() {
@@ -17,14 +16,13 @@ fn band_radiance_on_the_switches_matches_mpmath() {
     let (mut worst, mut worst_derivative) = (0.0_f64, 0.0_f64);
     let mut worst_below_100 = 0.0_f64;
     for row in &rows {
-        let det = detector(row);
-        let (lo_um, hi_um) = (row.f64("lo_um"), row.f64("hi_um"));
-        let temperature_k = row.f64("temperature_k");
-        let what = format!(
-            "line {}: {det:?} [{lo_um}, {hi_um}] um at {temperature_k} K",
-            row.line
-        );
-        let band = Band::rectangular(lo_um, hi_um, det).unwrap();
+        let BandCase {
+            band,
+            hi_um,
+            temperature_k,
+            what,
+            ..
+        } = band_case(row);
         let (radiance, derivative) = band.radiance_and_derivative(temperature_k).unwrap();
         // Deep in the Wien tail the problem's own condition number is x: rounding
         // x = c2/(lambda T) to a double moves e^-x by x ulp (see tol::conditioned_rel).

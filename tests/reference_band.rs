@@ -6,21 +6,22 @@ mod common;
 use bandtemp::band::{Band, SpectralTable};
 use bandtemp::planck::{spectral, Detector};
 use bandtemp::Error;
-use common::{assert_close, detector, read_csv, read_response, relative_error, tol, C2_UMK};
+use common::{
+    assert_close, band_case, detector, read_csv, read_response, relative_error, tol, BandCase,
+    C2_UMK,
+};
 
 #[test]
 fn rectangular_band_radiance_matches_mpmath() {
     let rows = read_csv("band_radiance.csv");
     let (mut worst, mut worst_derivative) = (0.0_f64, 0.0_f64);
     for row in &rows {
-        let det = detector(row);
-        let (lo_um, hi_um) = (row.f64("lo_um"), row.f64("hi_um"));
-        let temperature_k = row.f64("temperature_k");
-        let what = format!(
-            "line {}: {det:?} [{lo_um}, {hi_um}] um at {temperature_k} K",
-            row.line
-        );
-        let band = Band::rectangular(lo_um, hi_um, det).unwrap();
+        let BandCase {
+            band,
+            temperature_k,
+            what,
+            ..
+        } = band_case(row);
         let (radiance, derivative) = band.radiance_and_derivative(temperature_k).unwrap();
         worst = worst.max(assert_close(
             &what,

@@ -177,5 +177,32 @@ pub fn detector(row: &Row) -> bandtemp::planck::Detector {
     }
 }
 
+/// A rectangular band case of a reference row (columns `detector`, `lo_um`, `hi_um`,
+/// `temperature_k`), with a label naming its line for messages.
+pub struct BandCase {
+    pub band: bandtemp::band::Band<'static>,
+    pub lo_um: f64,
+    pub hi_um: f64,
+    pub temperature_k: f64,
+    pub what: String,
+}
+
+/// Reads a [`BandCase`] from a row.
+pub fn band_case(row: &Row) -> BandCase {
+    let det = detector(row);
+    let (lo_um, hi_um) = (row.f64("lo_um"), row.f64("hi_um"));
+    let temperature_k = row.f64("temperature_k");
+    BandCase {
+        band: bandtemp::band::Band::rectangular(lo_um, hi_um, det).unwrap(),
+        lo_um,
+        hi_um,
+        temperature_k,
+        what: format!(
+            "line {}: {det:?} [{lo_um}, {hi_um}] um at {temperature_k} K",
+            row.line
+        ),
+    }
+}
+
 /// c2 = h c / k in um K from the exact CODATA 2018 h, c, k (for x = c2/(lambda T)).
 pub const C2_UMK: f64 = 6.626_070_15e-34 * 299_792_458.0 / 1.380_649e-23 * 1e6;
