@@ -67,6 +67,8 @@ pub mod ratio;
 pub mod scene;
 pub mod site_budget;
 mod sort;
+#[cfg(test)]
+mod test_rng;
 pub mod uncertainty;
 pub mod verify;
 

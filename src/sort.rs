@@ -136,6 +136,7 @@ fn sift_down<T: Copy>(values: &mut [T], mut root: usize, end: usize, less: &impl
 mod tests {
     extern crate std;
     use super::{heapsort_by, select_nth_by};
+    use crate::test_rng::Lcg;
     use std::vec;
     use std::vec::Vec;
 
@@ -144,13 +145,8 @@ mod tests {
     /// constant and two-valued inputs (the shapes that defeat a naive quickselect).
     #[test]
     fn selection_agrees_with_core_sort() {
-        let mut state: u64 = 7;
-        let mut next = move || {
-            state = state
-                .wrapping_mul(6_364_136_223_846_793_005)
-                .wrapping_add(1_442_695_040_888_963_407);
-            (state >> 33) % 23
-        };
+        let mut rng = Lcg(7);
+        let mut next = move || (rng.step() >> 33) % 23;
         for len in 0..70 {
             let data: Vec<f64> = (0..len)
                 .map(|_| match next() {
@@ -202,14 +198,11 @@ mod tests {
     /// infinities.
     #[test]
     fn agrees_with_core_sort() {
-        let mut state: u64 = 1;
+        let mut rng = Lcg(1);
         for len in 0..70 {
             let mut a = [0.0f64; 70];
             for x in a.iter_mut().take(len) {
-                state = state
-                    .wrapping_mul(6_364_136_223_846_793_005)
-                    .wrapping_add(1_442_695_040_888_963_407);
-                let r = (state >> 33) % 23;
+                let r = (rng.step() >> 33) % 23;
                 *x = match r {
                     0 => f64::INFINITY,
                     1 => f64::NEG_INFINITY,

@@ -252,6 +252,7 @@ pub(super) fn replacement_mean(
 mod tests {
     extern crate std;
     use super::median;
+    use crate::test_rng::Lcg;
     use std::vec::Vec;
 
     /// The median by selection against the median of a full sort (core's sort), the
@@ -260,16 +261,11 @@ mod tests {
     /// 300, and long constant, sorted and two-valued frames.
     #[test]
     fn median_agrees_with_full_sort() {
-        let mut state: u64 = 3;
+        let mut rng = Lcg(3);
         let mut inputs: Vec<Vec<f32>> = (1..300)
             .map(|len| {
                 (0..len)
-                    .map(|_| {
-                        state = state
-                            .wrapping_mul(6_364_136_223_846_793_005)
-                            .wrapping_add(1_442_695_040_888_963_407);
-                        f32::from(u16::try_from((state >> 33) % 41).unwrap()) - 20.0
-                    })
+                    .map(|_| f32::from(u16::try_from((rng.step() >> 33) % 41).unwrap()) - 20.0)
                     .collect()
             })
             .collect();

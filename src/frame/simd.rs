@@ -278,19 +278,7 @@ mod tests {
     use crate::frame::{CountsMap, FrameConverter, Rails, TemperatureRange};
     use crate::planck::Detector;
     use crate::scene::Scene;
-
-    /// A seeded linear congruential generator (Knuth's MMIX constants).
-    struct Lcg(u64);
-
-    impl Lcg {
-        fn next(&mut self) -> u32 {
-            self.0 = self
-                .0
-                .wrapping_mul(6_364_136_223_846_793_005)
-                .wrapping_add(1_442_695_040_888_963_407);
-            (self.0 >> 32) as u32
-        }
-    }
+    use crate::test_rng::Lcg;
 
     /// The SSE2 and AVX2 lookups against the portable one on every lane of random chunks:
     /// signals inside the table, around and far outside it, NaN, infinities, zero,
@@ -333,15 +321,15 @@ mod tests {
                     let mut signal = [0.0f32; LANES];
                     let mut valid = [0i32; LANES];
                     for (s, v) in signal.iter_mut().zip(valid.iter_mut()) {
-                        let u = rng.next();
+                        let u = rng.next_u32();
                         let span = lookup.hi - lookup.lo;
                         *s = match u % 8 {
-                            0 => f32::from_bits(rng.next()),
+                            0 => f32::from_bits(rng.next_u32()),
                             1 => [f32::NAN, f32::INFINITY, -f32::INFINITY, 0.0, -1.0]
-                                [(rng.next() % 5) as usize],
-                            2 => lookup.lo - span * (rng.next() as f32 / 4.3e9),
-                            3 => lookup.hi + span * (rng.next() as f32 / 4.3e9) * 100.0,
-                            _ => lookup.lo + span * (rng.next() as f32 / 4.295e9),
+                                [(rng.next_u32() % 5) as usize],
+                            2 => lookup.lo - span * (rng.next_u32() as f32 / 4.3e9),
+                            3 => lookup.hi + span * (rng.next_u32() as f32 / 4.3e9) * 100.0,
+                            _ => lookup.lo + span * (rng.next_u32() as f32 / 4.295e9),
                         };
                         // Mostly valid lanes; every lane invalid in some rounds.
                         *v = if round % 7 == 0 || u % 5 == 0 { 0 } else { -1 };
