@@ -113,6 +113,19 @@ fn derivative_per_k(scale: f64, derivative_integral: f64, temperature_k: f64) ->
     finite(derivative)
 }
 
+/// P1 = d ln f / d ln T = T f'/f. T f' can overflow where P1 does not (f near the top of
+/// the double range): then the other order, T (f'/f); the first is kept where it is
+/// finite.
+#[inline]
+fn log_slope(temperature_k: f64, slope: f64, value: f64) -> f64 {
+    let p1 = temperature_k * slope / value;
+    if p1.is_infinite() {
+        temperature_k * (slope / value)
+    } else {
+        p1
+    }
+}
+
 /// A piecewise-linear spectral table: values at strictly increasing wavelengths (um),
 /// linear between points and zero outside the table.
 ///
@@ -452,11 +465,7 @@ impl<'a> Band<'a> {
     /// As [`Band::radiance`].
     pub(crate) fn log_slope_and_curvature(&self, temperature_k: f64) -> Result<(f64, f64, f64)> {
         let (radiance, derivative, second) = self.radiance_derivatives(temperature_k)?;
-        let t = temperature_k;
-        let mut p1 = t * derivative / radiance;
-        if p1.is_infinite() {
-            p1 = t * (derivative / radiance);
-        }
+        let p1 = log_slope(temperature_k, derivative, radiance);
         let curvature = second / radiance - p1 * p1;
         let curvature = if curvature.is_finite() {
             curvature
@@ -1109,15 +1118,12 @@ where
                 residual: 0.0,
             });
         }
-        // P1 = d ln f / d ln T (NaN where f or f' is not usable). T f' can overflow where
-        // P1 does not (f near the top of the double range): then the other order.
-        let mut p1 = f64::NAN;
-        if value > 0.0 && value.is_finite() && slope > 0.0 {
-            p1 = t * slope / value;
-            if p1.is_infinite() {
-                p1 = t * (slope / value);
-            }
-        }
+        // P1 = d ln f / d ln T (NaN where f or f' is not usable).
+        let p1 = if value > 0.0 && value.is_finite() && slope > 0.0 {
+            log_slope(t, slope, value)
+        } else {
+            f64::NAN
+        };
         if value < target {
             lo = t;
             lo_seen = true;
@@ -1160,9 +1166,9 @@ where
         // representable is evaluated first: the root is then within rounding of the
         // overflow or underflow threshold, and the answer must have a signal.
         let near = NEWTON_FINAL_STEP * t;
-        let near_unrepresentable = (hi_residual == f64::INFINITY && hi - next <= near)
-            || (lo_residual == -1.0 && next - lo <= near);
-        let final_step = !near_unrepresentable
+        let near_overflow = hi_residual == f64::INFINITY && hi - next <= near;
+        let near_underflow = lo_residual == -1.0 && next - lo <= near;
+        let final_step = !(near_overflow || near_underflow)
             && ((newton && step <= NEWTON_FINAL_STEP * t)
                 || (halley && step <= HALLEY_FINAL_STEP * t));
         if final_step || step <= 1e-12 * t || hi - lo <= 4.0 * f64::EPSILON * hi {
@@ -1171,9 +1177,9 @@ where
             // a signal, and must pass the residual test below.
             let (mut next, mut residual, mut p1, mut stepped) =
                 (next, residual, p1, newton || halley);
-            if hi - next <= near && hi_residual == f64::INFINITY && lo_seen {
+            if near_overflow && lo_seen {
                 (next, residual, p1, stepped) = (lo, lo_residual, lo_p1, false);
-            } else if next - lo <= near && lo_residual == -1.0 && hi_seen {
+            } else if near_underflow && hi_seen {
                 (next, residual, p1, stepped) = (hi, hi_residual, hi_p1, false);
             }
             let at_floor = !lo_seen && next <= SOLVER_MIN_K * (1.0 + 1e-9);

@@ -115,14 +115,19 @@ struct Probe {
     curvature: f64,
 }
 
+impl Probe {
+    /// u = sign s - [`MIN_LOG_SLOPE`]: how far the slope, taken with the range's `sign`,
+    /// lies above the floor.
+    fn floor_margin(&self, sign: f64) -> f64 {
+        sign * self.slope - MIN_LOG_SLOPE
+    }
+}
+
 /// Whether the interval between two checked points is resolved: see [`RatioPyrometer::new`].
 /// Any NaN makes it unresolved.
 fn resolved(a: &Probe, b: &Probe, sign: f64) -> bool {
     let h = libm::log(b.t_k / a.t_k);
-    let (u_a, u_b) = (
-        sign * a.slope - MIN_LOG_SLOPE,
-        sign * b.slope - MIN_LOG_SLOPE,
-    );
+    let (u_a, u_b) = (a.floor_margin(sign), b.floor_margin(sign));
     let (d_a, d_b) = (sign * a.curvature, sign * b.curvature);
     u_a - h * (-d_a).max(0.0) > 0.0
         && u_b - h * d_b.max(0.0) > 0.0
@@ -176,8 +181,7 @@ impl<'a> RatioPyrometer<'a> {
         };
         let first = pyrometer.probe(t_min_k)?;
         let sign = if first.slope > 0.0 { 1.0 } else { -1.0 };
-        let floor_margin = |p: &Probe| sign * p.slope - MIN_LOG_SLOPE;
-        if !(floor_margin(&first) > 0.0) {
+        if !(first.floor_margin(sign) > 0.0) {
             return Err(Error::BandsIndistinguishable);
         }
         pyrometer.log_ratio_min = first.log_ratio;
@@ -198,7 +202,7 @@ impl<'a> RatioPyrometer<'a> {
                 t_min_k * libm::exp(span * fraction)
             };
             let point = pyrometer.probe(t)?;
-            if !(floor_margin(&point) > 0.0) {
+            if !(point.floor_margin(sign) > 0.0) {
                 return Err(Error::BandsIndistinguishable);
             }
             pending[0] = point;
@@ -218,7 +222,7 @@ impl<'a> RatioPyrometer<'a> {
                 }
                 let middle = pyrometer.probe(libm::sqrt(left.t_k * right.t_k))?;
                 extra += 1;
-                if !(floor_margin(&middle) > 0.0) {
+                if !(middle.floor_margin(sign) > 0.0) {
                     return Err(Error::BandsIndistinguishable);
                 }
                 depth += 1;
